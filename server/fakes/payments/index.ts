@@ -1,0 +1,109 @@
+/**
+ * Payments fake: a local stand-in for the hosted payments provider, reached by
+ * the product only through the official `stripe` SDK configured with
+ *   new Stripe('sk_test_…', { host: '127.0.0.1', port, protocol: 'http' })
+ *
+ * Provider API (needs `Authorization: Bearer sk_test_…`, form-encoded bodies):
+ *   POST /v1/checkout/sessions               create (mode=payment, line_items[].price_data, …)
+ *   GET  /v1/checkout/sessions               list (?payment_intent=, ?limit=)
+ *   GET  /v1/checkout/sessions/:id           retrieve (expand[]=line_items|payment_intent)
+ *   GET  /v1/checkout/sessions/:id/line_items
+ *   POST /v1/checkout/sessions/:id/expire
+ *   GET  /v1/payment_intents/:id, GET /v1/charges/:id
+ *   POST /v1/refunds (payment_intent | charge, amount?, reason?, metadata?)
+ *   GET  /v1/refunds/:id, GET /v1/events/:id
+ *
+ * Hosted test-payment page: GET/POST /pay/:sessionId (+ /pay/:id/authenticate).
+ *   4242 4242 4242 4242 succeeds · 4000 0000 0000 0002 is declined ·
+ *   4000 0027 6000 3184 needs an extra authentication step.
+ *
+ * Webhooks (JSON POST to webhookUrl, `Stripe-Signature` header, retried with
+ * backoff): payment_intent.succeeded, checkout.session.completed,
+ * payment_intent.payment_failed, payment_intent.requires_action,
+ * checkout.session.expired, refund.created, charge.refunded.
+ * Correlate payment_intent.* events through `payment_intent_data[metadata]`
+ * given at session creation (copied onto the intent, as the provider does).
+ *
+ * Control endpoints for tests (no key, JSON):
+ *   GET  /_fake/health                    → {ok, webhookUrl}
+ *   POST /_fake/reset                     forget all sessions, intents, refunds, events
+ *   POST /_fake/webhook {url}             change (or null to stop) the webhook endpoint
+ *   GET  /_fake/events?type=              every event with its delivery attempts
+ *   POST /_fake/events/:id/resend         deliver an event again
+ *   POST /_fake/sessions/:id/pay {card}   pay without a browser → {outcome, session, redirect}
+ *   POST /_fake/sessions/:id/authenticate {approve}   finish the 3184 card's step
+ */
+import type { AddressInfo } from 'node:net';
+import express from 'express';
+import { apiRouter } from './api.js';
+import type { FakeContext } from './context.js';
+import { controlRouter } from './control.js';
+import { PaymentFlow } from './flow.js';
+import { pageRouter } from './page.js';
+import { Store } from './store.js';
+import { WebhookSender } from './webhooks.js';
+
+export { signPayload } from './webhooks.js';
+export { TEST_CARDS } from './flow.js';
+
+export interface PaymentsFakeOptions {
+  port?: number; // 0 = any free port
+  host?: string; // loopback by default
+  webhookUrl?: string | null;
+  webhookSecret?: string;
+  // Delays before each retry of a failed webhook delivery.
+  retryDelaysMs?: number[];
+}
+
+export interface PaymentsFake {
+  url: string;
+  port: number;
+  setWebhookUrl(url: string | null): void;
+  close(): Promise<void>;
+}
+
+export const DEFAULT_WEBHOOK_SECRET = 'whsec_kneepoint_dev';
+const DEFAULT_RETRIES = [500, 1_000, 2_000, 4_000];
+
+export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise<PaymentsFake> {
+  const host = opts.host ?? '127.0.0.1';
+  const store = new Store();
+  const hooks = new WebhookSender(store, {
+    url: opts.webhookUrl ?? null,
+    secret: opts.webhookSecret ?? DEFAULT_WEBHOOK_SECRET,
+    retryDelaysMs: opts.retryDelaysMs ?? DEFAULT_RETRIES,
+  });
+  let baseUrl = '';
+  const ctx: FakeContext = { store, hooks, flow: new PaymentFlow(store, hooks), baseUrl: () => baseUrl };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.use('/v1', apiRouter(ctx));
+  app.use('/pay', pageRouter(ctx));
+  app.use('/_fake', controlRouter(ctx));
+  app.get('/', (_req, res) => {
+    res.type('text').send('Kneepoint payments fake. See server/fakes/payments/index.ts.');
+  });
+
+  const server = app.listen(opts.port ?? 3101, host);
+  await new Promise<void>((resolve, reject) => {
+    server.once('listening', resolve);
+    server.once('error', reject);
+  });
+  const port = (server.address() as AddressInfo).port;
+  baseUrl = `http://${host}:${port}`;
+
+  return {
+    url: baseUrl,
+    port,
+    setWebhookUrl: (url) => {
+      hooks.config.url = url;
+    },
+    close: () =>
+      new Promise<void>((resolve) => {
+        hooks.close();
+        server.close(() => resolve());
+        server.closeAllConnections();
+      }),
+  };
+}

@@ -1,0 +1,17 @@
+// Run the payments fake on its own:
+//   PORT=3101 WEBHOOK_URL=http://127.0.0.1:3000/api/payments/webhook \
+//   WEBHOOK_SECRET=whsec_kneepoint_dev tsx server/fakes/payments/main.ts
+import { DEFAULT_WEBHOOK_SECRET, startPaymentsFake } from './index.js';
+
+const fake = await startPaymentsFake({
+  port: Number(process.env.PORT ?? 3101),
+  webhookUrl: process.env.WEBHOOK_URL || null,
+  webhookSecret: process.env.WEBHOOK_SECRET || DEFAULT_WEBHOOK_SECRET,
+});
+console.log(`payments fake listening on ${fake.url} (webhooks → ${process.env.WEBHOOK_URL || 'none'})`);
+
+const stop = () => {
+  void fake.close().then(() => process.exit(0));
+};
+process.on('SIGINT', stop);
+process.on('SIGTERM', stop);
