@@ -3,7 +3,7 @@
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import nodemailer from 'nodemailer';
+import nodemailer, { type SendMailOptions } from 'nodemailer';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { type MailFake, startMailFake } from '../../server/fakes/mail/index.js';
 
@@ -12,7 +12,7 @@ const dir = mkdtempSync(join(tmpdir(), 'kneepoint-mail-'));
 const file = join(dir, 'mail.json');
 
 // A fresh transport per send: no pooled connection hides a stopped server.
-const send = (msg: nodemailer.SendMailOptions) =>
+const send = (msg: SendMailOptions) =>
   nodemailer
     .createTransport({ host: '127.0.0.1', port: fake.smtpPort, secure: false, ignoreTLS: true, connectionTimeout: 2_000 })
     .sendMail({ from: 'Kneepoint <shop@kneepoint.test>', ...msg });
