@@ -1,0 +1,16 @@
+import type { Knex } from 'knex';
+
+// The table layout connect-pg-simple expects (its documented schema).
+export async function up(knex: Knex): Promise<void> {
+  await knex.raw(`
+    CREATE TABLE "session" (
+      "sid" varchar NOT NULL COLLATE "default" PRIMARY KEY,
+      "sess" json NOT NULL,
+      "expire" timestamp(6) NOT NULL
+    )`);
+  await knex.raw('CREATE INDEX "IDX_session_expire" ON "session" ("expire")');
+}
+
+export async function down(knex: Knex): Promise<void> {
+  await knex.schema.dropTable('session');
+}

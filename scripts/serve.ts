@@ -1,0 +1,26 @@
+// Serves the product: the API and the built client from one Express process.
+import { loadConfig } from '../server/config';
+import { createKnex } from '../server/db/knex';
+import { createApp } from '../server/app';
+
+const config = loadConfig();
+const knex = createKnex(config.DATABASE_URL);
+const { app, close } = createApp({ knex, config });
+const server = app.listen(config.PORT, config.HOST, () => {
+  const accounts = ['owner', 'planner', 'assembler', 'tester', 'customer'].map((r) => `    ${r}@shop.example`).join('\n');
+  console.log(`
+[kneepoint] Kneepoint is up at ${config.publicUrl}
+[kneepoint] demo accounts (password: kneepoint-demo):
+${accounts}
+[kneepoint] Ctrl-C stops everything; data stays in .data/.`);
+});
+server.on('error', (error: NodeJS.ErrnoException) => {
+  console.error(error.code === 'EADDRINUSE' ? `[kneepoint] port ${config.PORT} is taken (PORT overrides).` : error);
+  process.exit(1);
+});
+const shutdown = () => {
+  server.close(() => void Promise.all([close(), knex.destroy()]).then(() => process.exit(0)));
+  setTimeout(() => process.exit(0), 3000).unref();
+};
+process.on('SIGTERM', shutdown);
+process.on('SIGINT', shutdown);

@@ -1,0 +1,80 @@
+import express from 'express';
+import helmet from 'helmet';
+import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
+import path from 'node:path';
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import pg from 'pg';
+import type { Knex } from 'knex';
+import type { Config } from './config';
+import { csrfProtection } from './auth/csrf';
+import { PostgresRateLimitStore } from './auth/rate-limit-store';
+import { createPassport, sessionMiddleware } from './auth/session';
+import { DomainError, errorMiddleware } from './errors';
+import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-table';
+import { authRoutes } from './routes/auth';
+import { healthRoutes } from './routes/health';
+import { userRoutes } from './routes/users';
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+export interface AppDeps {
+  knex: Knex;
+  config: Config;
+}
+
+/** Paths that prove themselves another way (a provider's signature) and so skip the CSRF check. */
+export const CSRF_EXEMPT = ['/api/payments/webhook'];
+
+declare module 'http' {
+  interface IncomingMessage {
+    rawBody?: Buffer;
+  }
+}
+
+/** Builds the whole product's Express app; `close` releases what it opened. */
+export function createApp({ knex, config }: AppDeps) {
+  const app = express();
+  const registry: RouteRegistry = { routes: [] };
+  const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5 });
+
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(helmet());
+  // Webhooks are verified against the exact bytes received, so keep them.
+  app.use(express.json({ limit: '1mb', verify: (req, _res, buf) => { req.rawBody = buf; } }));
+  app.use(sessionMiddleware(sessionPool, config));
+  const passport = createPassport(knex);
+  app.use(passport.initialize());
+  app.use(passport.session());
+  app.use('/api', csrfProtection(CSRF_EXEMPT.map((p) => p.replace(/^\/api/, ''))));
+
+  const loginLimiter = rateLimit({
+    windowMs: config.LOGIN_WINDOW_MINUTES * 60_000,
+    limit: config.LOGIN_MAX_FAILURES,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    store: new PostgresRateLimitStore(knex, 'login:'),
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
+    handler: (_req, _res, next) =>
+      next(new DomainError(429, 'rate_limited', 'Too many failed sign-in attempts: wait a few minutes and try again')),
+  });
+
+  const routes: RouteDef[] = [
+    ...healthRoutes(knex),
+    ...authRoutes(knex, passport, loginLimiter),
+    ...userRoutes(knex),
+  ];
+  app.use(buildRouter(routes, registry));
+  app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));
+
+  const dist = path.join(root, 'dist');
+  if (existsSync(dist)) {
+    app.use(express.static(dist, { index: false, maxAge: '1h' }));
+    app.get(/^\/(?!api\/).*/, (_req, res) => res.sendFile(path.join(dist, 'index.html')));
+  }
+  app.use(errorMiddleware);
+
+  return { app, registry, close: () => sessionPool.end() };
+}

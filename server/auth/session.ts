@@ -1,0 +1,46 @@
+import connectPgSimple from 'connect-pg-simple';
+import session from 'express-session';
+import passport from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import type pg from 'pg';
+import type { Knex } from 'knex';
+import type { SessionUser } from '../../shared/roles';
+import type { Config } from '../config';
+import { authenticate, findActiveUser } from '../services/users';
+
+const PgStore = connectPgSimple(session);
+const WEEK_MS = 7 * 24 * 3600 * 1000;
+
+/** Cookie sessions stored in PostgreSQL (table "session", made by a migration). */
+export function sessionMiddleware(pool: pg.Pool, config: Config) {
+  return session({
+    name: 'kneepoint.sid',
+    secret: config.SESSION_SECRET,
+    store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: false }),
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: config.COOKIE_SECURE === 'true', maxAge: WEEK_MS },
+  });
+}
+
+/** A passport instance of our own (not the global one), so two apps in one test process never share state. */
+export function createPassport(knex: Knex) {
+  const instance = new passport.Passport();
+  instance.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      authenticate(knex, email.trim().toLowerCase(), password).then(
+        (user) => done(null, user ?? false),
+        (error) => done(error),
+      );
+    }),
+  );
+  instance.serializeUser((user, done) => done(null, (user as SessionUser).id));
+  instance.deserializeUser((id: number, done) => {
+    findActiveUser(knex, id).then(
+      (user) => done(null, user ?? false),
+      (error) => done(error),
+    );
+  });
+  return instance;
+}

@@ -1,0 +1,51 @@
+import { Router, type Request, type RequestHandler, type Response } from 'express';
+import type { Role, SessionUser } from '../../shared/roles';
+import { forbidden, unauthorized } from '../errors';
+
+/** Who may call a route: anyone, any signed-in user, or the listed roles. */
+export type Allow = 'public' | 'signed-in' | readonly Role[];
+export type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
+
+export interface RouteDef {
+  method: Method;
+  path: string;
+  allow: Allow;
+  /** Middleware that runs after the guard (rate limits, upload parsers). */
+  before?: RequestHandler[];
+  handler: (req: Request, res: Response) => unknown;
+}
+
+/** Every route the app mounts, for the authorization matrix test. */
+export interface RouteRegistry {
+  routes: RouteDef[];
+}
+
+export function currentUser(req: Request): SessionUser {
+  const user = req.user as SessionUser | undefined;
+  if (!user) throw unauthorized();
+  return user;
+}
+
+function guard(allow: Allow, req: Request) {
+  if (allow === 'public') return;
+  const user = req.user as SessionUser | undefined;
+  if (!user) throw unauthorized();
+  if (allow === 'signed-in') return;
+  if (!allow.includes(user.role)) throw forbidden();
+}
+
+/** Builds an Express router from a flat table of routes, each behind its guard. */
+export function buildRouter(routes: RouteDef[], registry: RouteRegistry): Router {
+  const router = Router();
+  for (const route of routes) {
+    registry.routes.push(route);
+    const check: RequestHandler = (req, _res, next) => {
+      guard(route.allow, req);
+      next();
+    };
+    router[route.method](route.path, check, ...(route.before ?? []), async (req, res) => {
+      await route.handler(req, res);
+    });
+  }
+  return router;
+}

@@ -1,0 +1,281 @@
+// Steady-state output of a drive stage and clipping network for a sine tone.
+// Both topologies reduce to one node law: v/R + D(v) + C·dv/dt = J(t), with D the two strings'
+// net current; shunt: R = series, J = Vd/R, out = v; feedback: R = Rf, J = Vd/Rg, out = Vd + v.
+import { SOLVE_RELATIVE_TOLERANCE } from './constants';
+import { SolverError } from './errors';
+import { hasCapacitor, type StageSetup } from './network';
+import { prepareString, stringCurrent, stringVoltageAt, type PreparedString } from './strings';
+import type { Volts } from './units';
+
+const MAX_ITERATIONS = 300;
+// A local copy: module bindings may be read through accessors in some loaders, and this sits in the hot loop.
+const TOLERANCE = SOLVE_RELATIVE_TOLERANCE;
+
+/** Sampling of one period: points (a power of two) and substeps per point when a capacitor is present. */
+export interface SamplingOptions {
+  /** Samples per period, a power of two; default 1024 without a capacitor, 512 with one. */
+  samples?: number;
+  /** Integration substeps per sample when a capacitor is present; default 4. */
+  oversampling?: number;
+}
+
+interface NodeLaw {
+  positive: PreparedString;
+  negative: PreparedString;
+  /** 1/R of the node law. */
+  conductance: number;
+  /** J = drive · this. */
+  injection: number;
+  capacitance: number;
+  /** Diode conductance dD/dv at the last solve. */
+  diodeConductance: number;
+}
+
+function nodeLaw(setup: StageSetup): NodeLaw {
+  const n = setup.network;
+  const shunt = n.topology === 'shunt';
+  return {
+    positive: prepareString(n.topology === 'none' ? [] : n.positive, setup.temperatureC),
+    negative: prepareString(n.topology === 'none' ? [] : n.negative, setup.temperatureC),
+    conductance: shunt ? 1 / n.seriesOhms : 1 / n.feedbackOhms,
+    injection: shunt ? 1 / n.seriesOhms : 1 / n.groundOhms,
+    capacitance: shunt ? n.shuntFarads : n.feedbackFarads,
+    diodeConductance: 0,
+  };
+}
+
+/** Net diode current D(v) = I₊(v) − I₋(−v); sets law.diodeConductance. */
+function diodeCurrent(law: NodeLaw, v: number): number {
+  const ip = stringCurrent(law.positive, v);
+  const gp = law.positive.conductance;
+  const ineg = stringCurrent(law.negative, -v);
+  law.diodeConductance = gp + law.negative.conductance;
+  return ip - ineg;
+}
+
+/**
+ * Solve α·v + D(v) = β for v (D increasing, D(0) = 0, so v has the sign of β). The unknown is the
+ * forward string's log-current y (I = IS·expm1(y)), in which its voltage is explicit and the law is
+ * convex, so a safeguarded Newton with bracket [0, y_max] converges quickly for any IS and N; the
+ * reverse string's tiny current comes from its own bracketed solve. Throws SolverError if it fails.
+ */
+function solveNode(law: NodeLaw, alpha: number, beta: number, guess: number): number {
+  if (beta === 0) { diodeCurrent(law, 0); return 0; }
+  const sign = beta > 0 ? 1 : -1;
+  const forward = sign > 0 ? law.positive : law.negative;
+  const reverse = sign > 0 ? law.negative : law.positive;
+  if (forward.empty) return solveNodeInVolts(law, alpha, beta, guess);
+  const b = sign * beta;
+  let lo = 0;
+  let hi = Math.min(Math.log1p(b / forward.isMin), b / (alpha * forward.nvtMin));
+  if (forward.rs > 0) hi = Math.min(hi, Math.log1p(b / (alpha * forward.isMin * forward.rs)));
+  let y = forward.y > lo && forward.y < hi ? forward.y : 0.5 * (lo + hi);
+  for (let iter = 0; iter < MAX_ITERATIONS; iter++) {
+    const v = stringVoltageAt(forward, y, work);
+    const dvdi = work[0];
+    const i = work[1];
+    const ir = stringCurrent(reverse, -v);
+    const gr = reverse.conductance;
+    const h = alpha * v + i - ir - b;
+    // dH/dy = dI/dy · (1 + (α + g_reverse)·dV/dI), dI/dy = IS·e^y
+    const didy = forward.isMin * Math.exp(y);
+    const slope = didy * (1 + (alpha + gr) * dvdi);
+    let done = h === 0;
+    if (!done) {
+      if (h > 0) hi = y; else lo = y;
+      const step = h / slope;
+      const tol = TOLERANCE * Math.max(1, Math.abs(y));
+      let next = y - step;
+      if (Math.abs(step) <= tol) done = true;
+      else if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+      done = done || hi - lo <= tol;
+      y = next;
+    }
+    if (done) {
+      const vFinal = stringVoltageAt(forward, y, work);
+      forward.y = y;
+      forward.conductance = 1 / work[0];
+      stringCurrent(reverse, -vFinal);
+      law.diodeConductance = forward.conductance + reverse.conductance;
+      return sign * vFinal;
+    }
+  }
+  throw new SolverError(`clipping node did not converge (α=${alpha}, β=${beta}) after ${MAX_ITERATIONS} iterations`);
+}
+
+const work = new Float64Array(2);
+
+/** The same law solved in volts, for a network whose forward string is empty (only leakage flows). */
+function solveNodeInVolts(law: NodeLaw, alpha: number, beta: number, guess: number): number {
+  const end = beta / alpha;
+  let lo = Math.min(0, end);
+  let hi = Math.max(0, end);
+  let v = guess > lo && guess < hi ? guess : end;
+  for (let iter = 0; iter < MAX_ITERATIONS; iter++) {
+    const h = alpha * v + diodeCurrent(law, v) - beta;
+    if (h === 0) return v;
+    if (h > 0) hi = v; else lo = v;
+    let next = v - h / (alpha + law.diodeConductance);
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    const tol = 1e-12 * Math.abs(next) + 1e-300;
+    if (Math.abs(next - v) <= tol || hi - lo <= tol) {
+      diodeCurrent(law, next);
+      return next;
+    }
+    v = next;
+  }
+  throw new SolverError(`clipping node did not converge (α=${alpha}, β=${beta}) after ${MAX_ITERATIONS} iterations`);
+}
+
+function checkPowerOfTwo(n: number, path: string): void {
+  if (!Number.isInteger(n) || n < 64 || n > 65536 || (n & (n - 1)) !== 0) {
+    throw new SolverError(`${path} must be a power of two in 64..65536, got ${n}`, path);
+  }
+}
+
+/** Drive-stage output at phase θ (radians): gain·A·sin θ, clipped ideally at the rail. */
+function driveAt(setup: StageSetup, phase: number): Volts {
+  const v = setup.driveGain * setup.inputPeakV * Math.sin(phase);
+  const rail = setup.railPeakV;
+  if (rail === null) return v;
+  return v > rail ? rail : v < -rail ? -rail : v;
+}
+
+/** Static (memoryless) output for a drive-stage voltage, e.g. ≈0.6 V for 5 V into a 1N4148-like shunt pair. */
+function staticOutput(setup: StageSetup, law: NodeLaw, vd: Volts, guess: number): { out: Volts; state: number } {
+  if (setup.network.topology === 'none') return { out: vd, state: 0 };
+  const v = solveNode(law, law.conductance, vd * law.injection, guess);
+  return { out: setup.network.topology === 'feedback' ? vd + v : v, state: v };
+}
+
+/**
+ * One steady-state period of the output, sampled coherently at `samples` points starting at the
+ * input's positive-going zero crossing, e.g. periodicOutput(setup).length = 1024.
+ */
+export function periodicOutput(setup: StageSetup, options: SamplingOptions = {}): Float64Array {
+  if (hasCapacitor(setup.network)) return dynamicPeriod(setup, options);
+  const n = options.samples ?? 1024;
+  checkPowerOfTwo(n, 'samples');
+  const out = new Float64Array(n);
+  const law = nodeLaw(setup);
+  // Quarter-wave symmetry of the sine input: sample N/2 − k equals sample k, sample 3N/2 − k equals k.
+  let state = 0;
+  for (let k = 0; k <= n / 4; k++) {
+    const r = staticOutput(setup, law, driveAt(setup, (2 * Math.PI * k) / n), state);
+    out[k] = r.out; state = r.state;
+  }
+  state = 0;
+  for (let k = n / 2; k <= (3 * n) / 4; k++) {
+    const r = staticOutput(setup, law, driveAt(setup, (2 * Math.PI * k) / n), state);
+    out[k] = r.out; state = r.state;
+  }
+  for (let k = n / 4 + 1; k < n / 2; k++) out[k] = out[n / 2 - k];
+  for (let k = (3 * n) / 4 + 1; k < n; k++) out[k] = out[(3 * n) / 2 - k];
+  return out;
+}
+
+/** Static transfer: output for each drive-stage input voltage (no capacitor), e.g. for a Vout-vs-Vin chart. */
+export function staticTransfer(setup: StageSetup, inputs: readonly Volts[]): Float64Array {
+  if (hasCapacitor(setup.network)) {
+    throw new SolverError('a static transfer curve needs a network without a capacitor', 'clipper');
+  }
+  const law = nodeLaw(setup);
+  const out = new Float64Array(inputs.length);
+  let state = 0;
+  for (let i = 0; i < inputs.length; i++) {
+    const vin = inputs[i];
+    const g = setup.driveGain * vin;
+    const rail = setup.railPeakV;
+    const vd = rail === null ? g : Math.max(-rail, Math.min(rail, g));
+    const r = staticOutput(setup, law, vd, state);
+    out[i] = r.out; state = r.state;
+  }
+  return out;
+}
+
+// TR-BDF2 (Bank et al., 1985): a trapezoidal stage to t + γh, then BDF2; one-step and L-stable,
+// so stiff diode conduction does not ring and the period map is scalar (one capacitor voltage).
+const GAMMA = 2 - Math.SQRT2;
+const C1 = 1 / (GAMMA * (2 - GAMMA));
+const C2 = ((1 - GAMMA) * (1 - GAMMA)) / (GAMMA * (2 - GAMMA));
+const MAX_SHOOTING = 60;
+
+interface PeriodRun {
+  end: number;
+  sensitivity: number;
+  peak: number;
+}
+
+function dynamicPeriod(setup: StageSetup, options: SamplingOptions): Float64Array {
+  const n = options.samples ?? 512;
+  checkPowerOfTwo(n, 'samples');
+  const m = options.oversampling ?? 4;
+  if (!Number.isInteger(m) || m < 1 || m > 64) throw new SolverError(`oversampling must be an integer in 1..64, got ${m}`, 'oversampling');
+  const law = nodeLaw(setup);
+  const steps = n * m;
+  const period = 1 / setup.toneHz;
+  const h = period / steps;
+  const cap = law.capacitance;
+  const g = law.conductance;
+  const k1 = (GAMMA * h) / 2;
+  const k2 = ((1 - GAMMA) / (2 - GAMMA)) * h;
+  const a1 = cap / k1 + g;
+  const a2 = cap / k2 + g;
+  const jStage = new Float64Array(steps);
+  const jEnd = new Float64Array(steps);
+  for (let j = 0; j < steps; j++) {
+    jStage[j] = driveAt(setup, (2 * Math.PI * (j + GAMMA)) / steps) * law.injection;
+    jEnd[j] = driveAt(setup, (2 * Math.PI * (j + 1)) / steps) * law.injection;
+  }
+  const state = new Float64Array(n);
+
+  const run = (v0: number): PeriodRun => {
+    let v = v0;
+    let d = diodeCurrent(law, v);
+    let f = (driveAt(setup, 0) * law.injection - g * v - d) / cap;
+    let s = 1;
+    let sf = -(g + law.diodeConductance) / cap;
+    let peak = 0;
+    for (let j = 0; j < steps; j++) {
+      if (j % m === 0) state[j / m] = v;
+      const r1 = v + k1 * f;
+      const vg = solveNode(law, a1, (cap * r1) / k1 + jStage[j], v);
+      const sg = ((cap / k1) * (s + k1 * sf)) / (a1 + law.diodeConductance);
+      const r2 = C1 * vg - C2 * v;
+      const vn = solveNode(law, a2, (cap * r2) / k2 + jEnd[j], vg);
+      const sr2 = C1 * sg - C2 * s;
+      const sn = ((cap / k2) * sr2) / (a2 + law.diodeConductance);
+      f = (vn - r2) / k2;
+      sf = (sn - sr2) / k2;
+      v = vn; s = sn;
+      if (Math.abs(v) > peak) peak = Math.abs(v);
+    }
+    return { end: v, sensitivity: s, peak };
+  };
+
+  let v0 = 0;
+  let last = run(v0);
+  let residual = last.end - v0;
+  for (let it = 0; it < MAX_SHOOTING; it++) {
+    const tol = 1e-10 * Math.max(last.peak, 1e-9);
+    if (Math.abs(residual) <= tol) return toOutput(setup, state, n);
+    // Newton on F(v0) = Φ(v0) − v0 with F' = Φ' − 1 < 0; halve the step while the residual grows.
+    let step = -residual / (last.sensitivity - 1);
+    let next = run(v0 + step);
+    let nextResidual = next.end - (v0 + step);
+    for (let halving = 0; halving < 20 && Math.abs(nextResidual) > Math.abs(residual); halving++) {
+      step /= 2;
+      next = run(v0 + step);
+      nextResidual = next.end - (v0 + step);
+    }
+    v0 += step; last = next; residual = nextResidual;
+  }
+  throw new SolverError(`periodic steady state not reached after ${MAX_SHOOTING} shooting iterations (residual ${residual} V)`);
+}
+
+function toOutput(setup: StageSetup, state: Float64Array, n: number): Float64Array {
+  if (setup.network.topology !== 'feedback') return state.slice();
+  const out = new Float64Array(n);
+  for (let k = 0; k < n; k++) out[k] = driveAt(setup, (2 * Math.PI * k) / n) + state[k];
+  return out;
+}

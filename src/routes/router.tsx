@@ -1,0 +1,25 @@
+import { createBrowserRouter } from 'react-router';
+import { AppShell } from '../components/AppShell';
+import { paths } from '../lib/navigation';
+
+// Route modules are lazy: each page's code loads when it is first visited.
+const page = (load: () => Promise<{ default: React.ComponentType }>) => async () => ({ Component: (await load()).default });
+const named = <K extends string>(load: () => Promise<Record<K, React.ComponentType>>, name: K) => async () => ({ Component: (await load())[name] });
+
+export const router = createBrowserRouter([
+  { path: '/', lazy: page(() => import('./HomeRedirect')) },
+  { path: paths.signIn, lazy: page(() => import('../features/auth/SignInPage')) },
+  { path: paths.register, lazy: page(() => import('../features/auth/RegisterPage')) },
+  {
+    element: <AppShell />,
+    children: [
+      { path: paths.account, lazy: page(() => import('../features/auth/AccountPage')) },
+      { path: paths.users, lazy: page(() => import('../features/users/UsersPage')) },
+      { path: paths.board, lazy: named(() => import('./StartPages'), 'BoardPage') },
+      { path: paths.builds, lazy: named(() => import('./StartPages'), 'BuildsPage') },
+      { path: paths.bench, lazy: named(() => import('./StartPages'), 'BenchPage') },
+      { path: paths.shop, lazy: named(() => import('./StartPages'), 'ShopPage') },
+    ],
+  },
+  { path: '*', lazy: page(() => import('./NotFoundPage')) },
+]);

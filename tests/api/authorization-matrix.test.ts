@@ -1,0 +1,70 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { ROLES, type Role } from '../../shared/roles';
+import { anonymousAgent, DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+
+// Who may call each /api route. Every route the app mounts must have a row here, so a new
+// route without a decision fails this test. 'public' = anyone; 'signed-in' = any role.
+type Rule = 'public' | 'signed-in' | Role[];
+const STAFF: Role[] = ['owner', 'planner', 'assembler', 'tester'];
+const CATALOG_EDITORS: Role[] = ['owner', 'planner'];
+export const MATRIX: Record<string, Rule> = {
+  'GET /api/health': 'public',
+  'GET /api/auth/csrf': 'public',
+  'POST /api/auth/login': 'public',
+  'POST /api/auth/logout': 'public',
+  'GET /api/auth/me': 'signed-in',
+  'POST /api/auth/register': 'public',
+  'POST /api/auth/password': 'signed-in',
+  'GET /api/users': ['owner'],
+  'POST /api/users': ['owner'],
+  'PATCH /api/users/:id': ['owner'],
+};
+void STAFF;
+void CATALOG_EDITORS;
+
+const t = startTestApp();
+afterAll(() => t.stop());
+
+const identities: (Role | 'anonymous')[] = ['anonymous', ...ROLES];
+const samplePath = (path: string) => path.replace(/:serial\b/g, 'KP-NONE-0000').replace(/:[a-zA-Z]+/g, '999999');
+
+function allowed(rule: Rule, who: Role | 'anonymous') {
+  if (rule === 'public') return true;
+  if (who === 'anonymous') return false;
+  return rule === 'signed-in' || rule.includes(who);
+}
+
+describe('authorization matrix', () => {
+  it('has a decision for every mounted route, and no stale rows', () => {
+    const mounted = t.registry.routes.map((r) => `${r.method.toUpperCase()} ${r.path}`);
+    expect(mounted.filter((key) => !(key in MATRIX))).toEqual([]);
+    expect(Object.keys(MATRIX).filter((key) => !mounted.includes(key))).toEqual([]);
+  });
+
+  it('lets each role through exactly where the table says', async () => {
+    const agents = new Map<string, TestAgent>();
+    agents.set('anonymous', await anonymousAgent(t.app));
+    for (const role of ROLES) agents.set(role, await signedInAgent(t.app, DEMO[role]));
+    const mismatches: string[] = [];
+    // Sign-out ends the agent's session, so it goes last.
+    const routes = [...t.registry.routes].sort((a, b) => Number(a.path === '/api/auth/logout') - Number(b.path === '/api/auth/logout'));
+    for (const route of routes) {
+      const key = `${route.method.toUpperCase()} ${route.path}`;
+      for (const who of identities) {
+        const agent = agents.get(who)!;
+        const req = agent[route.method](samplePath(route.path)).set('X-CSRF-Token', agent.csrf);
+        const res = route.method === 'get' ? await req : await req.send({});
+        const expectAllowed = allowed(MATRIX[key], who);
+        const denied = res.status === 401 || res.status === 403;
+        if (expectAllowed === denied && !(route.path === '/api/auth/login' && res.status === 401)) {
+          mismatches.push(`${key} as ${who}: got ${res.status}, expected ${expectAllowed ? 'allowed' : 'denied'}`);
+        }
+        if (!expectAllowed) {
+          const wanted = who === 'anonymous' ? 401 : 403;
+          if (res.status !== wanted) mismatches.push(`${key} as ${who}: got ${res.status}, expected ${wanted}`);
+        }
+      }
+    }
+    expect(mismatches).toEqual([]);
+  });
+});

@@ -1,0 +1,65 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import path from 'node:path';
+import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
+import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+
+const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> = {
+  owner: { home: '/board', nav: ['Production board', 'People & roles', 'My account'] },
+  planner: { home: '/board', nav: ['Production board', 'My account'] },
+  assembler: { home: '/builds', nav: ['My builds', 'My account'] },
+  tester: { home: '/bench', nav: ['Test bench', 'My account'] },
+  customer: { home: '/shop', nav: ['Pedals', 'My account'] },
+};
+
+const t = startTestApp();
+let browser: Browser;
+let server: Awaited<ReturnType<typeof listen>>;
+
+beforeAll(async () => {
+  server = await listen(t.app);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await t.stop();
+});
+
+describe('the app shell in a browser', () => {
+  for (const role of Object.keys(EXPECTED_NAV) as (keyof typeof DEMO)[]) {
+    it(`signs in as ${role}, lands on its start page and sees its navigation`, async () => {
+      const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+      await page.goto(`${server.url}/`);
+      await page.waitForURL('**/sign-in');
+      await page.getByLabel('E-mail').fill(DEMO[role]);
+      await page.getByLabel('Password').fill(DEMO_PASSWORD);
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.waitForURL(`**${EXPECTED_NAV[role].home}`);
+      const links = await page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents();
+      expect(links).toEqual(EXPECTED_NAV[role].nav);
+      await page.screenshot({ path: path.join(SCREENSHOTS, `shell-${role}.png`) });
+      await page.getByRole('button', { name: 'Sign out' }).first().click();
+      await page.waitForURL('**/sign-in');
+      await page.close();
+    });
+  }
+
+  it('says a failed sign-in in words and stays on the page', async () => {
+    const page = await browser.newPage();
+    await page.goto(`${server.url}/sign-in`);
+    await page.getByLabel('E-mail').fill(DEMO.owner);
+    await page.getByLabel('Password').fill('wrong password');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await expect(page.getByRole('alert').textContent()).resolves.toMatch(/do not match/);
+    expect(page.url()).toMatch(/\/sign-in$/);
+    await page.close();
+  });
+
+  it('shows a page-not-found page for an unknown address', async () => {
+    const page = await browser.newPage();
+    await page.goto(`${server.url}/no/such/page`);
+    await expect(page.getByRole('heading', { name: 'Page not found' }).isVisible()).resolves.toBe(true);
+    await page.close();
+  });
+});

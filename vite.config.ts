@@ -1,0 +1,12 @@
+import { defineConfig } from 'vite';
+import react from '@vitejs/plugin-react';
+import tailwindcss from '@tailwindcss/vite';
+
+export default defineConfig({
+  plugins: [react(), tailwindcss()],
+  server: {
+    host: '127.0.0.1',
+    proxy: { '/api': 'http://127.0.0.1:3000', '/verify': 'http://127.0.0.1:3000' },
+  },
+  build: { outDir: 'dist', emptyOutDir: true, chunkSizeWarningLimit: 900 },
+});
