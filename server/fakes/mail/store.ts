@@ -1,7 +1,8 @@
 // Every message the mail fake received, newest last in memory. Optionally
 // mirrored to a JSON file so a restarted fake still shows earlier mail.
 import { randomUUID } from 'node:crypto';
-import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { dirname } from 'node:path';
 import type { AddressObject, ParsedMail } from 'mailparser';
 
 export interface StoredAttachment {
@@ -59,6 +60,7 @@ export class MailStore {
   private messages: StoredMessage[] = [];
 
   constructor(private file?: string) {
+    if (file) mkdirSync(dirname(file), { recursive: true });
     if (file && existsSync(file)) this.messages = JSON.parse(readFileSync(file, 'utf8')) as StoredMessage[];
   }
 
