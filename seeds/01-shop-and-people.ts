@@ -18,7 +18,7 @@ export const DEMO_PEOPLE = [
 
 export async function seed(knex: Knex): Promise<void> {
   await knex('settings')
-    .insert({ id: 1, shop_name: 'Hollowmere Effects', shop_email: 'workshop@shop.example', currency: 'EUR', time_zone: 'Europe/Berlin', labour_cents_per_hour: 3200 })
+    .insert({ id: 1, shop_name: 'Hollowmere Effects', shop_email: 'workshop@shop.example', currency: 'EUR', time_zone: 'Europe/Berlin', labour_cents_per_hour: 3200, shop_address: 'Hollowmere Effects · Kiln Yard 7 · 10999 Berlin · workshop@shop.example' })
     .onConflict('id')
     .ignore();
   const existing = new Set((await knex('users').select('email')).map((r: { email: string }) => r.email));

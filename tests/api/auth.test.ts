@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { anonymousAgent, DEMO, DEMO_PASSWORD, signedInAgent, startTestApp, uniqueEmail } from '../support/app';
 
 const t = startTestApp({ LOGIN_MAX_FAILURES: '3' });
