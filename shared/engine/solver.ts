@@ -231,7 +231,7 @@ function dynamicPeriod(setup: StageSetup, options: SamplingOptions): Float64Arra
 
   const run = (v0: number): PeriodRun => {
     let v = v0;
-    let d = diodeCurrent(law, v);
+    const d = diodeCurrent(law, v);
     let f = (driveAt(setup, 0) * law.injection - g * v - d) / cap;
     let s = 1;
     let sf = -(g + law.diodeConductance) / cap;

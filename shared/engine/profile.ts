@@ -1,0 +1,120 @@
+// The harmonic profile: reference operating point, drive sweep, clipping onset, static transfer curve.
+import { resolveCircuit, setupAtDrive, type Circuit, type CircuitSpec } from './circuit';
+import { checkRange } from './errors';
+import { monteCarlo, type MonteCarloOptions, type ToleranceBands } from './montecarlo';
+import { gainAtDrive, hasCapacitor } from './network';
+import { periodicOutput, staticTransfer, type SamplingOptions } from './solver';
+import { analyse, type Spectrum } from './spectrum';
+import type { Decibels, Ratio, Volts } from './units';
+
+/** One point of the drive sweep, e.g. {drive: 0.5, gain: 20.9, thdF: 0.21, harmonicsDbc: [−30, −13, …], …}. */
+export interface SweepPoint {
+  drive: Ratio;
+  gain: Ratio;
+  thdF: Ratio;
+  thdR: Ratio;
+  /** dBc of H2…H7, in order. */
+  harmonicsDbc: Decibels[];
+  fundamentalPeakV: Volts;
+  outputRmsV: Volts;
+  dcV: Volts;
+}
+
+/** The static transfer curve: output against the stage input at one drive setting. */
+export interface TransferCurve {
+  drive: Ratio;
+  inputV: Volts[];
+  outputV: Volts[];
+}
+
+/** Everything a spec sheet or chart shows about one clipping option. */
+export interface HarmonicProfile {
+  reference: { drive: Ratio; gain: Ratio; spectrum: Spectrum };
+  sweep: SweepPoint[];
+  /** Drive rotation where THD_F crosses 1 % (interpolated in log THD), 0 if already above, null if never. */
+  clippingOnsetDrive: Ratio | null;
+  /** Null when the network has a capacitor (the response then depends on history). */
+  transfer: TransferCurve | null;
+  tolerance: ToleranceBands | null;
+}
+
+/** Options of computeProfile; every field has a default. */
+export interface ProfileOptions {
+  harmonics?: number;
+  sweepPoints?: number;
+  transferPoints?: number;
+  sampling?: SamplingOptions;
+  /** Run tolerance bands too (slower); default false. */
+  monteCarlo?: MonteCarloOptions | false;
+}
+
+/** THD_F level that defines the clipping onset: 1 %. */
+export const CLIPPING_ONSET_THD: Ratio = 0.01;
+
+/** Drive sweep of THD and H2…H7 over evenly spaced rotations 0..1, e.g. driveSweep(c, 25).length = 25. */
+export function driveSweep(spec: CircuitSpec | Circuit, points = 25, sampling: SamplingOptions = {}): SweepPoint[] {
+  checkRange(points, 2, 1001, 'sweepPoints');
+  const c = resolveCircuit(spec);
+  const out: SweepPoint[] = [];
+  for (let i = 0; i < points; i++) {
+    const drive = i / (points - 1);
+    const s = analyse(periodicOutput(setupAtDrive(c, drive), sampling), 7);
+    out.push({
+      drive, gain: gainAtDrive(c.drive, drive), thdF: s.thdF, thdR: s.thdR,
+      harmonicsDbc: s.harmonics.slice(1, 7).map((h) => h.dbc),
+      fundamentalPeakV: s.fundamentalPeakV, outputRmsV: s.rmsV, dcV: s.dcV,
+    });
+  }
+  return out;
+}
+
+/** Drive where THD_F first reaches 1 %, interpolated in log10(THD_F), e.g. 0.31; 0 if above from the start, null if never. */
+export function clippingOnset(sweep: readonly SweepPoint[], level: Ratio = CLIPPING_ONSET_THD): Ratio | null {
+  if (sweep.length === 0) return null;
+  if (sweep[0].thdF >= level) return sweep[0].drive;
+  for (let i = 1; i < sweep.length; i++) {
+    const a = sweep[i - 1];
+    const b = sweep[i];
+    if (b.thdF >= level) {
+      const la = Math.log10(Math.max(a.thdF, 1e-300));
+      const lb = Math.log10(b.thdF);
+      const t = (Math.log10(level) - la) / (lb - la);
+      return a.drive + t * (b.drive - a.drive);
+    }
+  }
+  return null;
+}
+
+/**
+ * Static transfer curve (output vs stage input) at a drive rotation over ±range, e.g. transferCurve(c, {points: 101}).
+ * Throws for a network with a capacitor. Default range: ±1.25 × the circuit's input peak.
+ */
+export function transferCurve(spec: CircuitSpec | Circuit, opts: { drive?: Ratio; points?: number; rangeV?: Volts } = {}): TransferCurve {
+  const c = resolveCircuit(spec);
+  const drive = checkRange(opts.drive ?? c.referenceDrive, 0, 1, 'drive');
+  const points = checkRange(opts.points ?? 101, 2, 100001, 'points');
+  const range = checkRange(opts.rangeV ?? 1.25 * c.drive.inputPeakV, 1e-9, 1000, 'rangeV');
+  const inputV: number[] = [];
+  for (let i = 0; i < points; i++) inputV.push(-range + (2 * range * i) / (points - 1));
+  const outputV = Array.from(staticTransfer(setupAtDrive(c, drive), inputV));
+  return { drive, inputV, outputV };
+}
+
+/** Full harmonic profile of a circuit, e.g. computeProfile(spec).clippingOnsetDrive ≈ 0.2. */
+export function computeProfile(spec: CircuitSpec | Circuit, options: ProfileOptions = {}): HarmonicProfile {
+  const c = resolveCircuit(spec);
+  const harmonics = options.harmonics ?? 10;
+  const sampling = options.sampling ?? {};
+  const sweep = driveSweep(c, options.sweepPoints ?? 25, sampling);
+  const referenceSetup = setupAtDrive(c, c.referenceDrive);
+  return {
+    reference: {
+      drive: c.referenceDrive, gain: referenceSetup.driveGain,
+      spectrum: analyse(periodicOutput(referenceSetup, sampling), harmonics),
+    },
+    sweep,
+    clippingOnsetDrive: clippingOnset(sweep),
+    transfer: hasCapacitor(c.network) ? null : transferCurve(c, { points: options.transferPoints ?? 101 }),
+    tolerance: options.monteCarlo ? monteCarlo(c, options.monteCarlo) : null,
+  };
+}
