@@ -216,7 +216,21 @@ function serve(devServer) {
     log('building the client …');
     if (!run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
   }
-  const children = [spawn(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['scripts/serve.ts'], { cwd: ROOT, env, stdio: 'inherit' })];
+  const tsxBin = path.join(ROOT, 'node_modules', '.bin', 'tsx');
+  // The local stand-ins for the payments provider and the mail server: separate programs.
+  const fakes = {
+    PAYMENTS_FAKE_PORT: '3101',
+    WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/payments/webhook`,
+    WEBHOOK_SECRET: 'whsec_kneepoint_local',
+    MAIL_FAKE_SMTP_PORT: '3125',
+    MAIL_FAKE_HTTP_PORT: '3126',
+    MAIL_FILE: path.join(DATA, 'mail-fake.json'),
+  };
+  const children = [
+    spawn(tsxBin, ['server/fakes/payments/main.ts'], { cwd: ROOT, env: { ...env, ...fakes }, stdio: 'inherit' }),
+    spawn(tsxBin, ['server/fakes/mail/main.ts'], { cwd: ROOT, env: { ...env, ...fakes }, stdio: 'inherit' }),
+    spawn(tsxBin, ['scripts/serve.ts'], { cwd: ROOT, env, stdio: 'inherit' }),
+  ];
   if (devServer) {
     children.push(spawn(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['--port', '5173', '--strictPort'], { cwd: ROOT, env, stdio: 'inherit' }));
   }
