@@ -191,6 +191,15 @@ function takeStartLock() {
   return () => rmSync(lock, { force: true });
 }
 
+function otherUsersOfCluster() {
+  if (!existsSync(DATA)) return false;
+  return readdirSync(DATA).some((name) => {
+    if (!name.startsWith('test-run-') && name !== 'start.lock') return false;
+    const pid = Number(readFileSync(path.join(DATA, name), 'utf8'));
+    return pid !== process.pid && pid > 0 && processAlive(pid);
+  });
+}
+
 function tsx(script, args, env) {
   return run(path.join(ROOT, 'node_modules', '.bin', 'tsx'), [script, ...args], { env });
 }
@@ -258,6 +267,9 @@ function test() {
   if (!existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
   if (!existsSync('/usr/bin/ngspice')) aptInstall(['ngspice']);
   if (!existsSync('/usr/bin/pdftoppm')) aptInstall(['poppler-utils']);
+  mkdirSync(DATA, { recursive: true });
+  const marker = path.join(DATA, `test-run-${process.pid}`);
+  writeFileSync(marker, String(process.pid));
   const { bin, startedPostgres, env: baseEnv } = prepare(database, true);
   const env = { ...baseEnv, NODE_ENV: 'test', SESSION_SECRET: 'test-secret-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
   const bins = path.join(ROOT, 'node_modules', '.bin');
@@ -278,7 +290,10 @@ function test() {
       break;
     }
   }
-  if (startedPostgres) stopPostgres(bin);
+  rmSync(marker, { force: true });
+  // Several test runs (or npm start) may share the cluster: the last one out stops it.
+  if (!otherUsersOfCluster()) stopPostgres(bin);
+  else if (startedPostgres) log('PostgreSQL left running: another run still uses it.');
   process.exit(ok ? 0 : 1);
 }
 
