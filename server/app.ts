@@ -14,6 +14,7 @@ import { DomainError, errorMiddleware } from './errors';
 import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-table';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
+import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -65,6 +66,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...healthRoutes(knex),
     ...authRoutes(knex, passport, loginLimiter),
     ...userRoutes(knex),
+    ...settingsRoutes(knex),
   ];
   app.use(buildRouter(routes, registry));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));

@@ -18,6 +18,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/users': ['owner'],
   'POST /api/users': ['owner'],
   'PATCH /api/users/:id': ['owner'],
+  'GET /api/settings/public': 'public',
 };
 void STAFF;
 void CATALOG_EDITORS;

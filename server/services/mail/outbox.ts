@@ -1,0 +1,33 @@
+import type { Knex } from 'knex';
+
+export interface OutgoingMail {
+  /** One mail per event: a second enqueue with the same key is ignored (e.g. `order-received:42`). */
+  dedupeKey: string;
+  /** A template name in templates/mail/ (e.g. `order-received`). */
+  template: string;
+  to: string;
+  /** What the template needs; stored as JSON. */
+  data: Record<string, unknown>;
+  /** Files to attach, by `files.id` (e.g. a unit's stored spec sheet). */
+  attachments?: { filename: string; fileId: number }[];
+}
+
+/**
+ * Writes a mail to the outbox inside the caller's transaction, so it exists exactly when the
+ * change that causes it commits; the outbox worker sends it with retries. Returns true when
+ * queued, false when that event's mail was already queued.
+ */
+export async function enqueueMail(trx: Knex | Knex.Transaction, mail: OutgoingMail): Promise<boolean> {
+  const rows = await trx('outbox')
+    .insert({
+      dedupe_key: mail.dedupeKey,
+      template: mail.template,
+      to_address: mail.to,
+      data: JSON.stringify(mail.data),
+      attachments: JSON.stringify(mail.attachments ?? []),
+    })
+    .onConflict('dedupe_key')
+    .ignore()
+    .returning('id');
+  return rows.length > 0;
+}
