@@ -10,12 +10,15 @@ import type { Volts } from './units';
 const MAX_ITERATIONS = 300;
 // A local copy: module bindings may be read through accessors in some loaders, and this sits in the hot loop.
 const TOLERANCE = SOLVE_RELATIVE_TOLERANCE;
+// Newton converges quadratically near the root (the law is analytic in y, with y″/y′ of order one), so a
+// step below √tolerance leaves an error of order tolerance once taken: accept it without re-evaluating.
+const ACCEPT_STEP = Math.sqrt(SOLVE_RELATIVE_TOLERANCE);
 
 /** Sampling of one period: points (a power of two) and substeps per point when a capacitor is present. */
 export interface SamplingOptions {
   /** Samples per period, a power of two; default 1024 without a capacitor, 512 with one. */
   samples?: number;
-  /** Integration substeps per sample when a capacitor is present; default 4. */
+  /** Integration substeps per sample when a capacitor is present; default 2. */
   oversampling?: number;
 }
 
@@ -29,6 +32,8 @@ interface NodeLaw {
   capacitance: number;
   /** Diode conductance dD/dv at the last solve. */
   diodeConductance: number;
+  /** Time to the next solve over time since the last, for the predictor's linear extrapolation. */
+  stepRatio: number;
 }
 
 function nodeLaw(setup: StageSetup): NodeLaw {
@@ -41,6 +46,7 @@ function nodeLaw(setup: StageSetup): NodeLaw {
     injection: shunt ? 1 / n.seriesOhms : 1 / n.groundOhms,
     capacitance: shunt ? n.shuntFarads : n.feedbackFarads,
     diodeConductance: 0,
+    stepRatio: 1,
   };
 }
 
@@ -69,41 +75,50 @@ function solveNode(law: NodeLaw, alpha: number, beta: number, guess: number): nu
   let lo = 0;
   let hi = Math.min(Math.log1p(b / forward.isMin), b / (alpha * forward.nvtMin));
   if (forward.rs > 0) hi = Math.min(hi, Math.log1p(b / (alpha * forward.isMin * forward.rs)));
-  let y = forward.y > lo && forward.y < hi ? forward.y : 0.5 * (lo + hi);
+  // Predictor: extrapolate the last two forward solutions linearly in time.
+  let y = forward.yLast + law.stepRatio * (forward.yLast - forward.yBefore);
+  if (!(y > lo && y < hi)) y = forward.yLast;
+  if (!(y > lo && y < hi)) y = 0.5 * (lo + hi);
+  if (reverse.yLast === reverse.yLast) { reverse.yLast = NaN; reverse.yBefore = NaN; }
   for (let iter = 0; iter < MAX_ITERATIONS; iter++) {
     const v = stringVoltageAt(forward, y, work);
     const dvdi = work[0];
     const i = work[1];
+    const didy = work[2];
     const ir = stringCurrent(reverse, -v);
     const gr = reverse.conductance;
     const h = alpha * v + i - ir - b;
-    // dH/dy = dI/dy · (1 + (α + g_reverse)·dV/dI), dI/dy = IS·e^y
-    const didy = forward.isMin * Math.exp(y);
+    // dH/dy = dI/dy · (1 + (α + g_reverse)·dV/dI)
     const slope = didy * (1 + (alpha + gr) * dvdi);
-    let done = h === 0;
-    if (!done) {
-      if (h > 0) hi = y; else lo = y;
-      const step = h / slope;
-      const tol = TOLERANCE * Math.max(1, Math.abs(y));
-      let next = y - step;
-      if (Math.abs(step) <= tol) done = true;
-      else if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-      done = done || hi - lo <= tol;
-      y = next;
+    const step = h / slope;
+    const scale = Math.max(1, Math.abs(y));
+    const tol = TOLERANCE * scale;
+    if (h === 0 || Math.abs(step) <= ACCEPT_STEP * scale) {
+      // Converged: move to the Newton point to first order instead of evaluating again.
+      forward.yBefore = forward.yLast;
+      forward.yLast = y - step;
+      forward.conductance = 1 / dvdi;
+      law.diodeConductance = forward.conductance + gr;
+      return sign * (v - step * didy * dvdi);
     }
-    if (done) {
-      const vFinal = stringVoltageAt(forward, y, work);
-      forward.y = y;
+    if (h > 0) hi = y; else lo = y;
+    let next = y - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (hi - lo <= tol) {
+      forward.yBefore = forward.yLast;
+      forward.yLast = next;
+      const vEnd = stringVoltageAt(forward, next, work);
       forward.conductance = 1 / work[0];
-      stringCurrent(reverse, -vFinal);
+      stringCurrent(reverse, -vEnd);
       law.diodeConductance = forward.conductance + reverse.conductance;
-      return sign * vFinal;
+      return sign * vEnd;
     }
+    y = next;
   }
   throw new SolverError(`clipping node did not converge (α=${alpha}, β=${beta}) after ${MAX_ITERATIONS} iterations`);
 }
 
-const work = new Float64Array(2);
+const work = new Float64Array(3);
 
 /** The same law solved in volts, for a network whose forward string is empty (only leakage flows). */
 function solveNodeInVolts(law: NodeLaw, alpha: number, beta: number, guess: number): number {
@@ -153,7 +168,19 @@ function staticOutput(setup: StageSetup, law: NodeLaw, vd: Volts, guess: number)
  * input's positive-going zero crossing, e.g. periodicOutput(setup).length = 1024.
  */
 export function periodicOutput(setup: StageSetup, options: SamplingOptions = {}): Float64Array {
-  if (hasCapacitor(setup.network)) return dynamicPeriod(setup, options);
+  return steadyState(setup, options).samples;
+}
+
+/**
+ * Steady-state period plus its starting capacitor state; pass a neighbouring setup's initialState as
+ * guess to shorten the periodic-steady-state search (shooting), e.g. along a drive sweep.
+ */
+export function steadyState(setup: StageSetup, options: SamplingOptions = {}, guess = NaN): SteadyState {
+  if (hasCapacitor(setup.network)) return dynamicPeriod(setup, options, guess);
+  return { samples: staticPeriod(setup, options), initialState: 0 };
+}
+
+function staticPeriod(setup: StageSetup, options: SamplingOptions): Float64Array {
   const n = options.samples ?? 1024;
   checkPowerOfTwo(n, 'samples');
   const out = new Float64Array(n);
@@ -201,15 +228,26 @@ const C2 = ((1 - GAMMA) * (1 - GAMMA)) / (GAMMA * (2 - GAMMA));
 const MAX_SHOOTING = 60;
 
 interface PeriodRun {
-  end: number;
-  sensitivity: number;
+  residual: number;
+  slope: number;
+  start: number;
   peak: number;
 }
 
-function dynamicPeriod(setup: StageSetup, options: SamplingOptions): Float64Array {
+/** One steady-state period and the capacitor state it starts from (a warm start for a neighbouring setup). */
+export interface SteadyState {
+  samples: Float64Array;
+  /** Capacitor voltage at the period's start (node voltage for shunt, across Rf for feedback); 0 when static. */
+  initialState: Volts;
+}
+
+/** Residual below which one Newton correction of the shooting is applied to the recorded period, not re-run. */
+const CORRECTION_ONLY = 1e-6;
+
+function dynamicPeriod(setup: StageSetup, options: SamplingOptions, guess: number): SteadyState {
   const n = options.samples ?? 512;
   checkPowerOfTwo(n, 'samples');
-  const m = options.oversampling ?? 4;
+  const m = options.oversampling ?? 2;
   if (!Number.isInteger(m) || m < 1 || m > 64) throw new SolverError(`oversampling must be an integer in 1..64, got ${m}`, 'oversampling');
   const law = nodeLaw(setup);
   const steps = n * m;
@@ -228,20 +266,32 @@ function dynamicPeriod(setup: StageSetup, options: SamplingOptions): Float64Arra
     jEnd[j] = driveAt(setup, (2 * Math.PI * (j + 1)) / steps) * law.injection;
   }
   const state = new Float64Array(n);
+  const sensitivity = new Float64Array(n);
 
-  const run = (v0: number): PeriodRun => {
-    let v = v0;
+  // Each shooting run starts a quarter period early (the pre-roll, t = −T/4) from the trial state x and
+  // records t = 0…T; a network that forgets its start within the pre-roll is periodic after one run.
+  const preroll = steps >> 2;
+  const run = (x: number): PeriodRun => {
+    let v = x;
     const d = diodeCurrent(law, v);
-    let f = (driveAt(setup, 0) * law.injection - g * v - d) / cap;
+    let f = (driveAt(setup, (2 * Math.PI * (steps - preroll)) / steps) * law.injection - g * v - d) / cap;
     let s = 1;
     let sf = -(g + law.diodeConductance) / cap;
     let peak = 0;
-    for (let j = 0; j < steps; j++) {
-      if (j % m === 0) state[j / m] = v;
+    let startValue = v;
+    let startSensitivity = s;
+    for (let t = 0; t < steps + preroll; t++) {
+      const j = t < preroll ? steps - preroll + t : t - preroll;
+      if (t >= preroll && j % m === 0) {
+        state[j / m] = v; sensitivity[j / m] = s;
+        if (j === 0) { startValue = v; startSensitivity = s; }
+      }
       const r1 = v + k1 * f;
+      law.stepRatio = GAMMA / (1 - GAMMA);
       const vg = solveNode(law, a1, (cap * r1) / k1 + jStage[j], v);
       const sg = ((cap / k1) * (s + k1 * sf)) / (a1 + law.diodeConductance);
       const r2 = C1 * vg - C2 * v;
+      law.stepRatio = (1 - GAMMA) / GAMMA;
       const vn = solveNode(law, a2, (cap * r2) / k2 + jEnd[j], vg);
       const sr2 = C1 * sg - C2 * s;
       const sn = ((cap / k2) * sr2) / (a2 + law.diodeConductance);
@@ -250,26 +300,33 @@ function dynamicPeriod(setup: StageSetup, options: SamplingOptions): Float64Arra
       v = vn; s = sn;
       if (Math.abs(v) > peak) peak = Math.abs(v);
     }
-    return { end: v, sensitivity: s, peak };
+    // Periodicity residual v(T) − v(0) and its derivative with respect to the trial state.
+    return { residual: v - startValue, slope: s - startSensitivity, start: startValue, peak };
   };
 
-  let v0 = 0;
-  let last = run(v0);
-  let residual = last.end - v0;
+  let x = Number.isFinite(guess) ? guess : 0;
+  let last = run(x);
   for (let it = 0; it < MAX_SHOOTING; it++) {
-    const tol = 1e-10 * Math.max(last.peak, 1e-9);
-    if (Math.abs(residual) <= tol) return toOutput(setup, state, n);
-    // Newton on F(v0) = Φ(v0) − v0 with F' = Φ' − 1 < 0; halve the step while the residual grows.
-    let step = -residual / (last.sensitivity - 1);
-    let next = run(v0 + step);
-    let nextResidual = next.end - (v0 + step);
-    for (let halving = 0; halving < 20 && Math.abs(nextResidual) > Math.abs(residual); halving++) {
-      step /= 2;
-      next = run(v0 + step);
-      nextResidual = next.end - (v0 + step);
+    const scale = Math.max(last.peak, 1e-9);
+    const residual = last.residual;
+    if (Math.abs(residual) <= 1e-10 * scale) return { samples: toOutput(setup, state, n), initialState: last.start };
+    // Newton on F(x) = v(T) − v(0); F' < 0 for a contracting network.
+    let step = -residual / last.slope;
+    if (Math.abs(residual) <= CORRECTION_ONLY * scale) {
+      // Close enough that the period shifts linearly with x: correct the recorded samples by step·∂v/∂x
+      // (quadratic error ≈ step²/(N·Vt), below the 1e-10 target) instead of simulating it again.
+      for (let k = 0; k < n; k++) state[k] += step * sensitivity[k];
+      return { samples: toOutput(setup, state, n), initialState: last.start + step * sensitivity[0] };
     }
-    v0 += step; last = next; residual = nextResidual;
+    let next = run(x + step);
+    // Halve the step while the residual grows.
+    for (let halving = 0; halving < 20 && Math.abs(next.residual) > Math.abs(residual); halving++) {
+      step /= 2;
+      next = run(x + step);
+    }
+    x += step; last = next;
   }
+  const residual = last.residual;
   throw new SolverError(`periodic steady state not reached after ${MAX_SHOOTING} shooting iterations (residual ${residual} V)`);
 }
 

@@ -33,6 +33,9 @@ export interface PreparedString {
   y: number;
   /** Conductance dI/dV at the last solve. */
   conductance: number;
+  /** The node solver's last two forward solutions in y, for a predictor (NaN when unknown). */
+  yLast: number;
+  yBefore: number;
 }
 
 /** Prepare a device string at a temperature, e.g. prepareString([si, si], 27). */
@@ -50,7 +53,7 @@ export function prepareString(devices: readonly DeviceModel[], temperatureC: Cel
     nvt: new Float64Array(groups.map((g) => g.count * g.n * vt)),
     excess: new Float64Array(groups.length),
     isMin: Infinity, nvtMin: 0, rs: groups.reduce((a, g) => a + g.rs, 0),
-    capVolts: Infinity, capCurrent: 0, capConductance: 0, y: 0, conductance: 0,
+    capVolts: Infinity, capCurrent: 0, capConductance: 0, y: 0, conductance: 0, yLast: NaN, yBefore: NaN,
   };
   groups.forEach((g, i) => {
     if (g.is < s.isMin) { s.isMin = g.is; s.nvtMin = s.nvt[i]; }
@@ -125,6 +128,20 @@ export function stringCurrent(s: PreparedString, v: number): number {
     s.y = 0;
     return 0;
   }
+  if (v < 0 && s.is.length === 1) {
+    // Reverse bias: |I| < IS, so the RS drop is at most IS·RS and y = (v − I·RS)/(N·Vt) moves from
+    // v/(N·Vt) by at most q = IS·RS/(N·Vt). When q is tiny one linear correction is exact to q²·IS.
+    const q = (s.isMin * s.rs) / s.nvtMin;
+    if (q < 1e-6) {
+      const y0 = v / s.nvtMin;
+      const ey = Math.exp(y0);
+      const i0 = s.isMin * (ey - 1);
+      const dy = -(i0 * s.rs) / s.nvtMin;
+      s.conductance = (s.isMin * ey) / (s.nvtMin + s.isMin * ey * s.rs);
+      s.y = y0 + dy;
+      return i0 + s.isMin * ey * dy;
+    }
+  }
   // In reverse bias the RS drop is at most IS·RS, so y ≈ v/(N·Vt) for a single group is all but exact.
   let guess = v < 0 && s.is.length === 1 ? (v - s.isMin * s.rs * Math.expm1(v / s.nvtMin)) / s.nvtMin : s.y;
   if (!(guess > lo && guess < hi)) guess = s.y;
@@ -154,11 +171,13 @@ export function stringCurrent(s: PreparedString, v: number): number {
 
 /**
  * Voltage across the string when it carries I = isMin·expm1(y) (explicit, no solve), e.g. the forward
- * string's voltage in the node solve; writes dV/dI into out[0] and I into out[1].
+ * string's voltage in the node solve; writes dV/dI into out[0], I into out[1] and dI/dy into out[2].
  */
 export function stringVoltageAt(s: PreparedString, y: number, out: Float64Array): number {
   const f = residual(s, y, 0, scratch);
   out[0] = scratch[1];
   out[1] = s.isMin * Math.expm1(y);
+  // dI/dy = IS·e^y
+  out[2] = scratch[0] / scratch[1];
   return f;
 }
