@@ -16,6 +16,7 @@ import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
+import { modelRoutes } from './routes/models';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -67,6 +68,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...authRoutes(knex, passport, loginLimiter),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
+    ...modelRoutes(knex),
   ];
   app.use(buildRouter(routes, registry));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));

@@ -19,6 +19,10 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/users': ['owner'],
   'PATCH /api/users/:id': ['owner'],
   'GET /api/settings/public': 'public',
+  // Catalog (issue 4)
+  'GET /api/models': 'public',
+  'GET /api/models/:id': 'public',
+  'GET /api/models/:id/photo': 'public',
 };
 void STAFF;
 void CATALOG_EDITORS;
