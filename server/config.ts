@@ -23,6 +23,10 @@ const schema = z.object({
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().default('Kneepoint <workshop@shop.example>'),
   MAIL_INBOX_URL: z.string().url().default('http://127.0.0.1:3126'),
+  // The outbox worker: how often it looks for due mail, the first retry delay (doubling), and when it gives up.
+  OUTBOX_POLL_SECONDS: z.coerce.number().min(0.5).default(2),
+  OUTBOX_RETRY_BASE_SECONDS: z.coerce.number().min(0).default(10),
+  OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(12),
 });
 
 export type Config = z.infer<typeof schema> & { publicUrl: string };

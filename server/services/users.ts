@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import type { Role, SessionUser } from '../../shared/roles';
 import type { CreateUserInput, RegisterInput, UpdateUserInput } from '../../shared/schemas/auth';
 import { conflict, invalid, isUniqueViolation, notFound } from '../errors';
+import { enqueueMail } from './mail/outbox';
 
 const HASH_ROUNDS = 12;
 // Compared against when the e-mail is unknown, so a miss costs as long as a wrong password.
@@ -49,7 +50,13 @@ async function insertUser(knex: Knex, input: { name: string; email: string; role
   }
 }
 
-export const registerCustomer = (knex: Knex, input: RegisterInput) => insertUser(knex, { ...input, role: 'customer' });
+// The welcome mail is queued in the same transaction as the account, so it exists exactly when the account does.
+export const registerCustomer = (knex: Knex, input: RegisterInput) =>
+  knex.transaction(async (trx) => {
+    const user = await insertUser(trx, { ...input, role: 'customer' });
+    await enqueueMail(trx, { dedupeKey: `welcome:${user.id}`, template: 'welcome', to: user.email, data: { name: user.name } });
+    return user;
+  });
 export const createUser = (knex: Knex, input: CreateUserInput) => insertUser(knex, input);
 
 export async function listUsers(knex: Knex) {

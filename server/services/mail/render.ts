@@ -1,0 +1,83 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+// A tiny template language of our own, enough for receipts:
+//   {{path}}                   a value, HTML-escaped in .html templates
+//   {{money path}}             integer cents in the shop's currency, e.g. €189.00
+//   {{date path}}              an ISO date/time as a date in the shop's time zone
+//   {{#each path}}…{{/each}}   repeat for each item; inside, paths are the item's fields
+//   {{#if path}}…{{else}}…{{/if}}
+// Unknown paths render empty, so a missing optional field never breaks a mail.
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..', 'templates', 'mail');
+
+export interface RenderContext {
+  currency: string;
+  timeZone: string;
+  shopName: string;
+  shopAddress: string;
+}
+
+type Scope = Record<string, unknown>;
+
+const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string);
+
+function lookup(scope: Scope, key: string): unknown {
+  return key.split('.').reduce<unknown>((v, part) => (v && typeof v === 'object' ? (v as Scope)[part] : undefined), scope);
+}
+
+function format(helper: string | undefined, value: unknown, ctx: RenderContext): string {
+  if (value === undefined || value === null) return '';
+  if (helper === 'money') return new Intl.NumberFormat('en-GB', { style: 'currency', currency: ctx.currency }).format(Number(value) / 100);
+  if (helper === 'date') return new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: ctx.timeZone }).format(new Date(String(value)));
+  return String(value);
+}
+
+const BLOCK = /\{\{#(each|if) ([\w.]+)\}\}([\s\S]*?)\{\{\/\1\}\}/;
+
+/** Renders a template string against data; `html` decides escaping. */
+export function renderString(template: string, scope: Scope, ctx: RenderContext, html: boolean): string {
+  let out = template;
+  // Innermost-last is enough: our templates nest at most one #if inside an #each.
+  for (let m = out.match(BLOCK); m; m = out.match(BLOCK)) {
+    const [whole, kind, key, body] = m;
+    const value = lookup(scope, key);
+    let rendered = '';
+    if (kind === 'each') {
+      rendered = Array.isArray(value) ? value.map((item) => renderString(body, { ...scope, ...(item as Scope) }, ctx, html)).join('') : '';
+    } else {
+      const [yes, no = ''] = body.split('{{else}}');
+      rendered = renderString(value && !(Array.isArray(value) && value.length === 0) ? yes : no, scope, ctx, html);
+    }
+    out = out.replace(whole, () => rendered);
+  }
+  return out.replace(/\{\{(?:(money|date) )?([\w.]+)\}\}/g, (_all, helper: string | undefined, key: string) => {
+    const text = format(helper, lookup(scope, key), ctx);
+    return html ? escapeHtml(text) : text;
+  });
+}
+
+const cache = new Map<string, string>();
+function load(file: string): string {
+  if (!cache.has(file) || process.env.NODE_ENV === 'development') cache.set(file, readFileSync(path.join(root, file), 'utf8'));
+  return cache.get(file) as string;
+}
+
+export const TEMPLATES = ['welcome', 'order-received', 'payment-failed', 'order-scheduled', 'unit-passed', 'order-shipped', 'order-refunded'] as const;
+
+/**
+ * Renders templates/mail/<name>.txt (first line "Subject: …") and <name>.html inside the one
+ * layout. Throws for an unknown template, so a typo is a failed send, not an empty mail.
+ */
+export function renderMail(name: string, data: Scope, ctx: RenderContext) {
+  if (!(TEMPLATES as readonly string[]).includes(name)) throw new Error(`Unknown mail template "${name}"`);
+  const scope = { ...data, shopName: ctx.shopName, shopAddress: ctx.shopAddress };
+  const [subjectLine, ...textLines] = load(`${name}.txt`).split('\n');
+  const subject = renderString(subjectLine.replace(/^Subject:\s*/, ''), scope, ctx, false);
+  const textBody = renderString(textLines.join('\n').trim(), scope, ctx, false);
+  const htmlBody = renderString(load(`${name}.html`).replace(/^<!--[\s\S]*?-->\s*/, ''), scope, ctx, true);
+  const text = renderString(load('layout.txt'), { ...scope, body: textBody }, ctx, false);
+  const html = renderString(load('layout.html'), { ...scope, subject }, ctx, true).replace('<!-- body -->', htmlBody);
+  return { subject, text, html };
+}

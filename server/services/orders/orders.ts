@@ -1,0 +1,163 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '../../../shared/roles';
+import type { OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
+import type { OrderState } from '../../../shared/order-states';
+import { notFound } from '../../errors';
+import { getSettings } from '../settings';
+import { priceCart } from './pricing';
+import { transitionOrder } from './transitions';
+
+/** Staff who may see and annotate every order. */
+export const ORDER_STAFF = ['owner', 'planner'] as const;
+
+export interface OrderRow {
+  id: number;
+  number: string;
+  customer_id: number;
+  state: OrderState;
+  currency: string;
+  subtotal_cents: number;
+  shipping_cents: number;
+  tax_cents: number;
+  total_cents: number;
+  ship_name: string;
+  ship_line1: string;
+  ship_line2: string;
+  ship_city: string;
+  ship_postcode: string;
+  ship_country: string;
+  ship_phone: string;
+  checkout_session_id: string | null;
+  payment_intent_id: string | null;
+  last_payment_error: string | null;
+  paid_at: Date | null;
+  due_at: Date | null;
+  staff_notes: string;
+  created_at: Date;
+  updated_at: Date;
+}
+
+/** Creates an order awaiting payment, priced on the server, in one transaction. */
+export async function placeOrder(knex: Knex, customer: SessionUser, input: PlaceOrderInput) {
+  return knex.transaction(async (trx) => {
+    const quote = await priceCart(trx, input);
+    const settings = await getSettings(trx);
+    const { rows } = await trx.raw<{ rows: { n: number }[] }>("SELECT nextval('order_number_seq')::int AS n");
+    const s = input.shipping;
+    const [order] = await trx('orders')
+      .insert({
+        number: `${settings.serial_prefix}-${rows[0].n}`,
+        customer_id: customer.id,
+        currency: quote.currency,
+        subtotal_cents: quote.subtotalCents,
+        shipping_cents: quote.shippingCents,
+        tax_cents: quote.taxCents,
+        total_cents: quote.totalCents,
+        ship_name: s.name, ship_line1: s.line1, ship_line2: s.line2, ship_city: s.city,
+        ship_postcode: s.postcode, ship_country: s.country, ship_phone: s.phone,
+      })
+      .returning('*');
+    await trx('order_lines').insert(
+      quote.lines.map((l) => ({
+        order_id: order.id, model_id: l.modelId, option_id: l.optionId, quantity: l.quantity,
+        unit_price_cents: l.unitPriceCents, line_total_cents: l.lineTotalCents, description: l.description,
+      })),
+    );
+    await trx('order_events').insert({ order_id: order.id, kind: 'placed', to_state: 'awaiting_payment', message: 'Order placed', user_id: customer.id });
+    return order as OrderRow;
+  });
+}
+
+const isStaff = (user: SessionUser) => (ORDER_STAFF as readonly string[]).includes(user.role);
+
+/**
+ * An order the user may see: their own, or any for order staff. Someone else's order answers
+ * 404, not 403, so order ids cannot be probed.
+ */
+export async function findVisibleOrder(knex: Knex | Knex.Transaction, user: SessionUser, id: number): Promise<OrderRow> {
+  const query = knex('orders').where({ id });
+  if (!isStaff(user)) query.andWhere({ customer_id: user.id });
+  const order = await query.first();
+  if (!order) throw notFound('No such order');
+  return order as OrderRow;
+}
+
+async function linesOf(knex: Knex, orderIds: number[]) {
+  if (orderIds.length === 0) return [];
+  return knex('order_lines as l')
+    .join('clipping_options as o', 'o.id', 'l.option_id')
+    .whereIn('l.order_id', orderIds)
+    .orderBy('l.id')
+    .select('l.id', 'l.order_id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.unit_price_cents', 'l.line_total_cents', 'l.description', 'l.batch_id', 'o.code as option_code');
+}
+
+/** The order with its lines, events and (for staff) the customer and notes. */
+export async function orderDetail(knex: Knex, user: SessionUser, id: number) {
+  const order = await findVisibleOrder(knex, user, id);
+  const [lines, events, customer] = await Promise.all([
+    linesOf(knex, [order.id]),
+    knex('order_events as e').leftJoin('users as u', 'u.id', 'e.user_id').where('e.order_id', order.id)
+      .orderBy('e.id').select('e.id', 'e.kind', 'e.from_state', 'e.to_state', 'e.message', 'e.created_at', 'u.name as user_name'),
+    knex('users').where({ id: order.customer_id }).first('id', 'name', 'email'),
+  ]);
+  const staff = isStaff(user);
+  return {
+    order: { ...publicOrder(order), staffNotes: staff ? order.staff_notes : undefined, customer: staff ? customer : undefined },
+    lines,
+    // Customers see their order's story without staff-only notes.
+    events: staff ? events : events.filter((e) => e.kind !== 'note'),
+  };
+}
+
+/** The order fields a client sees; provider ids stay on the server. */
+export function publicOrder(o: OrderRow) {
+  return {
+    id: o.id, number: o.number, state: o.state, currency: o.currency,
+    subtotalCents: o.subtotal_cents, shippingCents: o.shipping_cents, taxCents: o.tax_cents, totalCents: o.total_cents,
+    shipping: { name: o.ship_name, line1: o.ship_line1, line2: o.ship_line2, city: o.ship_city, postcode: o.ship_postcode, country: o.ship_country, phone: o.ship_phone },
+    lastPaymentError: o.last_payment_error, paidAt: o.paid_at, dueAt: o.due_at, createdAt: o.created_at, updatedAt: o.updated_at,
+  };
+}
+
+/** The customer's own orders, newest first, each with its lines. */
+export async function myOrders(knex: Knex, user: SessionUser) {
+  const orders = (await knex('orders').where({ customer_id: user.id }).orderBy('created_at', 'desc').orderBy('id', 'desc')) as OrderRow[];
+  const lines = await linesOf(knex, orders.map((o) => o.id));
+  return orders.map((o) => ({ ...publicOrder(o), lines: lines.filter((l) => l.order_id === o.id) }));
+}
+
+/** Every order for staff, filtered on the server by state, option, placed date (shop time zone) and a search. */
+export async function listOrders(knex: Knex, filter: OrderFilter) {
+  const settings = await getSettings(knex);
+  const query = knex('orders as o').join('users as u', 'u.id', 'o.customer_id')
+    .select('o.id', 'o.number', 'o.state', 'o.currency', 'o.total_cents', 'o.created_at', 'o.paid_at', 'u.name as customer_name', 'u.email as customer_email',
+      knex.raw("(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines l WHERE l.order_id = o.id) AS units"),
+      knex.raw("(SELECT string_agg(l.description, '; ' ORDER BY l.id) FROM order_lines l WHERE l.order_id = o.id) AS summary"))
+    .orderBy('o.created_at', 'desc').orderBy('o.id', 'desc').limit(500);
+  if (filter.state) query.where('o.state', filter.state);
+  if (filter.optionId) query.whereExists(knex('order_lines as l').whereRaw('l.order_id = o.id').andWhere('l.option_id', filter.optionId));
+  // Dates are the shop's calendar days, so "from 1 Dec" means midnight in the shop's zone.
+  if (filter.from) query.whereRaw('o.created_at >= (?::date)::timestamp AT TIME ZONE ?', [filter.from, settings.time_zone]);
+  if (filter.to) query.whereRaw("o.created_at < ((?::date + 1)::timestamp AT TIME ZONE ?)", [filter.to, settings.time_zone]);
+  if (filter.q) {
+    const like = `%${filter.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    query.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('u.email', like).orWhereILike('o.ship_name', like));
+  }
+  return query;
+}
+
+/** A staff note goes into the history (with who wrote it) and onto the order's notes. */
+export async function addStaffNote(knex: Knex, user: SessionUser, id: number, note: string) {
+  return knex.transaction(async (trx) => {
+    const order = await trx('orders').where({ id }).forUpdate().first();
+    if (!order) throw notFound('No such order');
+    const notes = order.staff_notes ? `${order.staff_notes}\n${note}` : note;
+    await trx('orders').where({ id }).update({ staff_notes: notes, updated_at: trx.fn.now() });
+    await trx('order_events').insert({ order_id: id, kind: 'note', message: note, user_id: user.id });
+  });
+}
+
+/** Staff confirm the parcel arrived (shipped → delivered); anything else is a 409 from the state machine. */
+export async function markDelivered(knex: Knex, user: SessionUser, id: number, message: string) {
+  return knex.transaction(async (trx) => transitionOrder(trx, id, 'delivered', { userId: user.id, message: message || 'Delivered' }));
+}
