@@ -90,11 +90,19 @@ function checkPoint(p: ForwardPoint, path: string): void {
 function fitTwo(a: ForwardPoint, b: ForwardPoint, rs: Ohms, vt: Volts, path: string): { is: Amperes; n: number } {
   const va = a.vf - a.current * rs;
   const vb = b.vf - b.current * rs;
-  const n = (vb - va) / (vt * Math.log(b.current / a.current));
+  let n = (vb - va) / (vt * Math.log(b.current / a.current));
   if (!(n > 0) || !Number.isFinite(n)) {
     throw new EngineInputError(path, `${path}: forward voltage must rise with current, got ${a.vf} V at ${a.current} A and ${b.vf} V at ${b.current} A`);
   }
-  return { n, is: a.current / Math.expm1(va / (n * vt)) };
+  let is = a.current / Math.expm1(va / (n * vt));
+  // ln(1 + I/IS) differs from ln(I/IS) by about IS/I; a few passes make the fit exact.
+  for (let i = 0; i < 50; i++) {
+    const next = (vb - va) / (vt * (Math.log1p(b.current / is) - Math.log1p(a.current / is)));
+    is = a.current / Math.expm1(va / (next * vt));
+    if (Math.abs(next - n) <= 1e-15 * n) { n = next; break; }
+    n = next;
+  }
+  return { n, is };
 }
 
 /**
@@ -115,14 +123,22 @@ export function fitDevice(points: readonly ForwardPoint[], temperatureC: Celsius
   let rs = 0;
   let fit = fitTwo(sorted[0], sorted[1], rs, vt, path);
   if (sorted.length === 3) {
+    // The third point's mismatch as a function of RS (IS, N refitted through the first two): secant on it.
     const top = sorted[2];
-    for (let i = 0; i < 200; i++) {
-      const vj = fit.n * vt * Math.log1p(top.current / fit.is);
-      const next = Math.max(0, (top.vf - vj) / top.current);
-      fit = fitTwo(sorted[0], sorted[1], next, vt, path);
-      if (Math.abs(next - rs) <= 1e-12 * (1 + next)) { rs = next; break; }
-      rs = next;
+    const mismatch = (r: number): number => {
+      const f = fitTwo(sorted[0], sorted[1], r, vt, path);
+      return f.n * vt * Math.log1p(top.current / f.is) + top.current * r - top.vf;
+    };
+    let r0 = 0;
+    let m0 = mismatch(r0);
+    let r1 = Math.max(0, -m0 / top.current);
+    let m1 = mismatch(r1);
+    for (let i = 0; i < 100 && Math.abs(m1) > 1e-15 && r1 !== r0; i++) {
+      const r2 = Math.max(0, r1 - (m1 * (r1 - r0)) / (m1 - m0));
+      r0 = r1; m0 = m1; r1 = r2; m1 = mismatch(r1);
     }
+    rs = r1;
+    fit = fitTwo(sorted[0], sorted[1], rs, vt, path);
   }
   const model: DeviceModel = { is: fit.is, n: fit.n, rs };
   // Parameters were fitted at the stated temperature; refer IS back to TNOM.
