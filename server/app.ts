@@ -16,6 +16,10 @@ import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
+import { mailRoutes } from './routes/mail';
+import { orderRoutes } from './routes/orders';
+import { paymentRoutes } from './routes/payments';
+import { shopRoutes } from './routes/shop';
 import { modelRoutes } from './routes/models';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -68,6 +72,10 @@ export function createApp({ knex, config }: AppDeps) {
     ...authRoutes(knex, passport, loginLimiter),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
+    ...shopRoutes(knex),
+    ...orderRoutes(knex, config),
+    ...paymentRoutes(knex, config),
+    ...mailRoutes(config),
     ...modelRoutes(knex),
   ];
   app.use(buildRouter(routes, registry));

@@ -23,6 +23,20 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/models': 'public',
   'GET /api/models/:id': 'public',
   'GET /api/models/:id/photo': 'public',
+  // Ordering (issue 5): customers order and pay; owner and planner run orders and read the mail inbox.
+  'POST /api/shop/quote': 'public',
+  'GET /api/orders/mine': ['customer'],
+  'POST /api/orders': ['customer'],
+  'GET /api/orders': ['owner', 'planner'],
+  'GET /api/orders/:id': 'signed-in',
+  'POST /api/orders/:id/checkout': ['customer'],
+  'POST /api/orders/:id/cancel': ['customer', 'owner', 'planner'],
+  'POST /api/orders/:id/notes': ['owner', 'planner'],
+  'POST /api/orders/:id/delivered': ['owner', 'planner'],
+  'POST /api/payments/webhook': 'public',
+  'GET /api/mail/messages': ['owner', 'planner'],
+  'GET /api/mail/messages/:id': ['owner', 'planner'],
+  'GET /api/mail/messages/:id/attachments/:index': ['owner', 'planner'],
 };
 void STAFF;
 void CATALOG_EDITORS;
