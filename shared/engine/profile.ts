@@ -53,7 +53,12 @@ export const CLIPPING_ONSET_THD: Ratio = 0.01;
 
 /** Drive sweep of THD and H2…H7 over evenly spaced rotations 0..1, e.g. driveSweep(c, 25).length = 25. */
 export function driveSweep(spec: CircuitSpec | Circuit, points = 25, sampling: SamplingOptions = {}): SweepPoint[] {
+  return sweepWithPeriods(spec, points, sampling).sweep;
+}
+
+function sweepWithPeriods(spec: CircuitSpec | Circuit, points: number, sampling: SamplingOptions): { sweep: SweepPoint[]; periods: Float64Array[] } {
   checkRange(points, 2, 1001, 'sweepPoints');
+  const periods: Float64Array[] = [];
   const c = resolveCircuit(spec);
   const out: SweepPoint[] = [];
   // Warm start of the periodic steady state: extrapolate the capacitor state from the last two drive points.
@@ -64,6 +69,7 @@ export function driveSweep(spec: CircuitSpec | Circuit, points = 25, sampling: S
     const guess = k >= 2 ? 2 * states[k - 1] - states[k - 2] : k === 1 ? states[0] : NaN;
     const ss = steadyState(setupAtDrive(c, drive), sampling, guess);
     states.push(ss.initialState);
+    periods.push(ss.samples);
     const s = analyse(ss.samples, 7);
     out.push({
       drive, gain: gainAtDrive(c.drive, drive), thdF: s.thdF, thdR: s.thdR,
@@ -71,7 +77,7 @@ export function driveSweep(spec: CircuitSpec | Circuit, points = 25, sampling: S
       fundamentalPeakV: s.fundamentalPeakV, outputRmsV: s.rmsV, dcV: s.dcV,
     });
   }
-  return out;
+  return { sweep: out, periods };
 }
 
 /** Drive where THD_F first reaches 1 %, interpolated in log10(THD_F), e.g. 0.31; 0 if above from the start, null if never. */
@@ -111,12 +117,15 @@ export function computeProfile(spec: CircuitSpec | Circuit, options: ProfileOpti
   const c = resolveCircuit(spec);
   const harmonics = options.harmonics ?? 10;
   const sampling = options.sampling ?? {};
-  const sweep = driveSweep(c, options.sweepPoints ?? 25, sampling);
+  const { sweep, periods } = sweepWithPeriods(c, options.sweepPoints ?? 25, sampling);
   const referenceSetup = setupAtDrive(c, c.referenceDrive);
+  // The reference setting usually sits on the sweep (0.5 of 25 points): reuse that period.
+  const onSweep = sweep.findIndex((p) => p.drive === c.referenceDrive);
+  const referencePeriod = onSweep >= 0 ? periods[onSweep] : periodicOutput(referenceSetup, sampling);
   return {
     reference: {
       drive: c.referenceDrive, gain: referenceSetup.driveGain,
-      spectrum: analyse(periodicOutput(referenceSetup, sampling), harmonics),
+      spectrum: analyse(referencePeriod, harmonics),
     },
     sweep,
     clippingOnsetDrive: clippingOnset(sweep),
