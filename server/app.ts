@@ -21,6 +21,8 @@ import { orderRoutes } from './routes/orders';
 import { paymentRoutes } from './routes/payments';
 import { shopRoutes } from './routes/shop';
 import { modelRoutes } from './routes/models';
+import { partRoutes } from './routes/parts';
+import { deviceRoutes } from './routes/devices';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -77,6 +79,8 @@ export function createApp({ knex, config }: AppDeps) {
     ...paymentRoutes(knex, config),
     ...mailRoutes(config),
     ...modelRoutes(knex),
+    ...partRoutes(knex),
+    ...deviceRoutes(knex),
   ];
   app.use(buildRouter(routes, registry));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));

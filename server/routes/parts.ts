@@ -1,0 +1,36 @@
+import type { Knex } from 'knex';
+import { movementSchema, partListQuerySchema, partSchema, partUpdateSchema, receiveSchema } from '../../shared/schemas/catalog';
+import { parseWith } from '../errors';
+import { currentUser, type RouteDef } from '../http/route-table';
+import { createPart, getPart, listParts, listSuppliers, movementsCsv, partsCsv, updatePart } from '../services/catalog/parts';
+import { addMovement, receiveDelivery } from '../services/catalog/stock';
+import { idParam } from './models';
+
+const STAFF = ['owner', 'planner', 'assembler', 'tester'] as const;
+const EDITORS = ['owner', 'planner'] as const;
+
+function csv(res: import('express').Response, name: string, body: string) {
+  res.set('Content-Type', 'text/csv; charset=utf-8');
+  res.set('Content-Disposition', `attachment; filename="${name}"`);
+  res.send(body);
+}
+
+export function partRoutes(knex: Knex): RouteDef[] {
+  return [
+    { method: 'get', path: '/api/parts', allow: STAFF, handler: async (req, res) => res.json(await listParts(knex, parseWith(partListQuerySchema, req.query))) },
+    { method: 'get', path: '/api/parts/export.csv', allow: STAFF, handler: async (req, res) => csv(res, 'parts.csv', await partsCsv(knex, parseWith(partListQuerySchema, req.query))) },
+    { method: 'get', path: '/api/stock/movements.csv', allow: STAFF, handler: async (req, res) => csv(res, 'stock-movements.csv', await movementsCsv(knex, req.query.partId ? idParam(req.query.partId, 'partId') : undefined)) },
+    { method: 'get', path: '/api/suppliers', allow: STAFF, handler: async (_req, res) => res.json({ suppliers: await listSuppliers(knex) }) },
+    { method: 'post', path: '/api/parts', allow: EDITORS, handler: async (req, res) => res.status(201).json({ part: await createPart(knex, parseWith(partSchema, req.body)) }) },
+    { method: 'get', path: '/api/parts/:id', allow: STAFF, handler: async (req, res) => res.json({ part: await getPart(knex, idParam(req.params.id)) }) },
+    { method: 'patch', path: '/api/parts/:id', allow: EDITORS, handler: async (req, res) => res.json({ part: await updatePart(knex, idParam(req.params.id), parseWith(partUpdateSchema, req.body)) }) },
+    {
+      method: 'post', path: '/api/parts/:id/movements', allow: EDITORS,
+      handler: async (req, res) => res.status(201).json(await addMovement(knex, idParam(req.params.id), parseWith(movementSchema, req.body), currentUser(req).id)),
+    },
+    {
+      method: 'post', path: '/api/stock/receive', allow: EDITORS,
+      handler: async (req, res) => res.status(201).json(await receiveDelivery(knex, parseWith(receiveSchema, req.body), currentUser(req).id)),
+    },
+  ];
+}
