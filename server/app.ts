@@ -16,6 +16,11 @@ import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
 import { userRoutes } from './routes/users';
+import { assemblerRoutes } from './routes/assemblers';
+import { batchRoutes } from './routes/batches';
+import { boardRoutes } from './routes/board';
+import { shipmentRoutes } from './routes/shipments';
+import { unitRoutes } from './routes/units';
 import { mailRoutes } from './routes/mail';
 import { orderRoutes } from './routes/orders';
 import { paymentRoutes } from './routes/payments';
@@ -81,6 +86,11 @@ export function createApp({ knex, config }: AppDeps) {
     ...modelRoutes(knex),
     ...partRoutes(knex),
     ...deviceRoutes(knex),
+    ...batchRoutes(knex),
+    ...assemblerRoutes(knex),
+    ...unitRoutes(knex),
+    ...shipmentRoutes(knex),
+    ...boardRoutes(knex),
   ];
   app.use(buildRouter(routes, registry));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));

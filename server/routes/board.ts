@@ -1,0 +1,8 @@
+import type { Knex } from 'knex';
+import type { RouteDef } from '../http/route-table';
+import { productionBoard } from '../services/production/board';
+import { PLANNERS } from './batches';
+
+export function boardRoutes(knex: Knex): RouteDef[] {
+  return [{ method: 'get', path: '/api/board', allow: PLANNERS, handler: async (_req, res) => res.json(await productionBoard(knex)) }];
+}

@@ -1,0 +1,23 @@
+import type { Knex } from 'knex';
+import { shipOrderSchema } from '../../shared/schemas/production';
+import { parseWith } from '../errors';
+import { currentUser, type RouteDef } from '../http/route-table';
+import { markDelivered, moveToFinishedStock, packingSlip, shipOrder, shippingQueue } from '../services/production/shipping';
+import { idParam, PLANNERS } from './batches';
+
+export function shipmentRoutes(knex: Knex): RouteDef[] {
+  return [
+    { method: 'get', path: '/api/shipping', allow: PLANNERS, handler: async (_req, res) => res.json(await shippingQueue(knex)) },
+    { method: 'post', path: '/api/shipments', allow: PLANNERS, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body))) },
+    {
+      method: 'get', path: '/api/shipments/:id/packing-slip.pdf', allow: PLANNERS,
+      handler: async (req, res) => {
+        const slip = await packingSlip(knex, idParam(req.params.id));
+        res.type('application/pdf').setHeader('Content-Disposition', `inline; filename="${slip.filename}"`);
+        res.send(slip.data);
+      },
+    },
+    { method: 'post', path: '/api/shipments/:id/delivered', allow: PLANNERS, handler: async (req, res) => res.json(await markDelivered(knex, currentUser(req), idParam(req.params.id))) },
+    { method: 'post', path: '/api/units/:id/finished-stock', allow: PLANNERS, handler: async (req, res) => res.json(await moveToFinishedStock(knex, currentUser(req), idParam(req.params.id))) },
+  ];
+}

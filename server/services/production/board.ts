@@ -1,0 +1,40 @@
+import type { Knex } from 'knex';
+import { batchLabel } from '../../../shared/production/serials';
+import { toDate } from './planning';
+import { explodeBom } from './requirements';
+
+type Db = Knex | Knex.Transaction;
+
+/** The production board: live batches with units by state, work per assembler, late units, shortages to chase. */
+export async function productionBoard(db: Db, today = new Date().toISOString().slice(0, 10)) {
+  const batches = await db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
+    .whereIn('b.state', ['draft', 'released', 'on_bench']).select('b.id', 'b.number', 'b.state', 'b.revision_id', 'm.name as model_name', 'r.number as revision_number').orderBy('b.number');
+  const counts = (batches.length
+    ? await db('units').whereIn('batch_id', batches.map((b) => b.id)).select('batch_id', 'state').count({ n: '*' }).groupBy('batch_id', 'state')
+    : []) as unknown as { batch_id: number; state: string; n: string }[];
+  const shortages: { batch: string; partNumber: string; description: string; shortage: number; supplier: string | null }[] = [];
+  for (const b of batches.filter((x) => x.state !== 'draft')) {
+    const open = (await db('units').where({ batch_id: b.id }).whereNull('kitted_at').whereNot('state', 'cancelled').select('option_id').count({ n: '*' }).groupBy('option_id')) as unknown as { option_id: number; n: string }[];
+    const rows = await explodeBom(db, b.revision_id, new Map(open.map((o: { option_id: number; n: string }) => [o.option_id, Number(o.n)])), b.id);
+    for (const r of rows.filter((x) => x.shortage > 0)) shortages.push({ batch: batchLabel(b.number), partNumber: r.partNumber, description: r.description, shortage: r.shortage, supplier: r.supplier });
+  }
+  const wip = await db('users as u').leftJoin('units as x', function join() { this.on('x.assembler_id', 'u.id').andOnIn('x.state', ['waiting', 'building', 'rework']); })
+    .where({ 'u.role': 'assembler', 'u.active': true }).groupBy('u.id', 'u.name').orderBy('u.name')
+    .select('u.id', 'u.name')
+    .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'waiting')::int AS waiting"))
+    .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'building')::int AS building"))
+    .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'rework')::int AS rework"));
+  const late = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id').leftJoin('orders as o', 'o.id', 'u.order_id')
+    .whereIn('u.state', ['waiting', 'building', 'rework', 'built'])
+    .where((q) => q.where('u.planned_date', '<', today).orWhere('o.due_at', '<', today))
+    .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'a.name as assembler_name', 'o.number as order_number', 'o.due_at').orderBy('u.planned_date').limit(50);
+  return {
+    batches: batches.map((b) => ({
+      id: b.id, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number,
+      units: Object.fromEntries(counts.filter((c: { batch_id: number }) => c.batch_id === b.id).map((c: { state: string; n: string }) => [c.state, Number(c.n)])),
+    })),
+    wip,
+    late: late.map((u) => ({ id: u.id, serial: u.serial, state: u.state, plannedDate: u.planned_date ? toDate(u.planned_date) : null, assemblerName: u.assembler_name, orderNumber: u.order_number, dueAt: u.due_at })),
+    shortages,
+  };
+}

@@ -1,0 +1,134 @@
+import type { Knex } from 'knex';
+import { stringify } from 'csv-stringify/sync';
+import type { CreateBatchInput } from '../../../shared/schemas/production';
+import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../../shared/production/states';
+import { batchLabel } from '../../../shared/production/serials';
+import { conflict, invalid, notFound } from '../../errors';
+import { earliestStart, explodeBom } from './requirements';
+
+type Db = Knex | Knex.Transaction;
+
+/** Revisions a batch can be planned for, with the paid order lines still waiting for a batch. */
+export async function planningCandidates(db: Db) {
+  const revisions = await db('model_revisions as r').join('models as m', 'm.id', 'r.model_id')
+    .select('r.id', 'r.number', 'r.label', 'r.frozen_at', 'm.id as model_id', 'm.name as model_name', 'm.active_revision_id')
+    .orderBy(['m.name', { column: 'r.number', order: 'desc' }]);
+  const options = await db('clipping_options').select('id', 'model_id', 'code', 'name').orderBy(['model_id', 'position', 'id']);
+  const lines = await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
+    .where('o.state', 'paid').whereNull('l.batch_id')
+    .whereNotExists((q) => q.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereNot('b.state', 'cancelled'))
+    .select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.description', 'o.number as order_number', 'o.due_at', 'u.name as customer_name')
+    .orderBy([{ column: 'o.due_at', order: 'asc', nulls: 'last' }, 'l.id']);
+  return {
+    revisions: revisions.map((r) => ({
+      id: r.id, modelId: r.model_id, modelName: r.model_name, number: r.number, label: r.label,
+      active: r.active_revision_id === r.id, frozen: r.frozen_at !== null,
+      options: options.filter((o) => o.model_id === r.model_id).map((o) => ({ id: o.id, code: o.code, name: o.name })),
+    })),
+    orderLines: lines.map((l) => ({
+      id: l.id, modelId: l.model_id, optionId: l.option_id, quantity: l.quantity, description: l.description,
+      orderNumber: l.order_number, dueAt: l.due_at, customerName: l.customer_name,
+    })),
+  };
+}
+
+/** A new batch in planning, pulling the given order lines and stock builds. All or nothing. */
+export async function createBatch(knex: Knex, userId: number, input: CreateBatchInput) {
+  return knex.transaction(async (trx) => {
+    const revision = await trx('model_revisions').where({ id: input.revisionId }).first();
+    if (!revision) throw invalid('Pick a model revision', { revisionId: 'No such revision' });
+    const lines = input.orderLineIds.length
+      ? await trx('order_lines as l').join('orders as o', 'o.id', 'l.order_id').whereIn('l.id', input.orderLineIds).forUpdate('l')
+          .select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.batch_id', 'o.state', 'o.number')
+      : [];
+    if (lines.length !== new Set(input.orderLineIds).size) throw invalid('Some order lines do not exist', { orderLineIds: 'Unknown order line' });
+    for (const l of lines) {
+      if (l.model_id !== revision.model_id) throw invalid(`Order ${l.number} is for another model`, { orderLineIds: 'A line is for another model' });
+      if (l.state !== 'paid' || l.batch_id) throw conflict(`Order ${l.number} is not paid and waiting for a batch`);
+    }
+    const taken = await trx('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereIn('bl.order_line_id', input.orderLineIds).whereNot('b.state', 'cancelled').first();
+    if (taken) throw conflict('An order line is already in another batch being planned');
+    const optionIds = [...new Set(input.stockBuilds.map((s) => s.optionId))];
+    const options = optionIds.length ? await trx('clipping_options').whereIn('id', optionIds).where({ model_id: revision.model_id }) : [];
+    if (options.length !== optionIds.length) throw invalid('A stock build names an option of another model', { stockBuilds: 'Unknown option for this model' });
+
+    const [{ nextval }] = (await trx.raw("SELECT nextval('batch_number_seq')::int AS nextval")).rows;
+    const [batch] = await trx('batches').insert({ number: nextval, revision_id: revision.id, created_by: userId, notes: input.notes }).returning('*');
+    const rows = [
+      ...lines.map((l) => ({ batch_id: batch.id, option_id: l.option_id, order_line_id: l.id, quantity: l.quantity })),
+      ...input.stockBuilds.map((s) => ({ batch_id: batch.id, option_id: s.optionId, order_line_id: null, quantity: s.quantity })),
+    ];
+    await trx('batch_lines').insert(rows);
+    return { id: batch.id as number, number: batch.number as number };
+  });
+}
+
+export async function lockBatch(trx: Knex.Transaction, batchId: number) {
+  const batch = await trx('batches').where({ id: batchId }).forUpdate().first();
+  if (!batch) throw notFound('No such batch');
+  return batch;
+}
+
+export function assertBatchTransition(batch: { number: number; state: BatchState }, to: BatchState) {
+  if (!BATCH_TRANSITIONS[batch.state].includes(to)) {
+    throw conflict(`Batch ${batchLabel(batch.number)} is ${BATCH_STATE_LABELS[batch.state].toLowerCase()}: it cannot become ${BATCH_STATE_LABELS[to].toLowerCase()}`);
+  }
+}
+
+/** Units per option still to build for a batch: its lines while planning, else open units not yet kitted. */
+async function openQuantities(db: Db, batch: { id: number; state: BatchState }) {
+  const rows = (batch.state === 'draft'
+    ? await db('batch_lines').where({ batch_id: batch.id }).select('option_id').sum({ n: 'quantity' }).groupBy('option_id')
+    : await db('units').where({ batch_id: batch.id }).whereNull('kitted_at').whereNot('state', 'cancelled').select('option_id').count({ n: '*' }).groupBy('option_id')) as unknown as { option_id: number; n: string }[];
+  return new Map<number, number>(rows.map((r: { option_id: number; n: string }) => [r.option_id, Number(r.n)]));
+}
+
+/** A batch with its lines, units, exploded BOM against stock, shortages and earliest start. */
+export async function getBatch(db: Db, batchId: number) {
+  const batch = await db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
+    .where('b.id', batchId).select('b.*', 'r.number as revision_number', 'r.label as revision_label', 'm.name as model_name', 'm.id as model_id').first();
+  if (!batch) throw notFound('No such batch');
+  const lines = await db('batch_lines as bl').join('clipping_options as c', 'c.id', 'bl.option_id')
+    .leftJoin('order_lines as ol', 'ol.id', 'bl.order_line_id').leftJoin('orders as o', 'o.id', 'ol.order_id')
+    .where('bl.batch_id', batchId).select('bl.id', 'bl.quantity', 'bl.option_id', 'c.code', 'c.name as option_name', 'o.number as order_number', 'o.due_at')
+    .orderBy('bl.id');
+  const units = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id').join('clipping_options as c', 'c.id', 'u.option_id')
+    .leftJoin('orders as o', 'o.id', 'u.order_id')
+    .where('u.batch_id', batchId)
+    .select('u.id', 'u.serial', 'u.sequence', 'u.state', 'u.assembler_id', 'a.name as assembler_name', 'u.planned_date', 'u.kitted_at', 'c.code as option_code', 'o.number as order_number', 'o.due_at')
+    .orderBy('u.sequence');
+  const requirements = await explodeBom(db, batch.revision_id, await openQuantities(db, batch), batch.state === 'draft' ? null : batch.id);
+  return {
+    batch: {
+      id: batch.id, number: batch.number, label: batchLabel(batch.number), state: batch.state as BatchState,
+      modelId: batch.model_id, modelName: batch.model_name, revisionId: batch.revision_id, revisionNumber: batch.revision_number, revisionLabel: batch.revision_label,
+      notes: batch.notes, shortageOverrideReason: batch.shortage_override_reason, releasedAt: batch.released_at, plannedStart: batch.planned_start, createdAt: batch.created_at,
+    },
+    lines: lines.map((l) => ({ id: l.id, quantity: l.quantity, optionId: l.option_id, optionCode: l.code, optionName: l.option_name, orderNumber: l.order_number, dueAt: l.due_at })),
+    units: units.map((u) => ({
+      id: u.id, serial: u.serial, sequence: u.sequence, state: u.state, assemblerId: u.assembler_id, assemblerName: u.assembler_name,
+      plannedDate: u.planned_date ? toDate(u.planned_date) : null, kitted: u.kitted_at !== null, optionCode: u.option_code, orderNumber: u.order_number, dueAt: u.due_at,
+    })),
+    requirements,
+    earliestStart: earliestStart(requirements),
+  };
+}
+
+export const toDate = (d: Date | string) => (typeof d === 'string' ? d.slice(0, 10) : new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 10));
+
+export async function listBatches(db: Db) {
+  const rows = await db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
+    .select('b.id', 'b.number', 'b.state', 'b.released_at', 'b.created_at', 'm.name as model_name', 'r.number as revision_number')
+    .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM batch_lines WHERE batch_id = b.id) AS units'))
+    .orderBy('b.number', 'desc');
+  return rows.map((b) => ({ id: b.id, number: b.number, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number, units: b.units, releasedAt: b.released_at, createdAt: b.created_at }));
+}
+
+/** What to buy for a batch's shortages, grouped by supplier, as CSV. */
+export async function purchaseListCsv(db: Db, batchId: number) {
+  const { batch, requirements } = await getBatch(db, batchId);
+  const short = requirements.filter((r) => r.shortage > 0)
+    .sort((a, b) => (a.supplier ?? '~').localeCompare(b.supplier ?? '~') || a.partNumber.localeCompare(b.partNumber));
+  const rows = short.map((r) => [r.supplier ?? '(no supplier)', r.partNumber, r.description, r.shortage, r.leadTimeDays, (r.unitCostCents / 100).toFixed(2), ((r.unitCostCents * r.shortage) / 100).toFixed(2)]);
+  return { filename: `purchase-list-${batch.label}.csv`, csv: stringify([['supplier', 'part_number', 'description', 'quantity', 'lead_time_days', 'unit_cost', 'line_cost'], ...rows]) };
+}

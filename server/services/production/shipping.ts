@@ -1,0 +1,93 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '../../../shared/roles';
+import type { ShipOrderInput } from '../../../shared/schemas/production';
+import { conflict, notFound } from '../../errors';
+import { enqueueMail } from '../mail/outbox';
+import { transitionOrder } from '../orders/transitions';
+import { getSettings } from '../settings';
+import { renderPackingSlip } from '../../pdf/packing-slip';
+import { lockUnit, transitionUnit } from './history';
+import { closeBatchIfDone, orderFullyPassed } from './testing';
+
+type Db = Knex | Knex.Transaction;
+
+/** Orders with units in production or ready to pack, and shipped orders awaiting delivery. */
+export async function shippingQueue(db: Db) {
+  const orders = await db('orders as o').join('users as u', 'u.id', 'o.customer_id')
+    .whereIn('o.state', ['scheduled', 'in_production', 'ready', 'shipped'])
+    .leftJoin('shipments as s', 's.order_id', 'o.id')
+    .select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name', 's.id as shipment_id', 's.carrier', 's.tracking_number', 's.shipped_at')
+    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
+    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state = 'passed') AS passed"))
+    .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines WHERE order_id = o.id) AS ordered'))
+    .orderBy([{ column: 'o.due_at', order: 'asc', nulls: 'last' }, 'o.id']);
+  const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
+    .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
+    .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name').orderBy('u.serial');
+  return {
+    orders: orders.map((o) => ({
+      id: o.id, number: o.number, state: o.state, dueAt: o.due_at, customerName: o.customer_name, destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`,
+      units: o.units, passed: o.passed, ordered: o.ordered, shipment: o.shipment_id ? { id: o.shipment_id, carrier: o.carrier, trackingNumber: o.tracking_number, shippedAt: o.shipped_at, packingSlipUrl: `/api/shipments/${o.shipment_id}/packing-slip.pdf` } : null,
+    })),
+    finishedStock: stock.map((u) => ({ id: u.id, serial: u.serial, state: u.state, modelName: u.model_name, optionName: u.option_name })),
+  };
+}
+
+/** Ships an order: only when every unit has passed; records carrier and tracking, prints the packing slip, queues the mail. */
+export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderInput) {
+  return knex.transaction(async (trx) => {
+    const order = await trx('orders as o').join('users as u', 'u.id', 'o.customer_id').where('o.id', input.orderId).forUpdate('o').select('o.*', 'u.email', 'u.name as customer_name').first();
+    if (!order) throw notFound('No such order');
+    if (!(await orderFullyPassed(trx, order.id)) || !['ready'].includes(order.state)) {
+      throw conflict(`Order ${order.number} cannot ship yet: every unit must have passed its bench test`);
+    }
+    const units = await trx('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
+      .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
+      .where('u.order_id', order.id).where('u.state', 'passed').select('u.id', 'u.serial', 'u.batch_id', 'm.name as model_name', 'c.name as option_name', 'r.supply_v').orderBy('u.serial');
+    const [shipment] = await trx('shipments').insert({ order_id: order.id, carrier: input.carrier, tracking_number: input.trackingNumber, shipped_by: user.id }).returning('*');
+    for (const u of units) {
+      const unit = await lockUnit(trx, u.id);
+      await transitionUnit(trx, unit, 'shipped', user.id, `shipped with ${input.carrier} ${input.trackingNumber}`, { shipment_id: shipment.id });
+    }
+    const settings = await getSettings(trx);
+    const pdf = await renderPackingSlip({ settings, order, shipment, units });
+    const [file] = await trx('files').insert({ purpose: 'packing-slip', filename: `packing-slip-${order.number}.pdf`, content_type: 'application/pdf', size_bytes: pdf.length, data: pdf, uploaded_by: user.id }).returning('id');
+    await trx('shipments').where({ id: shipment.id }).update({ packing_slip_file_id: file.id });
+    await transitionOrder(trx, order.id, 'shipped', { userId: user.id, message: `shipped with ${input.carrier}, tracking ${input.trackingNumber}` });
+    await enqueueMail(trx, {
+      dedupeKey: `order-shipped:${order.id}`, template: 'order-shipped', to: order.email,
+      data: { orderNumber: order.number, customerName: order.customer_name, carrier: input.carrier, trackingNumber: input.trackingNumber, serials: units.map((u) => u.serial) },
+    });
+    for (const batchId of new Set(units.map((u) => u.batch_id))) await closeBatchIfDone(trx, batchId);
+    return { id: shipment.id as number, orderState: 'shipped' as const, packingSlipUrl: `/api/shipments/${shipment.id}/packing-slip.pdf` };
+  });
+}
+
+/** The customer confirmed delivery (or the carrier did): shipped → delivered. */
+export async function markDelivered(knex: Knex, user: SessionUser, shipmentId: number) {
+  return knex.transaction(async (trx) => {
+    const shipment = await trx('shipments').where({ id: shipmentId }).forUpdate().first();
+    if (!shipment) throw notFound('No such shipment');
+    if (shipment.delivered_at) throw conflict('This shipment is already marked delivered');
+    await transitionOrder(trx, shipment.order_id, 'delivered', { userId: user.id, message: 'delivery confirmed' });
+    await trx('shipments').where({ id: shipmentId }).update({ delivered_at: trx.fn.now() });
+    return { id: shipmentId, orderState: 'delivered' as const };
+  });
+}
+
+/** A passed unit built for stock goes to finished stock, to fulfil a later order of the same model and option. */
+export async function moveToFinishedStock(knex: Knex, user: SessionUser, unitId: number) {
+  return knex.transaction(async (trx) => {
+    const unit = await lockUnit(trx, unitId);
+    if (unit.order_id) throw conflict(`Unit ${unit.serial} belongs to an order: ship it with that order`);
+    await transitionUnit(trx, unit, 'in_stock', user.id, 'into finished stock');
+    await closeBatchIfDone(trx, unit.batch_id);
+    return { id: unitId, state: unit.state };
+  });
+}
+
+export async function packingSlip(db: Db, shipmentId: number) {
+  const row = await db('shipments as s').join('files as f', 'f.id', 's.packing_slip_file_id').where('s.id', shipmentId).select('f.filename', 'f.data').first();
+  if (!row) throw notFound('No packing slip for this shipment');
+  return row as { filename: string; data: Buffer };
+}

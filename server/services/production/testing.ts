@@ -1,0 +1,84 @@
+import type { Knex } from 'knex';
+import type { SessionUser } from '../../../shared/roles';
+import type { BenchTestInput } from '../../../shared/schemas/production';
+import { conflict, invalid } from '../../errors';
+import { enqueueMail } from '../mail/outbox';
+import { transitionOrder } from '../orders/transitions';
+import { getSettings } from '../settings';
+import { analyseWav } from './capture';
+import { lockUnit, transitionUnit, unitEvent } from './history';
+import { toDate } from './planning';
+import { predictUnit } from './unit-circuit';
+
+type Db = Knex | Knex.Transaction;
+
+/** Units built and waiting for their bench test, oldest first. */
+export async function benchQueue(db: Db) {
+  const rows = await db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+    .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id').leftJoin('users as a', 'a.id', 'u.assembler_id')
+    .where('u.state', 'built').select('u.id', 'u.serial', 'u.planned_date', 'u.updated_at', 'm.name as model_name', 'c.name as option_name', 'a.name as assembler_name')
+    .orderBy('u.updated_at');
+  return rows.map((r) => ({ id: r.id, serial: r.serial, modelName: r.model_name, optionName: r.option_name, assemblerName: r.assembler_name, builtAt: r.updated_at, plannedDate: r.planned_date ? toDate(r.planned_date) : null }));
+}
+
+/** All of an order's units exist and have passed (cancelled ones do not count). */
+export async function orderFullyPassed(trx: Db, orderId: number) {
+  const wanted = await trx('order_lines').where({ order_id: orderId }).sum({ n: 'quantity' }).first();
+  const units = await trx('units').where({ order_id: orderId }).whereNot('state', 'cancelled').select('state');
+  return units.length >= Number(wanted?.n ?? 0) && units.every((u: { state: string }) => u.state === 'passed');
+}
+
+/**
+ * Records a bench test. Measured THD (and the capture's, when one is uploaded) is compared with
+ * the unit's predicted THD at the reference setting; relative tolerance from settings. Pass moves
+ * the unit on (and its order to ready when every unit passed); fail sends it back to its assembler.
+ */
+export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }) {
+  const analysis = capture ? analyseWav(capture) : null;
+  return knex.transaction(async (trx) => {
+    const unit = await lockUnit(trx, unitId);
+    if (unit.state !== 'built') throw conflict(`Unit ${unit.serial} is not waiting for a test`);
+    const settings = await getSettings(trx);
+    const batch = await trx('batches').where({ id: unit.batch_id }).first();
+    let predicted = unit.predicted as { thdPercent: number } | null;
+    if (!predicted) predicted = await predictUnit(trx, batch.revision_id, unit.option_id, new Map(), settings.vf_test_current_ma);
+    const tolerance = settings.thd_tolerance_percent;
+    const within = (thd: number) => Math.abs(thd - predicted!.thdPercent) <= (tolerance / 100) * predicted!.thdPercent;
+    const withinTolerance = within(input.measuredThdPercent) && (!analysis || within(analysis.thdPercent));
+    if (input.outcome === 'pass' && !withinTolerance && input.reason.length < 3) {
+      throw invalid('Out of tolerance: say why it passes anyway', { reason: `Measured THD is outside ±${tolerance} % of the predicted ${predicted.thdPercent.toFixed(2)} %: give a reason to pass it` });
+    }
+    let fileId: number | null = null;
+    if (capture) {
+      const [f] = await trx('files').insert({ purpose: 'wav-capture', filename: capture.originalname.slice(0, 200), content_type: 'audio/wav', size_bytes: capture.size, data: capture.buffer, uploaded_by: user.id }).returning('id');
+      fileId = f.id;
+    }
+    const [record] = await trx('test_records').insert({
+      unit_id: unitId, tester_id: user.id, current_draw_ma: input.currentDrawMa, measured_thd_percent: input.measuredThdPercent,
+      predicted_thd_percent: predicted.thdPercent, tolerance_percent: tolerance, within_tolerance: withinTolerance,
+      wav_file_id: fileId, wav_analysis: analysis ? JSON.stringify(analysis) : null, outcome: input.outcome, reason: input.reason,
+    }).returning('id');
+    const summary = `bench test: ${input.currentDrawMa.toFixed(1)} mA, THD ${input.measuredThdPercent.toFixed(2)} % (predicted ${predicted.thdPercent.toFixed(2)} %)${analysis ? `, capture THD ${analysis.thdPercent.toFixed(2)} %` : ''}${withinTolerance ? '' : ', out of tolerance'}`;
+    await unitEvent(trx, unitId, 'test', summary, user.id);
+    if (input.outcome === 'fail') {
+      await transitionUnit(trx, unit, 'rework', user.id, `sent back for rework: ${input.reason}`);
+    } else {
+      await transitionUnit(trx, unit, 'passed', user.id, input.reason ? `passed: ${input.reason}` : 'passed');
+      if (unit.order_id) {
+        const order = await trx('orders as o').join('users as u', 'u.id', 'o.customer_id').where('o.id', unit.order_id).select('o.*', 'u.email', 'u.name as customer_name').first();
+        await enqueueMail(trx, { dedupeKey: `unit-passed:${unit.id}`, template: 'unit-passed', to: order.email, data: { orderNumber: order.number, customerName: order.customer_name, serial: unit.serial, measuredThdPercent: input.measuredThdPercent, predictedThdPercent: predicted.thdPercent } });
+        if (order.state === 'in_production' && (await orderFullyPassed(trx, unit.order_id))) {
+          await transitionOrder(trx, unit.order_id, 'ready', { userId: user.id, message: 'every unit passed its bench test' });
+        }
+      }
+      await closeBatchIfDone(trx, unit.batch_id);
+    }
+    return { id: record.id as number, unitState: unit.state, withinTolerance, predictedThdPercent: predicted.thdPercent, capture: analysis };
+  });
+}
+
+/** A batch closes when none of its units is still open. */
+export async function closeBatchIfDone(trx: Knex.Transaction, batchId: number) {
+  const open = await trx('units').where({ batch_id: batchId }).whereIn('state', ['waiting', 'building', 'built', 'rework']).first();
+  if (!open) await trx('batches').where({ id: batchId }).where({ state: 'on_bench' }).update({ state: 'closed', closed_at: trx.fn.now(), updated_at: trx.fn.now() });
+}

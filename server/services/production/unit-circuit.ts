@@ -1,0 +1,69 @@
+import type { Knex } from 'knex';
+import { computeProfile, forwardVoltage, perUnitCircuit, railPeakFromSupply, type CircuitSpec, type DeviceModel } from '../../../shared/engine';
+import { EngineInputError } from '../../../shared/engine/errors';
+import { invalid } from '../../errors';
+
+type Db = Knex | Knex.Transaction;
+
+/** The option's devices in string order, with their SPICE parameters and kind. */
+export async function optionDevices(db: Db, optionId: number) {
+  const rows = await db('option_devices as od').join('devices as d', 'd.id', 'od.device_id').where('od.option_id', optionId)
+    .select('od.id', 'od.side', 'od.position', 'd.id as device_id', 'd.name', 'd.kind', 'd.is_amps', 'd.n', 'd.rs_ohms', 'd.eg_ev', 'd.xti')
+    .orderBy(['od.side', 'od.position']);
+  return rows.map((r) => ({
+    id: r.id as number, side: r.side as 'positive' | 'negative', position: r.position as number, deviceId: r.device_id as number, name: r.name as string, kind: r.kind as string,
+    model: { is: r.is_amps, n: r.n, rs: r.rs_ohms, eg: r.eg_ev, xti: r.xti } as DeviceModel,
+  }));
+}
+
+/** The engine's circuit for a revision's drive stage with an option's network (audio taper = log). */
+export async function circuitFor(db: Db, revisionId: number, optionId: number): Promise<{ spec: CircuitSpec; devices: Awaited<ReturnType<typeof optionDevices>> }> {
+  const revision = await db('model_revisions').where({ id: revisionId }).first();
+  const option = await db('clipping_options').where({ id: optionId }).first();
+  const devices = await optionDevices(db, optionId);
+  const network = typeof option.network === 'string' ? JSON.parse(option.network) : option.network;
+  return {
+    devices,
+    spec: {
+      clipper: {
+        ...network, topology: option.topology,
+        positive: devices.filter((d) => d.side === 'positive').map((d) => d.model),
+        negative: devices.filter((d) => d.side === 'negative').map((d) => d.model),
+      },
+      drive: {
+        minGain: revision.drive_min_gain, maxGain: revision.drive_max_gain, taper: revision.drive_taper === 'linear' ? 'linear' : 'log',
+        inputPeakV: revision.input_peak_v, railPeakV: railPeakFromSupply(revision.supply_v),
+      },
+      referenceDrive: revision.reference_drive,
+    },
+  };
+}
+
+/** Nominal Vf of a device at the bench current, e.g. ≈ 0.6 V for a small-signal silicon diode at 1 mA. */
+export const nominalVf = (model: DeviceModel, testCurrentMa: number) => forwardVoltage(model, testCurrentMa / 1000);
+
+/**
+ * This unit's predicted profile: IS of each fitted device refitted from its measured Vf (N kept),
+ * then the full profile recomputed. `measured` maps option_device id → volts; missing ones stay nominal.
+ */
+export async function predictUnit(db: Db, revisionId: number, optionId: number, measured: Map<number, number>, testCurrentMa: number) {
+  const { spec, devices } = await circuitFor(db, revisionId, optionId);
+  const testCurrentA = testCurrentMa / 1000;
+  const vf = (side: 'positive' | 'negative') => devices.filter((d) => d.side === side).map((d) => measured.get(d.id) ?? forwardVoltage(d.model, testCurrentA));
+  try {
+    const circuit = perUnitCircuit(spec, { positive: vf('positive'), negative: vf('negative'), testCurrentA });
+    const profile = computeProfile(circuit, { sweepPoints: 13, transferPoints: 2 });
+    const s = profile.reference.spectrum;
+    return {
+      thdPercent: s.thdF * 100,
+      referenceDrive: profile.reference.drive,
+      harmonics: s.harmonics.map((h) => ({ order: h.order, dbc: h.dbc })),
+      sweep: profile.sweep.map((p) => ({ drive: p.drive, thdPercent: p.thdF * 100 })),
+      fromMeasuredVf: measured.size > 0,
+      computedAt: new Date().toISOString(),
+    };
+  } catch (error) {
+    if (error instanceof EngineInputError) throw invalid(`The profile cannot be computed: ${error.message}`, { readings: error.message });
+    throw error;
+  }
+}

@@ -1,0 +1,48 @@
+// Batch and unit states of Kneepoint's own, with the changes allowed between them. The server
+// enforces these (an illegal change is a 409); the client uses the labels.
+export const BATCH_STATES = ['draft', 'released', 'on_bench', 'closed', 'cancelled'] as const;
+export type BatchState = (typeof BATCH_STATES)[number];
+
+export const BATCH_STATE_LABELS: Record<BatchState, string> = {
+  draft: 'Being planned',
+  released: 'Released to the bench',
+  on_bench: 'Builds under way',
+  closed: 'Closed',
+  cancelled: 'Cancelled',
+};
+
+export const BATCH_TRANSITIONS: Record<BatchState, readonly BatchState[]> = {
+  draft: ['released', 'cancelled'],
+  released: ['on_bench', 'cancelled'],
+  on_bench: ['closed'],
+  closed: [],
+  cancelled: [],
+};
+
+export const UNIT_STATES = ['waiting', 'building', 'built', 'rework', 'passed', 'in_stock', 'shipped', 'cancelled'] as const;
+export type UnitState = (typeof UNIT_STATES)[number];
+
+export const UNIT_STATE_LABELS: Record<UnitState, string> = {
+  waiting: 'Waiting for its builder',
+  building: 'On the bench',
+  built: 'Built, awaiting test',
+  rework: 'Back for rework',
+  passed: 'Passed test',
+  in_stock: 'In finished stock',
+  shipped: 'Shipped',
+  cancelled: 'Cancelled',
+};
+
+export const UNIT_TRANSITIONS: Record<UnitState, readonly UnitState[]> = {
+  waiting: ['building', 'cancelled'],
+  building: ['built', 'cancelled'],
+  built: ['passed', 'rework'],
+  rework: ['built'],
+  passed: ['shipped', 'in_stock'],
+  in_stock: ['shipped'],
+  shipped: [],
+  cancelled: [],
+};
+
+/** A unit still counted as work in progress (not finished, not cancelled). */
+export const OPEN_UNIT_STATES: readonly UnitState[] = ['waiting', 'building', 'built', 'rework'];
