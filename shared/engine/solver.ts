@@ -268,9 +268,11 @@ function dynamicPeriod(setup: StageSetup, options: SamplingOptions, guess: numbe
   const state = new Float64Array(n);
   const sensitivity = new Float64Array(n);
 
-  // Each shooting run starts a quarter period early (the pre-roll, t = −T/4) from the trial state x and
-  // records t = 0…T; a network that forgets its start within the pre-roll is periodic after one run.
-  const preroll = steps >> 2;
+  // Each shooting run starts early (the pre-roll) from the trial state x and records t = 0…T. The diodes
+  // only add conductance, so R·C bounds the memory: 12 R·C of pre-roll forgets the start to e^−12 ≈ 6e-6,
+  // and one run is periodic. When 12 R·C exceeds half a period, Newton shooting does the work instead.
+  const memory = 12 * cap / g;
+  const preroll = memory <= period / 2 ? Math.max(4, Math.ceil(memory / h)) : steps >> 3;
   const run = (x: number): PeriodRun => {
     let v = x;
     const d = diodeCurrent(law, v);
