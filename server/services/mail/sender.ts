@@ -49,11 +49,13 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
       const row = (await trx('outbox').where('status', 'pending').andWhere('next_attempt_at', '<=', trx.fn.now())
         .orderBy('id').forUpdate().skipLocked().first()) as OutboxRow | undefined;
       if (!row) return 'none';
+      let stage: 'render' | 'send' = 'render';
       try {
         const rendered = renderMail(row.template, { shopUrl: config.publicUrl, ...row.data }, ctx);
         const files = row.attachments.length
           ? await trx('files').whereIn('id', row.attachments.map((a) => a.fileId)).select('id', 'content_type', 'data')
           : [];
+        stage = 'send';
         await mailer.sendMail({
           from: config.MAIL_FROM,
           to: row.to_address,
@@ -78,13 +80,14 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
           last_error: (error instanceof Error ? error.message : String(error)).slice(0, 1000),
           next_attempt_at: trx.raw(`now() + make_interval(secs => ?)`, [backoffSeconds(attempts, config.OUTBOX_RETRY_BASE_SECONDS)]),
         });
-        return 'failed';
+        return stage === 'send' ? 'failed' : 'unrenderable';
       }
     });
     if (done === 'none') break;
     if (done === 'sent') sent++;
     else failed++;
     // With the server down every row would fail the same way: stop and let backoff do its work.
+    // A mail that cannot be rendered is that row's problem only, so the sweep goes on.
     if (done === 'failed') break;
   }
   return { sent, failed };

@@ -1,0 +1,57 @@
+// The app on a real port with the payments fake (and optionally the mail fake) in-process, the
+// fake's webhooks pointed at the app's endpoint with the app's secret.
+import { afterAll, beforeAll } from 'vitest';
+import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/index';
+import { listen } from '../support/browser';
+import { startTestApp } from '../support/app';
+
+export const WEBHOOK_SECRET = 'whsec_kneepoint_ordering_test';
+
+export interface PaymentsEnv {
+  t: ReturnType<typeof startTestApp>;
+  fake: PaymentsFake;
+  url: string;
+}
+
+export function usePaymentsApp(extraEnv: () => Record<string, string> = () => ({})): PaymentsEnv {
+  const env = {} as PaymentsEnv;
+  let server: Awaited<ReturnType<typeof listen>>;
+  beforeAll(async () => {
+    env.fake = await startPaymentsFake({ port: 0, webhookSecret: WEBHOOK_SECRET, retryDelaysMs: [50, 100, 200] });
+    env.t = startTestApp({ PAYMENTS_PORT: String(env.fake.port), PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, ...extraEnv() });
+    server = await listen(env.t.app);
+    env.url = server.url;
+    env.fake.setWebhookUrl(`${server.url}/api/payments/webhook`);
+  });
+  afterAll(async () => {
+    await env.fake?.close();
+    await server?.close();
+    await env.t?.stop();
+  });
+  return env;
+}
+
+/** Waits until check() returns something truthy (webhooks arrive in the background). */
+export async function eventually<T>(check: () => Promise<T | undefined | null | false>, what: string, timeoutMs = 8_000): Promise<T> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const value = await check();
+    if (value) return value;
+    if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
+/** Pays a checkout session without a browser through the fake's control endpoint. */
+export async function payWith(fake: PaymentsFake, sessionId: string, card: string) {
+  const res = await fetch(`${fake.url}/_fake/sessions/${sessionId}/pay`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ card }) });
+  return (await res.json()) as { outcome: string; redirect?: string };
+}
+
+export async function fakeEvents(fake: PaymentsFake, type?: string) {
+  const res = await fetch(`${fake.url}/_fake/events${type ? `?type=${type}` : ''}`);
+  return (await res.json()) as { event: { id: string; type: string; data: { object: Record<string, unknown> } }; delivery: { state: string } }[];
+}
+
+export const SUCCESS_CARD = '4242 4242 4242 4242';
+export const DECLINE_CARD = '4000 0000 0000 0002';
