@@ -1,7 +1,11 @@
-import { WaveFile } from 'wavefile';
+import wavefile from 'wavefile';
 import { CAPTURE_LIMITS } from '../../../shared/schemas/production';
 import { analyseCapture } from '../../../shared/production/wav-analysis';
 import { invalid, tooLarge } from '../../errors';
+
+// wavefile is CommonJS: its class comes off the default export under Node's ESM loader.
+const { WaveFile } = wavefile;
+type WaveFile = InstanceType<typeof WaveFile>;
 
 /** Reads a WAV capture (mono or stereo, 44.1/48/96 kHz, limited length) and analyses its test tone. */
 export function analyseWav(file: { buffer: Buffer; size: number; originalname: string }) {
