@@ -2,10 +2,15 @@
 import { loadConfig } from '../server/config';
 import { createKnex } from '../server/db/knex';
 import { createApp } from '../server/app';
+import { startJobs } from '../server/jobs/boss';
+import { kickOutbox, outboxJob } from '../server/jobs/outbox-worker';
 
 const config = loadConfig();
 const knex = createKnex(config.DATABASE_URL);
 const { app, close } = createApp({ knex, config });
+// Background jobs (pg-boss on the same PostgreSQL): the mail outbox; other areas add theirs to this list.
+const jobs = await startJobs(config, [outboxJob(knex, config)]);
+await kickOutbox(jobs.boss);
 const server = app.listen(config.PORT, config.HOST, () => {
   const accounts = ['owner', 'planner', 'assembler', 'tester', 'customer'].map((r) => `    ${r}@shop.example`).join('\n');
   console.log(`
@@ -19,7 +24,7 @@ server.on('error', (error: NodeJS.ErrnoException) => {
   process.exit(1);
 });
 const shutdown = () => {
-  server.close(() => void Promise.all([close(), knex.destroy()]).then(() => process.exit(0)));
+  server.close(() => void jobs.stop().then(() => Promise.all([close(), knex.destroy()])).then(() => process.exit(0)));
   setTimeout(() => process.exit(0), 3000).unref();
 };
 process.on('SIGTERM', shutdown);

@@ -2,7 +2,7 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import { conflict } from '../../errors';
 import { findVisibleOrder } from '../orders/orders';
-import type { PaymentsDeps } from './client';
+import { withProvider, type PaymentsDeps } from './client';
 
 /**
  * Starts (or resumes) payment of an order awaiting payment through a hosted Checkout Session.
@@ -14,7 +14,7 @@ export async function startCheckout(knex: Knex, { stripe, config }: PaymentsDeps
   if (order.customer_id !== user.id) throw conflict('Only the customer who placed an order pays for it');
   if (order.state !== 'awaiting_payment') throw conflict(`Order ${order.number} is not awaiting payment`);
   if (order.checkout_session_id) {
-    const existing = await stripe.checkout.sessions.retrieve(order.checkout_session_id);
+    const existing = await withProvider(() => stripe.checkout.sessions.retrieve(order.checkout_session_id as string));
     if (existing.status === 'open' && existing.url) return { url: existing.url };
   }
   const lines = await knex('order_lines').where({ order_id: order.id }).orderBy('id');
@@ -26,7 +26,7 @@ export async function startCheckout(knex: Knex, { stripe, config }: PaymentsDeps
   const metadata = { order_id: String(order.id), order_number: order.number };
   const back = `${config.publicUrl}/orders/${order.id}`;
   const customer = await knex('users').where({ id: order.customer_id }).first('email');
-  const session = await stripe.checkout.sessions.create(
+  const session = await withProvider(() => stripe.checkout.sessions.create(
     {
       mode: 'payment',
       line_items: lineItems,
@@ -39,7 +39,7 @@ export async function startCheckout(knex: Knex, { stripe, config }: PaymentsDeps
     },
     // One session per order attempt: a retried request returns the same session.
     { idempotencyKey: `checkout-${order.id}-${order.checkout_session_id ?? 'first'}` },
-  );
+  ));
   if (session.amount_total !== order.total_cents) throw new Error(`Checkout total ${session.amount_total} differs from order total ${order.total_cents}`);
   await knex('orders').where({ id: order.id }).update({ checkout_session_id: session.id, updated_at: knex.fn.now() });
   return { url: session.url as string };

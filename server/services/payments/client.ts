@@ -1,5 +1,6 @@
 import Stripe from 'stripe';
 import type { Config } from '../../config';
+import { DomainError } from '../../errors';
 
 /**
  * The payments provider's official SDK, pointed by configuration alone at the provider or at
@@ -18,4 +19,19 @@ export function createPaymentsClient(config: Config): Stripe {
 export interface PaymentsDeps {
   stripe: Stripe;
   config: Config;
+}
+
+/**
+ * Runs a provider call; a provider refusal or outage becomes a 502 with the provider's own words
+ * instead of a 500, so the customer learns that paying, not Kneepoint, is the problem.
+ */
+export async function withProvider<T>(call: () => Promise<T>): Promise<T> {
+  try {
+    return await call();
+  } catch (error) {
+    if (error instanceof Stripe.errors.StripeError) {
+      throw new DomainError(502, 'payments_provider', `The payments provider refused or could not be reached: ${error.message}`);
+    }
+    throw error;
+  }
 }
