@@ -7,6 +7,16 @@ export const PART_CATEGORIES = ['resistor', 'capacitor', 'ic', 'transistor', 'di
 export const SKILLS = ['through-hole', 'smd-rework', 'device-matching', 'enclosure', 'final-check'] as const;
 export const DEVICE_KINDS = ['silicon', 'schottky', 'germanium', 'led', 'other'] as const;
 
+/** For PATCH bodies: every field optional and no defaults filled in (a default would overwrite stored values). */
+function patchOf<T extends z.ZodRawShape>(schema: z.ZodObject<T>) {
+  const shape: Record<string, z.ZodType> = {};
+  for (const [key, field] of Object.entries(schema.shape)) {
+    const f = field as z.ZodType;
+    shape[key] = (f instanceof z.ZodDefault ? (f.unwrap() as z.ZodType) : f).optional();
+  }
+  return z.object(shape) as unknown as z.ZodObject<{ [K in keyof T]: z.ZodOptional<T[K]> }>;
+}
+
 const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters`);
 const whole = (label: string, max = 1_000_000) =>
   z.coerce.number({ message: `Enter ${label} as a number` }).int(`${label} must be a whole number`).min(0, `${label} cannot be negative`).max(max, `${label} must be at most ${max}`);
@@ -25,7 +35,7 @@ export const partSchema = z.object({
   notes: text(2000).default(''),
 });
 export type PartInput = z.infer<typeof partSchema>;
-export const partUpdateSchema = partSchema.partial();
+export const partUpdateSchema = patchOf(partSchema);
 
 export const partListQuerySchema = z.object({
   search: z.string().trim().max(80).default(''),
@@ -90,7 +100,7 @@ export const modelSchema = z.object({
   published: z.boolean().default(false),
 });
 export type ModelInput = z.infer<typeof modelSchema>;
-export const modelUpdateSchema = modelSchema.partial();
+export const modelUpdateSchema = patchOf(modelSchema);
 
 export const driveStageSchema = z.object({
   label: text(80).optional(),
@@ -144,7 +154,7 @@ export const optionSchema = z.object({
   published: z.boolean().default(false),
 });
 export type OptionInput = z.infer<typeof optionSchema>;
-export const optionUpdateSchema = optionSchema.partial();
+export const optionUpdateSchema = patchOf(optionSchema);
 
 /** BOM CSV upload: the one documented column format (see DEVELOPERS.md, "BOM CSV"). */
 export const BOM_CSV_COLUMNS = { partNumber: 'part number', quantity: 'quantity', designators: 'designators', notes: 'notes' } as const;

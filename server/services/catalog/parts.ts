@@ -98,7 +98,7 @@ export const listSuppliers = (knex: Knex) => knex('suppliers').orderBy('name').s
 /** CSV of the whole (filtered) parts list, every row, in the list's sort order. */
 export async function partsCsv(knex: Knex, q: PartListQuery): Promise<string> {
   const rows = (await baseQuery(knex, q).select(COLUMNS).orderBy([{ column: SORT_COLUMNS[q.sort], order: q.dir }, { column: 'p.id', order: 'asc' }])).map(view);
-  return stringify(rows.map((p) => [p.partNumber, p.category, p.value, p.package, p.manufacturerPartNumber, p.supplierName ?? '', (p.unitCostCents / 100).toFixed(2),
+  return stringify(rows.map((p: PartView) => [p.partNumber, p.category, p.value, p.package, p.manufacturerPartNumber, p.supplierName ?? '', (p.unitCostCents / 100).toFixed(2),
     p.leadTimeDays, p.reorderPoint, p.binLocation, p.onHand, p.reserved, p.available, p.lowStock ? 'yes' : 'no']), {
     header: true,
     columns: ['part number', 'category', 'value', 'package', 'manufacturer part number', 'supplier', 'unit cost', 'lead time days', 'reorder point', 'bin', 'on hand', 'reserved', 'available', 'below reorder point'],
@@ -108,7 +108,7 @@ export async function partsCsv(knex: Knex, q: PartListQuery): Promise<string> {
 /** CSV of the movement history (one part, or all), newest first, times in UTC ISO 8601. */
 export async function movementsCsv(knex: Knex, partId?: number): Promise<string> {
   const rows = await movementHistory(knex, partId, 100_000);
-  return stringify(rows.map((m) => [new Date(m.created_at).toISOString(), m.part_number, m.kind, m.quantity, m.on_hand_delta, m.reserved_delta, m.reason, m.reference, m.batch_id ?? '', m.unit_id ?? '', m.user_name ?? '']), {
+  return stringify(rows.map((m: Awaited<ReturnType<typeof movementHistory>>[number]) => [new Date(m.created_at).toISOString(), m.part_number, m.kind, m.quantity, m.on_hand_delta, m.reserved_delta, m.reason, m.reference, m.batch_id ?? '', m.unit_id ?? '', m.user_name ?? '']), {
     header: true,
     columns: ['time (UTC)', 'part number', 'kind', 'quantity', 'on-hand change', 'reserved change', 'reason', 'reference', 'batch', 'unit', 'by'],
   });

@@ -15,7 +15,8 @@ export async function lockEditable(trx: Knex.Transaction, revisionId: number): P
   const r: RevisionRow | undefined = await trx('model_revisions').where({ id: revisionId }).forUpdate().first();
   if (!r) throw notFound('No such revision');
   if (r.frozen_at) {
-    throw conflict(`Revision ${r.number} is frozen: a released batch was built from it. Start revision ${r.number + 1} from it to make changes.`);
+    const [{ max }] = await trx('model_revisions').where({ model_id: r.model_id }).max<{ max: number }[]>('number as max');
+    throw conflict(`Revision ${r.number} is frozen: a released batch was built from it. Start revision ${Number(max) + 1} from it to make changes.`);
   }
   return r;
 }
