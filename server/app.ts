@@ -26,6 +26,7 @@ import { orderRoutes } from './routes/orders';
 import { paymentRoutes } from './routes/payments';
 import { shopRoutes } from './routes/shop';
 import { modelRoutes } from './routes/models';
+import { specSheetRoutes } from './routes/spec-sheets';
 import { partRoutes } from './routes/parts';
 import { deviceRoutes } from './routes/devices';
 
@@ -84,6 +85,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...paymentRoutes(knex, config),
     ...mailRoutes(config),
     ...modelRoutes(knex),
+    ...specSheetRoutes(knex, config),
     ...partRoutes(knex),
     ...deviceRoutes(knex),
     ...batchRoutes(knex),

@@ -1,0 +1,70 @@
+import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
+import type { Knex } from 'knex';
+import type { Role } from '../../shared/roles';
+import { serialParamSchema } from '../../shared/schemas/spec-sheets';
+import { PostgresRateLimitStore } from '../auth/rate-limit-store';
+import type { Config } from '../config';
+import { parseWith } from '../errors';
+import { currentUser, type RouteDef } from '../http/route-table';
+import { jobArchive, latestBatchJob, requestBatchSheets, sheetJob } from '../services/spec-sheets/batch-jobs';
+import { regenerateSheet, unitSheetPdf } from '../services/spec-sheets/sheets';
+import { shopName, verifyUnit } from '../services/spec-sheets/verify';
+import { tooManyChecksPage, unknownSerialPage, verifiedPage } from '../services/spec-sheets/verify-page';
+import { idParam } from './batches';
+
+/** Who makes sheets for others: the owner, the planner (batches) and the tester (units). */
+const SHEET_MAKERS: Role[] = ['owner', 'planner', 'tester'];
+const serial = (value: unknown) => parseWith(serialParamSchema, value);
+
+export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): RouteDef[] {
+  // The public page is rate-limited per address, counted in PostgreSQL so every instance shares it.
+  const verifyLimiter = rateLimit({
+    windowMs: 60_000, limit: verifyLimit, standardHeaders: 'draft-8', legacyHeaders: false,
+    store: new PostgresRateLimitStore(knex, 'verify:'), keyGenerator: (req) => ipKeyGenerator(req.ip ?? ''),
+    handler: async (_req, res) => { res.status(429).type('html').send(tooManyChecksPage(await shopName(knex))); },
+  });
+  return [
+    {
+      // Staff, or the customer whose order the unit is on (anyone else's unit is "not found"): checked in the service.
+      method: 'get', path: '/api/units/:serial/spec-sheet.pdf', allow: 'signed-in',
+      handler: async (req, res) => {
+        const sheet = await unitSheetPdf(knex, currentUser(req), serial(req.params.serial), config.publicUrl);
+        res.type('application/pdf').set('Content-Disposition', `inline; filename="${sheet.filename}"`).set('Cache-Control', 'private, no-store').send(sheet.pdf);
+      },
+    },
+    {
+      method: 'post', path: '/api/units/:serial/spec-sheet/regenerate', allow: SHEET_MAKERS,
+      handler: async (req, res) => res.json(await regenerateSheet(knex, currentUser(req), serial(req.params.serial), config.publicUrl)),
+    },
+    {
+      method: 'post', path: '/api/batches/:id/spec-sheets', allow: SHEET_MAKERS,
+      handler: async (req, res) => {
+        const { job } = await requestBatchSheets(knex, currentUser(req), idParam(req.params.id));
+        res.status(202).json({ job });
+      },
+    },
+    {
+      method: 'get', path: '/api/batches/:id/spec-sheets/latest', allow: SHEET_MAKERS,
+      handler: async (req, res) => res.json({ job: await latestBatchJob(knex, idParam(req.params.id)) }),
+    },
+    { method: 'get', path: '/api/spec-sheet-jobs/:id', allow: SHEET_MAKERS, handler: async (req, res) => res.json({ job: await sheetJob(knex, idParam(req.params.id)) }) },
+    {
+      method: 'get', path: '/api/spec-sheet-jobs/:id/archive.zip', allow: SHEET_MAKERS,
+      handler: async (req, res) => {
+        const archive = await jobArchive(knex, idParam(req.params.id));
+        res.type('application/zip').set('Content-Disposition', `attachment; filename="${archive.filename}"`).send(archive.data);
+      },
+    },
+    {
+      method: 'get', path: '/verify/:serial', allow: 'public', before: [verifyLimiter],
+      handler: async (req, res) => {
+        const shop = await shopName(knex);
+        const raw = String(req.params.serial);
+        const unit = serialParamSchema.safeParse(raw).success ? await verifyUnit(knex, raw.trim()) : null;
+        res.set('Cache-Control', 'no-store');
+        if (!unit) return res.status(404).type('html').send(unknownSerialPage(shop, raw));
+        return res.type('html').send(verifiedPage(shop, unit));
+      },
+    },
+  ];
+}
