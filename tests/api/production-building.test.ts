@@ -1,0 +1,191 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import wavefile from 'wavefile';
+import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+import { makeCatalog, makePaidOrder } from './production-fixture';
+
+const t = startTestApp();
+afterAll(() => t.stop());
+const { WaveFile } = wavefile;
+
+let planner: TestAgent;
+let juno: TestAgent;
+let priya: TestAgent;
+let tester: TestAgent;
+const ALL_SKILLS = ['through-hole', 'device-matching', 'enclosure'];
+
+beforeAll(async () => {
+  planner = await signedInAgent(t.app, DEMO.planner);
+  juno = await signedInAgent(t.app, DEMO.assembler);
+  priya = await signedInAgent(t.app, 'priya@shop.example');
+  tester = await signedInAgent(t.app, DEMO.tester);
+});
+
+/** A released, kitted batch for one paid order of `quantity` units, every unit assigned to Juno. */
+async function releasedOrderBatch(quantity: number) {
+  const c = await makeCatalog(t.knex);
+  const order = await makePaidOrder(t.knex, c.modelId, c.options.asym, quantity);
+  const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [order.lineId] }).expect(201);
+  await planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+  const units = await t.knex('units').where({ batch_id: body.id }).orderBy('sequence');
+  const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
+  await planner.put(`/api/assemblers/${junoId}`).set('X-CSRF-Token', planner.csrf).send({ skills: [...ALL_SKILLS, 'smd-rework', 'final-check'], dailyCapacityMinutes: 420 }).expect(200);
+  await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf)
+    .send({ builds: units.map((u) => ({ unitId: u.id, assemblerId: junoId, date: '2027-01-05' })) }).expect(200);
+  return { c, order, batchId: body.id as number, units };
+}
+
+async function buildUnit(unitId: number, c: Awaited<ReturnType<typeof makeCatalog>>) {
+  for (const step of c.steps) {
+    const started = await t.knex('unit_steps').where({ unit_id: unitId, step_id: step }).first();
+    if (!started) await juno.post(`/api/units/${unitId}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    await juno.post(`/api/units/${unitId}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+  }
+  const detail = await juno.get(`/api/units/${unitId}`).expect(200);
+  const readings = detail.body.devices.map((d: { optionDeviceId: number; nominalVf: number }) => ({ optionDeviceId: d.optionDeviceId, vf: Number((d.nominalVf + 0.004).toFixed(3)) }));
+  await juno.put(`/api/units/${unitId}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings }).expect(200);
+  await juno.put(`/api/units/${unitId}/lots`).set('X-CSRF-Token', juno.csrf).send({ lots: [{ bomLineId: c.pcbLine, lot: 'PCB-LOT-7' }] }).expect(200);
+  await juno.post(`/api/units/${unitId}/built`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+}
+
+function tone(thdShape: { h2: number; h3: number }, sampleRate = 48000, seconds = 0.5, channels = 1) {
+  const n = Math.round(sampleRate * seconds);
+  const s = new Array<number>(n);
+  for (let i = 0; i < n; i++) {
+    const x = (2 * Math.PI * 1000 * i) / sampleRate;
+    s[i] = Math.round(20000 * (Math.sin(x) + thdShape.h2 * Math.sin(2 * x) + thdShape.h3 * Math.sin(3 * x)) / 1.3);
+  }
+  const wav = new WaveFile();
+  wav.fromScratch(channels, sampleRate, '16', channels === 1 ? s : Array.from({ length: channels }, () => s));
+  return Buffer.from(wav.toBuffer());
+}
+
+describe('building, testing and shipping a unit', () => {
+  it('only kitted units can be built, and only by their own assembler', async () => {
+    const { units } = await releasedOrderBatch(1);
+    const notKitted = await juno.post(`/api/units/${units[0].id}/steps/${(await t.knex('build_steps').first()).id}/start`).set('X-CSRF-Token', juno.csrf).send({});
+    expect([404, 409]).toContain(notKitted.status);
+    const other = await priya.get(`/api/units/${units[0].id}`);
+    expect(other.status).toBe(403);
+    const queue = await priya.get('/api/builds').expect(200);
+    expect(queue.body.builds.map((b: { id: number }) => b.id)).not.toContain(units[0].id);
+    const mine = await juno.get('/api/builds').expect(200);
+    expect(mine.body.builds.map((b: { id: number }) => b.id)).toContain(units[0].id);
+  });
+
+  it('walks the whole path: kit, build with measured Vf, fail to rework, pass, order ready, ship with a packing slip, deliver', async () => {
+    const { c, order, batchId, units } = await releasedOrderBatch(2);
+    await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const [u1, u2] = units;
+    const step = c.steps[0];
+    await juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('in_production');
+    expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('on_bench');
+    const twice = await juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({});
+    expect(twice.status).toBe(409);
+    const priyaTries = await priya.post(`/api/units/${u1.id}/steps/${c.steps[1]}/start`).set('X-CSRF-Token', priya.csrf).send({});
+    expect(priyaTries.status).toBe(403);
+    const early = await juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', juno.csrf).send({});
+    expect(early.status).toBe(409);
+    expect(early.body.error.message).toMatch(/steps not finished/);
+
+    // A silicon diode reading 1.2 V is flagged before it is saved; the assembler may keep it knowingly.
+    const detail = await juno.get(`/api/units/${u1.id}`).expect(200);
+    const silicon = detail.body.devices.find((d: { kind: string }) => d.kind === 'silicon');
+    const bad = await juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 1.2 }] });
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields['readings.0.vf']).toMatch(/outside 0\.50–0\.80 V for silicon/);
+    const notNumber = await juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 'abc' }] });
+    expect(notNumber.status).toBe(400);
+
+    await buildUnit(u1.id, c);
+    const built = await t.knex('units').where({ id: u1.id }).first();
+    expect(built.state).toBe('built');
+    // The silicon-vs-LED option is asymmetric: its predicted THD at the reference setting is well above zero.
+    expect(built.predicted.thdPercent).toBeGreaterThan(1);
+    expect(built.predicted.fromMeasuredVf).toBe(true);
+    const progress = await t.knex('unit_steps').where({ unit_id: u1.id });
+    expect(progress.every((p) => p.finished_at && p.actual_minutes !== null)).toBe(true);
+
+    // Fail back to rework with a reason, then the assembler marks the rework done.
+    const noReason = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'fail');
+    expect(noReason.status).toBe(400);
+    expect(noReason.body.error.fields.reason).toBeTruthy();
+    await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+      .field('currentDrawMa', '19').field('measuredThdPercent', '5').field('outcome', 'fail').field('reason', 'LED fitted backwards').expect(201);
+    expect((await t.knex('units').where({ id: u1.id }).first()).state).toBe('rework');
+    const retest = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'pass');
+    expect(retest.status).toBe(409);
+    await juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+
+    // Out of tolerance needs a reason to pass; within tolerance passes plainly.
+    const predicted = built.predicted.thdPercent as number;
+    const outOfTolerance = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+      .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 2).toFixed(2))).field('outcome', 'pass');
+    expect(outOfTolerance.status).toBe(400);
+    const pass = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+      .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 1.05).toFixed(2))).field('outcome', 'pass').expect(201);
+    expect(pass.body.withinTolerance).toBe(true);
+    expect(await t.knex('outbox').where({ dedupe_key: `unit-passed:${u1.id}` }).first()).toBeTruthy();
+
+    // The order cannot ship while its second unit is unbuilt.
+    const tooSoon = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW123456789' });
+    expect(tooSoon.status).toBe(409);
+    await buildUnit(u2.id, c);
+    await tester.post(`/api/units/${u2.id}/tests`).set('X-CSRF-Token', tester.csrf)
+      .field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'analyser range was wrong; listened and re-measured by hand').expect(201);
+    expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('ready');
+
+    const badShip = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: '', trackingNumber: '1' });
+    expect(badShip.status).toBe(400);
+    expect(Object.keys(badShip.body.error.fields).sort()).toEqual(['carrier', 'trackingNumber']);
+    const shipped = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW123456789' }).expect(201);
+    expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('shipped');
+    expect((await t.knex('units').where({ batch_id: batchId })).every((u) => u.state === 'shipped')).toBe(true);
+    expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('closed');
+    const mail = await t.knex('outbox').where({ dedupe_key: `order-shipped:${order.orderId}` }).first();
+    expect(mail.data).toMatchObject({ carrier: 'Parcelwise', trackingNumber: 'PW123456789', orderNumber: order.number });
+    const pdf = await planner.get(shipped.body.packingSlipUrl).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
+    expect(pdf.headers['content-type']).toBe('application/pdf');
+    expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
+    const { PDFParse } = await import('pdf-parse');
+    const text = (await new PDFParse({ data: pdf.body as Buffer }).getText()).text;
+    expect(text).toContain(`order ${order.number}`);
+    expect(text).toContain(u1.serial);
+    expect(text).toContain('PW123456789');
+
+    await planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('delivered');
+    const again = await planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', planner.csrf).send({});
+    expect(again.status).toBe(409);
+    const history = await t.knex('unit_events').where({ unit_id: u1.id, kind: 'state-change' }).orderBy('id');
+    expect(history.map((h) => h.to_state)).toEqual(['waiting', 'building', 'built', 'rework', 'built', 'passed', 'shipped']);
+  });
+
+  it('analyses an uploaded WAV capture and refuses bad uploads with clear messages', async () => {
+    const { c, batchId, units } = await releasedOrderBatch(1);
+    await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    await buildUnit(units[0].id, c);
+    const post = () => tester.post(`/api/units/${units[0].id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '11.18').field('outcome', 'pass').field('reason', 'bench check');
+    const notWav = await post().attach('capture', Buffer.from('hello, not audio at all'), 'capture.wav');
+    expect(notWav.status).toBe(400);
+    expect(notWav.body.error.fields.capture).toMatch(/Not a WAV file/);
+    const rate = await post().attach('capture', tone({ h2: 0.1, h3: 0.05 }, 22050), 'capture.wav');
+    expect(rate.status).toBe(400);
+    expect(rate.body.error.fields.capture).toMatch(/22050 Hz: use 44\.1, 48 or 96 kHz/);
+    const short = await post().attach('capture', tone({ h2: 0.1, h3: 0.05 }, 48000, 0.05), 'capture.wav');
+    expect(short.status).toBe(400);
+    expect(short.body.error.fields.capture).toMatch(/0\.05 s/);
+    const big = await post().attach('capture', Buffer.alloc(13 * 1024 * 1024, 1), 'capture.wav');
+    expect(big.status).toBe(413);
+    expect(big.body.error.message).toMatch(/larger than 12 MB/);
+    expect((await t.knex('test_records').where({ unit_id: units[0].id })).length).toBe(0);
+
+    const ok = await post().attach('capture', tone({ h2: 0.1, h3: 0.05 }, 44100, 1, 2), 'capture.wav').expect(201);
+    // Known content: H2 = 10 %, H3 = 5 % of the fundamental, so THD_F = √(0.1² + 0.05²) = 11.18 %.
+    expect(ok.body.capture.thdPercent).toBeCloseTo(11.18, 1);
+    expect(ok.body.capture.fundamentalHz).toBeCloseTo(1000, 0);
+    expect(ok.body.capture.channels).toBe(2);
+    const record = await t.knex('test_records').where({ unit_id: units[0].id }).first();
+    expect(record.wav_file_id).not.toBeNull();
+  });
+});
