@@ -15,6 +15,7 @@ import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-tab
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
+import { profileRoutes } from './routes/profiles';
 import { userRoutes } from './routes/users';
 import { assemblerRoutes } from './routes/assemblers';
 import { batchRoutes } from './routes/batches';
@@ -26,9 +27,9 @@ import { orderRoutes } from './routes/orders';
 import { paymentRoutes } from './routes/payments';
 import { shopRoutes } from './routes/shop';
 import { modelRoutes } from './routes/models';
-import { specSheetRoutes } from './routes/spec-sheets';
 import { partRoutes } from './routes/parts';
 import { deviceRoutes } from './routes/devices';
+import { specSheetRoutes } from './routes/spec-sheets';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -80,12 +81,12 @@ export function createApp({ knex, config }: AppDeps) {
     ...authRoutes(knex, passport, loginLimiter),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
+    ...profileRoutes(),
     ...shopRoutes(knex),
     ...orderRoutes(knex, config),
     ...paymentRoutes(knex, config),
     ...mailRoutes(config),
     ...modelRoutes(knex),
-    ...specSheetRoutes(knex, config),
     ...partRoutes(knex),
     ...deviceRoutes(knex),
     ...batchRoutes(knex),
@@ -93,6 +94,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...unitRoutes(knex),
     ...shipmentRoutes(knex),
     ...boardRoutes(knex),
+    ...specSheetRoutes(knex, config),
   ];
   app.use(buildRouter(routes, registry));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));
