@@ -4,13 +4,15 @@ import { createKnex } from '../server/db/knex';
 import { createApp } from '../server/app';
 import { startJobs } from '../server/jobs/boss';
 import { kickOutbox, outboxJob } from '../server/jobs/outbox-worker';
+import { kickSpecSheets, specSheetJob } from '../server/jobs/spec-sheets';
 
 const config = loadConfig();
 const knex = createKnex(config.DATABASE_URL);
 const { app, close } = createApp({ knex, config });
 // Background jobs (pg-boss on the same PostgreSQL): the mail outbox; other areas add theirs to this list.
-const jobs = await startJobs(config, [outboxJob(knex, config)]);
+const jobs = await startJobs(config, [outboxJob(knex, config), specSheetJob(knex, config)]);
 await kickOutbox(jobs.boss);
+await kickSpecSheets(jobs.boss);
 const server = app.listen(config.PORT, config.HOST, () => {
   const accounts = ['owner', 'planner', 'assembler', 'tester', 'customer'].map((r) => `    ${r}@shop.example`).join('\n');
   console.log(`

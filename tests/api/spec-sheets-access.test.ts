@@ -1,0 +1,91 @@
+import express from 'express';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { errorMiddleware } from '../../server/errors';
+import { buildRouter } from '../../server/http/route-table';
+import { specSheetRoutes } from '../../server/routes/spec-sheets';
+import { anonymousAgent, DEMO, signedInAgent, startTestApp } from '../support/app';
+import { fetchBinary, insertBatch, insertOrder, userId } from './spec-sheets-setup';
+
+const t = startTestApp();
+afterAll(() => t.stop());
+
+let batch: Awaited<ReturnType<typeof insertBatch>>;
+let orderNumber: string;
+
+beforeAll(async () => {
+  const customer = await userId(t.knex, DEMO.customer);
+  const option = await t.knex('clipping_options as c').join('models as m', 'm.id', 'c.model_id').where({ 'm.sku': 'HM-SMD', 'c.code': 'ASYM' }).first('c.id');
+  const order = await insertOrder(t.knex, customer, option.id, 2);
+  orderNumber = (await t.knex('orders').where({ id: order.orderId }).first('number')).number;
+  batch = await insertBatch(t.knex, [{ vf: [1.79, 0.60], state: 'passed' }, { vf: [1.81, 0.61] }], { orderId: order.orderId, orderLineId: order.orderLineId });
+  await t.knex('test_records').insert({ unit_id: batch.units[0].id, tester_id: await userId(t.knex, DEMO.tester), current_draw_ma: 7.1, measured_thd_percent: 9.1, predicted_thd_percent: 9.0, tolerance_percent: 15, within_tolerance: true, outcome: 'pass' });
+});
+
+describe('who may download a unit’s spec sheet', () => {
+  it('lets the customer whose order it is download it once passed, and says when it is not ready', async () => {
+    const customer = await signedInAgent(t.app, DEMO.customer);
+    const { body } = await fetchBinary(customer, `/api/units/${batch.units[0].serial}/spec-sheet.pdf`);
+    expect(body.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    const early = await customer.get(`/api/units/${batch.units[1].serial}/spec-sheet.pdf`).expect(409);
+    expect(early.body.error.message).toMatch(/once the unit has passed/);
+  });
+
+  it('answers another customer 404, as if the unit did not exist', async () => {
+    const other = await signedInAgent(t.app, 'sam@mail.example');
+    const res = await other.get(`/api/units/${batch.units[0].serial}/spec-sheet.pdf`).expect(404);
+    expect(res.body.error.code).toBe('not_found');
+    expect(JSON.stringify(res.body)).not.toContain('Castellano');
+  });
+
+  it('lets any staff member read it, and signed-out visitors not at all', async () => {
+    const assembler = await signedInAgent(t.app, DEMO.assembler);
+    await fetchBinary(assembler, `/api/units/${batch.units[1].serial}/spec-sheet.pdf`);
+    const anon = await anonymousAgent(t.app);
+    await anon.get(`/api/units/${batch.units[0].serial}/spec-sheet.pdf`).expect(401);
+    const tester = await signedInAgent(t.app, DEMO.tester);
+    await tester.get('/api/units/HM-B9999-999X/spec-sheet.pdf').expect(404);
+    const bad = await tester.get('/api/units/not%20a%20serial/spec-sheet.pdf').expect(400);
+    expect(bad.body.error.fields).toBeTruthy();
+  });
+});
+
+describe('the public verification page', () => {
+  it('confirms a real unit with model, option, build month and verdict, and nothing personal', async () => {
+    const res = await request(t.app).get(`/verify/${batch.units[0].serial}`).expect(200);
+    expect(res.headers['content-type']).toMatch(/text\/html/);
+    expect(res.text).toContain(batch.units[0].serial);
+    expect(res.text).toContain('Saltmarsh Drive');
+    expect(res.text).toContain(batch.option.optionName);
+    expect(res.text).toContain('November 2026');
+    expect(res.text).toContain('Passed its bench test');
+    for (const personal of ['Castellano', 'customer@shop.example', 'Abara', 'Vennig', 'Teststraße', orderNumber]) expect(res.text).not.toContain(personal);
+  });
+
+  it('says a unit still being made is not yet tested', async () => {
+    const res = await request(t.app).get(`/verify/${batch.units[1].serial}`).expect(200);
+    expect(res.text).toContain('Built, bench test still to come');
+  });
+
+  it('answers an unknown serial with a plain not-found page and 404', async () => {
+    const res = await request(t.app).get('/verify/HM-B9999-999X').expect(404);
+    expect(res.headers['content-type']).toMatch(/text\/html/);
+    expect(res.text).toContain('Serial not found');
+    const odd = await request(t.app).get('/verify/%3Cscript%3E').expect(404);
+    expect(odd.text).not.toContain('<script>');
+  });
+
+  it('is rate-limited per address', async () => {
+    // The same routes with a limit of 3 a minute, so the test needs only a few requests.
+    const app = express();
+    app.set('trust proxy', 'loopback');
+    const routes = specSheetRoutes(t.knex, t.config, 3).filter((r) => r.path === '/verify/:serial');
+    app.use(buildRouter(routes, { routes: [] }));
+    app.use(errorMiddleware);
+    const ip = '203.0.113.77'; // documentation range (RFC 5737), so no other test shares the count
+    for (let i = 0; i < 3; i++) await request(app).get('/verify/HM-B9999-999X').set('X-Forwarded-For', ip).expect(404);
+    const limited = await request(app).get('/verify/HM-B9999-999X').set('X-Forwarded-For', ip).expect(429);
+    expect(limited.text).toContain('Too many checks');
+    await t.knex('rate_limits').where('key', 'like', `verify:${ip}%`).delete();
+  });
+});
