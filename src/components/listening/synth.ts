@@ -1,6 +1,7 @@
 // A short guitar-like phrase synthesised with the Karplus–Strong plucked-string algorithm
 // (K. Karplus and A. Strong, "Digital Synthesis of Plucked-String and Drum Timbres", 1983).
 // Pure functions: no Web Audio here, so the same samples can be checked in Node.
+import { mulberry32 } from '../../../shared/engine/random';
 
 export interface Pluck {
   /** Fundamental frequency of the string, e.g. 82.41 Hz for a low E. */
@@ -26,25 +27,13 @@ export const PHRASE: Pluck[] = [
 ];
 export const PHRASE_SECONDS = 4;
 
-/** A small seeded generator, so the phrase is the same every time (mulberry32). */
-function random(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** One plucked string of `seconds` length: a noise burst circulating in a delay line with a two-point average. */
 export function pluck(hz: number, sampleRate: number, seconds: number, seed: number, decay = 0.996): Float32Array {
   const out = new Float32Array(Math.round(seconds * sampleRate));
   // The averaging filter adds half a sample of delay; the loop length is period − 0.5.
   const length = Math.max(2, Math.round(sampleRate / hz - 0.5));
   const line = new Float32Array(length);
-  const next = random(seed);
+  const next = mulberry32(seed);
   let previous = 0;
   for (let i = 0; i < length; i++) {
     // A gently low-passed burst sounds like a pick rather than a hiss.
