@@ -1,0 +1,3 @@
+export { SpecSheetLink } from './SpecSheetLink';
+export { BatchSpecSheets } from './BatchSpecSheets';
+export { RegenerateSheetButton } from './RegenerateSheetButton';
