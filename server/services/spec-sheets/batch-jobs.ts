@@ -93,7 +93,7 @@ export async function claimSheetJob(knex: Knex) {
   return (rows[0] ?? null) as { id: number; batch_id: number } | null;
 }
 
-function zip(entries: { name: string; data: Buffer; date: Date }[]) {
+export function zipArchive(entries: { name: string; data: Buffer; date: Date }[]) {
   return new Promise<Buffer>((resolve, reject) => {
     const archive = new ZipArchive({ zlib: { level: 6 } });
     const chunks: Buffer[] = [];
@@ -135,7 +135,7 @@ export async function runSheetJob(knex: Knex, jobId: number, publicUrl = default
       const note = `These units of ${batchLabel(job.number)} have no sheet in this archive:\n${failed.map(([s, r]) => `${s}: ${r}`).join('\n')}\n`;
       entries.push({ name: 'units-without-a-sheet.txt', data: Buffer.from(note, 'utf8'), date: new Date() });
     }
-    const data = await zip(entries);
+    const data = await zipArchive(entries);
     await knex.transaction(async (trx) => {
       const [file] = await trx('files').insert({
         purpose: 'archive', filename: `spec-sheets-${batchLabel(job.number)}.zip`, content_type: 'application/zip',
