@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PDFParse } from 'pdf-parse';
@@ -95,6 +95,10 @@ describe('a unit passed at the bench', () => {
     // The stored file is what was served.
     const file = await t.knex('spec_sheets as s').join('files as f', 'f.id', 's.file_id').where('s.unit_id', unit.id).first('f.data');
     expect(Buffer.compare(file.data, res.body)).toBe(0);
+    // Page 1 as a picture for people to look at (test-results/ is git-ignored; docs/ holds a copy).
+    mkdirSync('test-results', { recursive: true });
+    writeFileSync('test-results/spec-sheet-api.pdf', res.body);
+    execFileSync('pdftoppm', ['-r', '110', '-png', '-singlefile', '-f', '1', '-l', '1', 'test-results/spec-sheet-api.pdf', 'test-results/spec-sheet-page1']);
   });
 
   it('keeps the stored sheet when data changes later, until someone regenerates it (logged)', async () => {

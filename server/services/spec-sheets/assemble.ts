@@ -36,6 +36,11 @@ function postalAddress(s: ShopSettings) {
   return s.shop_address.split('·').map((part) => part.trim()).filter((part) => part && part !== s.shop_name && part !== s.shop_email).join(' · ');
 }
 
+/** The device column is narrow: "Silicon small-signal (1N4148 type)" prints as "Silicon small-signal". */
+export function sheetDeviceName(name: string) {
+  return name.length > 24 ? name.replace(/\s*\([^)]*\)\s*$/, '') : name;
+}
+
 /** A day in the shop's time zone, e.g. "28 Nov 2026". */
 export function shopDay(at: Date | null | undefined, timeZone: string) {
   if (!at) return null;
@@ -76,7 +81,7 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
   const devices = (['positive', 'negative'] as const).flatMap((side) => slots.filter((s) => s.side === side).map((slot, i) => {
     const device = strings[side][i];
     const reading = readings.get(slot.id);
-    return { side, position: slot.position as number, name: device.name, nominalVf: forwardVoltage(device, testCurrentA), measuredVf: reading ? reading.measured_vf : null };
+    return { side, position: slot.position as number, name: sheetDeviceName(device.name), nominalVf: forwardVoltage(device, testCurrentA), measuredVf: reading ? reading.measured_vf : null };
   }));
   // A device without a reading keeps its nominal Vf, so the recompute refits only what was measured.
   const measured: MeasuredForwardVoltages | null = readings.size === 0 ? null : {
