@@ -10,6 +10,14 @@ export const paths = {
   builds: '/builds',
   bench: '/bench',
   shop: '/shop',
+  catalogParts: '/catalog/parts',
+  catalogPart: '/catalog/parts/:id',
+  catalogDevices: '/catalog/devices',
+  catalogModels: '/catalog/models',
+  catalogModel: '/catalog/models/:id',
+  catalogCompare: '/catalog/models/:id/compare',
+  catalogOption: '/catalog/models/:modelId/options/:optionId',
+  catalogRevision: '/catalog/revisions/:id',
 } as const;
 
 export interface NavItem {
@@ -23,6 +31,10 @@ export const NAV: NavItem[] = [
   { to: paths.board, label: 'Production board', roles: ['owner', 'planner'] },
   { to: paths.builds, label: 'My builds', roles: ['assembler'] },
   { to: paths.bench, label: 'Test bench', roles: ['tester'] },
+  // Catalog: owner and planner edit; assembler and tester read.
+  { to: paths.catalogParts, label: 'Parts & stock', roles: ['owner', 'planner', 'assembler', 'tester'] },
+  { to: paths.catalogDevices, label: 'Clipping devices', roles: ['owner', 'planner', 'assembler', 'tester'] },
+  { to: paths.catalogModels, label: 'Pedal models', roles: ['owner', 'planner', 'assembler', 'tester'] },
   { to: paths.shop, label: 'Pedals', roles: ['customer'] },
   { to: paths.users, label: 'People & roles', roles: ['owner'] },
   { to: paths.account, label: 'My account', roles: ['owner', 'planner', 'assembler', 'tester', 'customer'] },

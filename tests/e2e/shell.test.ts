@@ -5,10 +5,10 @@ import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
 
 const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> = {
-  owner: { home: '/board', nav: ['Production board', 'People & roles', 'My account'] },
-  planner: { home: '/board', nav: ['Production board', 'My account'] },
-  assembler: { home: '/builds', nav: ['My builds', 'My account'] },
-  tester: { home: '/bench', nav: ['Test bench', 'My account'] },
+  owner: { home: '/board', nav: ['Production board', 'Parts & stock', 'Clipping devices', 'Pedal models', 'People & roles', 'My account'] },
+  planner: { home: '/board', nav: ['Production board', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
+  assembler: { home: '/builds', nav: ['My builds', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
+  tester: { home: '/bench', nav: ['Test bench', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
   customer: { home: '/shop', nav: ['Pedals', 'My account'] },
 };
 

@@ -1,0 +1,64 @@
+import { Line } from 'react-chartjs-2';
+import { SERIES_COLOURS } from './setup';
+
+export interface LineSeries {
+  label: string;
+  points: { x: number; y: number }[];
+  dashed?: boolean;
+  /** Fill to the previous series (tolerance bands). */
+  fillToPrevious?: boolean;
+  hidden?: boolean;
+  colour?: string;
+}
+
+interface Props {
+  title: string;
+  series: LineSeries[];
+  xLabel: string;
+  yLabel: string;
+  logY?: boolean;
+  xMin?: number;
+  xMax?: number;
+  yMin?: number;
+  yMax?: number;
+  /** A vertical marker, e.g. the drive slider's setting. */
+  markerX?: number;
+  formatY?: (v: number) => string;
+}
+
+/** The one line chart the catalog's curves use (THD against drive, transfer curve, I–V curve). */
+export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMin, yMax, markerX, formatY }: Props) {
+  const all = series.flatMap((s) => s.points.map((p) => p.y)).filter((v) => Number.isFinite(v));
+  const markerSeries: LineSeries[] = markerX === undefined || all.length === 0 ? [] : [{
+    label: 'setting', colour: '#e3a53a', dashed: true,
+    points: [{ x: markerX, y: yMin ?? Math.min(...all) }, { x: markerX, y: yMax ?? Math.max(...all) }],
+  }];
+  const datasets = [...series, ...markerSeries].map((s, i) => {
+    const colour = s.colour ?? SERIES_COLOURS[i % SERIES_COLOURS.length];
+    return {
+      label: s.label, data: s.points, borderColor: colour, backgroundColor: `${colour}33`, borderWidth: 2, pointRadius: 0,
+      borderDash: s.dashed ? [6, 4] : undefined, fill: s.fillToPrevious ? '-1' : false, hidden: s.hidden, showLine: true,
+    };
+  });
+  return (
+    <figure className="rounded-lg bg-white p-4 shadow-sm">
+      <figcaption className="mb-2 font-semibold text-spruce-900">{title}</figcaption>
+      <div className="h-64">
+        <Line
+          aria-label={title}
+          role="img"
+          data={{ datasets }}
+          options={{
+            maintainAspectRatio: false,
+            parsing: false,
+            scales: {
+              x: { type: 'linear', min: xMin, max: xMax, title: { display: true, text: xLabel } },
+              y: { type: logY ? 'logarithmic' : 'linear', min: yMin, max: yMax, title: { display: true, text: yLabel }, ticks: formatY ? { callback: (v) => formatY(Number(v)) } : undefined },
+            },
+            plugins: { legend: { labels: { filter: (item) => item.text !== 'setting' } } },
+          }}
+        />
+      </div>
+    </figure>
+  );
+}

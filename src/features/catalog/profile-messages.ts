@@ -1,0 +1,12 @@
+import type { ContractOutput, HarmonicProfile, Spectrum, TransferCurve } from '../../../shared/engine/index';
+
+export type ProfileRequest =
+  | { id: number; kind: 'profile'; circuit: unknown; contract?: unknown }
+  | { id: number; kind: 'at'; circuit: unknown; drive: number };
+
+export interface DriveSpectrum { drive: number; gain: number; spectrum: Spectrum }
+
+export type ProfileResponse =
+  | { id: number; kind: 'profile'; profile: HarmonicProfile; threeDrives: DriveSpectrum[]; contract: ContractOutput | null }
+  | { id: number; kind: 'at'; drive: number; gain: number; spectrum: Spectrum; transfer: TransferCurve | null }
+  | { id: number; kind: 'error'; message: string };
