@@ -10,6 +10,12 @@ export const paths = {
   builds: '/builds',
   bench: '/bench',
   shop: '/shop',
+  shopModel: '/shop/:modelId',
+  cart: '/cart',
+  myOrders: '/orders',
+  order: '/orders/:orderId',
+  orderDesk: '/order-desk',
+  inbox: '/inbox',
   catalogParts: '/catalog/parts',
   catalogPart: '/catalog/parts/:id',
   catalogDevices: '/catalog/devices',
@@ -19,6 +25,9 @@ export const paths = {
   catalogOption: '/catalog/models/:modelId/options/:optionId',
   catalogRevision: '/catalog/revisions/:id',
 } as const;
+
+export const shopModelPath = (modelId: number) => `/shop/${modelId}`;
+export const orderPath = (orderId: number) => `/orders/${orderId}`;
 
 export interface NavItem {
   to: string;
@@ -35,7 +44,10 @@ export const NAV: NavItem[] = [
   { to: paths.catalogParts, label: 'Parts & stock', roles: ['owner', 'planner', 'assembler', 'tester'] },
   { to: paths.catalogDevices, label: 'Clipping devices', roles: ['owner', 'planner', 'assembler', 'tester'] },
   { to: paths.catalogModels, label: 'Pedal models', roles: ['owner', 'planner', 'assembler', 'tester'] },
+  { to: paths.orderDesk, label: 'Orders', roles: ['owner', 'planner'] },
+  { to: paths.inbox, label: 'Mail inbox', roles: ['owner', 'planner'] },
   { to: paths.shop, label: 'Pedals', roles: ['customer'] },
+  { to: paths.myOrders, label: 'My orders', roles: ['customer'] },
   { to: paths.users, label: 'People & roles', roles: ['owner'] },
   { to: paths.account, label: 'My account', roles: ['owner', 'planner', 'assembler', 'tester', 'customer'] },
 ];

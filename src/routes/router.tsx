@@ -1,6 +1,7 @@
 import { createBrowserRouter } from 'react-router';
 import { AppShell } from '../components/AppShell';
 import { paths } from '../lib/navigation';
+import { ShopFrame } from './ShopFrame';
 
 // Route modules are lazy: each page's code loads when it is first visited.
 const page = (load: () => Promise<{ default: React.ComponentType }>) => async () => ({ Component: (await load()).default });
@@ -10,6 +11,15 @@ export const router = createBrowserRouter([
   { path: '/', lazy: page(() => import('./HomeRedirect')) },
   { path: paths.signIn, lazy: page(() => import('../features/auth/SignInPage')) },
   { path: paths.register, lazy: page(() => import('../features/auth/RegisterPage')) },
+  // The storefront is open to visitors too: signed-in people see it inside their shell.
+  {
+    element: <ShopFrame />,
+    children: [
+      { path: paths.shop, lazy: page(() => import('../features/shop/ShopPage')) },
+      { path: paths.shopModel, lazy: page(() => import('../features/shop/ModelPage')) },
+      { path: paths.cart, lazy: page(() => import('./CartRoute')) },
+    ],
+  },
   {
     element: <AppShell />,
     children: [
@@ -26,7 +36,10 @@ export const router = createBrowserRouter([
       { path: paths.catalogCompare, lazy: page(() => import('../features/catalog/ComparePage')) },
       { path: paths.catalogOption, lazy: page(() => import('../features/catalog/OptionPage')) },
       { path: paths.catalogRevision, lazy: page(() => import('../features/catalog/RevisionPage')) },
-      { path: paths.shop, lazy: named(() => import('./StartPages'), 'ShopPage') },
+      { path: paths.myOrders, lazy: page(() => import('../features/orders/MyOrdersPage')) },
+      { path: paths.order, lazy: page(() => import('../features/orders/OrderPage')) },
+      { path: paths.orderDesk, lazy: page(() => import('../features/orders/OrderDeskPage')) },
+      { path: paths.inbox, lazy: page(() => import('../features/inbox/InboxPage')) },
     ],
   },
   { path: '*', lazy: page(() => import('./NotFoundPage')) },

@@ -1,0 +1,46 @@
+import { Link } from 'react-router';
+import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
+import { useFormatters } from '../../lib/format';
+import { paths, shopModelPath } from '../../lib/navigation';
+import { useShopModels } from './api';
+import { useCart } from './cart';
+
+export default function ShopPage() {
+  const models = useShopModels();
+  const { money } = useFormatters();
+  const lines = useCart();
+  const count = lines.reduce((n, l) => n + l.quantity, 0);
+  return (
+    <>
+      <PageHeader title="Pedals">
+        <Link to={paths.cart} className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold text-ink">
+          Cart{count > 0 ? ` (${count})` : ''}
+        </Link>
+      </PageHeader>
+      <p className="mb-6 max-w-3xl text-ink-soft">
+        Each pedal is built by hand to order. Choose its clipping option — the diodes that shape the sound — after comparing how each one distorts.
+      </p>
+      {models.isPending ? <Loading label="Loading the pedals…" /> : null}
+      {models.isError ? <ErrorState error={models.error} retry={() => models.refetch()} /> : null}
+      {models.data && models.data.length === 0 ? <EmptyState title="No pedals on sale right now">New builds are on the bench; look in again soon.</EmptyState> : null}
+      <ul className="grid gap-6 sm:grid-cols-2 lg:grid-cols-3">
+        {models.data?.map((m) => {
+          const from = m.basePriceCents + (m.options.length ? Math.min(...m.options.map((o) => o.surchargeCents)) : 0);
+          return (
+            <li key={m.id} className="flex flex-col overflow-hidden rounded-lg border border-spruce-700/20 bg-white">
+              {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="aspect-[4/3] w-full object-cover" /> : <div aria-hidden className="aspect-[4/3] w-full bg-spruce-100" />}
+              <div className="flex flex-1 flex-col gap-2 p-4">
+                <h2 className="text-xl font-bold text-spruce-900">{m.name}</h2>
+                <p className="flex-1 text-ink-soft">{m.description}</p>
+                <p className="font-semibold">from {money(from)} · {m.options.length} clipping {m.options.length === 1 ? 'option' : 'options'}</p>
+                <Link to={shopModelPath(m.id)} className="inline-flex min-h-11 items-center justify-center rounded-md bg-copper-600 px-4 font-semibold text-white hover:bg-copper-700">
+                  Compare options for {m.name}
+                </Link>
+              </div>
+            </li>
+          );
+        })}
+      </ul>
+    </>
+  );
+}
