@@ -7,7 +7,7 @@ import type { Config } from '../config';
 import { parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
 import { jobArchive, latestBatchJob, requestBatchSheets, sheetJob } from '../services/spec-sheets/batch-jobs';
-import { regenerateSheet, unitSheetPdf } from '../services/spec-sheets/sheets';
+import { orderSheets, regenerateSheet, unitSheetPdf } from '../services/spec-sheets/sheets';
 import { shopName, verifyUnit } from '../services/spec-sheets/verify';
 import { tooManyChecksPage, unknownSerialPage, verifiedPage } from '../services/spec-sheets/verify-page';
 import { idParam } from './batches';
@@ -35,6 +35,11 @@ export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): R
     {
       method: 'post', path: '/api/units/:serial/spec-sheet/regenerate', allow: SHEET_MAKERS,
       handler: async (req, res) => res.json(await regenerateSheet(knex, currentUser(req), serial(req.params.serial), config.publicUrl)),
+    },
+    {
+      // The customer's own order (anyone else's is "not found"), or any order for staff: checked in the service.
+      method: 'get', path: '/api/orders/:id/spec-sheets', allow: 'signed-in',
+      handler: async (req, res) => res.json({ units: await orderSheets(knex, currentUser(req), idParam(req.params.id)) }),
     },
     {
       method: 'post', path: '/api/batches/:id/spec-sheets', allow: SHEET_MAKERS,

@@ -104,6 +104,7 @@ export const MATRIX: Record<string, Rule> = {
   // Spec sheets (issue 7): any signed-in user may ask for a unit's sheet; the service answers a
   // customer 404 for a unit not on their order (see spec-sheets-access.test.ts).
   'GET /api/units/:serial/spec-sheet.pdf': 'signed-in',
+  'GET /api/orders/:id/spec-sheets': 'signed-in',
   'POST /api/units/:serial/spec-sheet/regenerate': ['owner', 'planner', 'tester'],
   'POST /api/batches/:id/spec-sheets': ['owner', 'planner', 'tester'],
   'GET /api/batches/:id/spec-sheets/latest': ['owner', 'planner', 'tester'],

@@ -12,11 +12,13 @@ afterAll(() => t.stop());
 
 let batch: Awaited<ReturnType<typeof insertBatch>>;
 let orderNumber: string;
+let orderId: number;
 
 beforeAll(async () => {
   const customer = await userId(t.knex, DEMO.customer);
   const option = await t.knex('clipping_options as c').join('models as m', 'm.id', 'c.model_id').where({ 'm.sku': 'HM-SMD', 'c.code': 'ASYM' }).first('c.id');
   const order = await insertOrder(t.knex, customer, option.id, 2);
+  orderId = order.orderId;
   orderNumber = (await t.knex('orders').where({ id: order.orderId }).first('number')).number;
   batch = await insertBatch(t.knex, [{ vf: [1.79, 0.60], state: 'passed' }, { vf: [1.81, 0.61] }], { orderId: order.orderId, orderLineId: order.orderLineId });
   await t.knex('test_records').insert({ unit_id: batch.units[0].id, tester_id: await userId(t.knex, DEMO.tester), current_draw_ma: 7.1, measured_thd_percent: 9.1, predicted_thd_percent: 9.0, tolerance_percent: 15, within_tolerance: true, outcome: 'pass' });
@@ -36,6 +38,19 @@ describe('who may download a unit’s spec sheet', () => {
     const res = await other.get(`/api/units/${batch.units[0].serial}/spec-sheet.pdf`).expect(404);
     expect(res.body.error.code).toBe('not_found');
     expect(JSON.stringify(res.body)).not.toContain('Castellano');
+  });
+
+  it('lists the customer’s own order’s pedals with which sheets are ready, and nobody else’s', async () => {
+    const customer = await signedInAgent(t.app, DEMO.customer);
+    const res = await customer.get(`/api/orders/${orderId}/spec-sheets`).expect(200);
+    expect(res.body.units).toEqual([
+      { serial: batch.units[0].serial, state: 'passed', modelName: 'Saltmarsh Drive', optionName: batch.option.optionName, sheetReady: true },
+      { serial: batch.units[1].serial, state: 'built', modelName: 'Saltmarsh Drive', optionName: batch.option.optionName, sheetReady: false },
+    ]);
+    const other = await signedInAgent(t.app, 'sam@mail.example');
+    await other.get(`/api/orders/${orderId}/spec-sheets`).expect(404);
+    const planner = await signedInAgent(t.app, DEMO.planner);
+    expect((await planner.get(`/api/orders/${orderId}/spec-sheets`).expect(200)).body.units).toHaveLength(2);
   });
 
   it('lets any staff member read it, and signed-out visitors not at all', async () => {

@@ -80,3 +80,12 @@ export async function regenerateSheet(knex: Knex, user: SessionUser, serial: str
     return { serial, version, fileId };
   });
 }
+
+/** An order's units with whether each sheet can be downloaded yet; a customer sees only their own orders. */
+export async function orderSheets(knex: Knex, user: SessionUser, orderId: number) {
+  const order = await knex('orders').where({ id: orderId }).first('id', 'customer_id');
+  if (!order || (!isStaff(user) && order.customer_id !== user.id)) throw notFound('No such order');
+  const units = await knex('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('models as m', 'm.id', 'c.model_id')
+    .where('u.order_id', orderId).whereNot('u.state', 'cancelled').orderBy('u.serial').select('u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name');
+  return units.map((u) => ({ serial: u.serial as string, state: u.state as string, modelName: u.model_name as string, optionName: u.option_name as string, sheetReady: storesSheet(u.state) }));
+}

@@ -48,3 +48,19 @@ export function useRegenerateSheet(serial: string) {
     mutationFn: () => api.post<{ serial: string; version: number }>(`/api/units/${encodeURIComponent(serial)}/spec-sheet/regenerate`),
   });
 }
+
+export interface OrderUnitSheet {
+  serial: string;
+  state: string;
+  modelName: string;
+  optionName: string;
+  sheetReady: boolean;
+}
+
+export const orderSheetsQuery = (orderId: number) =>
+  queryOptions({
+    queryKey: [...specSheetKeys.all, 'order', orderId] as const,
+    queryFn: () => api.get<{ units: OrderUnitSheet[] }>(`/api/orders/${orderId}/spec-sheets`).then((b) => b.units),
+  });
+
+export const useOrderSheets = (orderId: number) => useQuery(orderSheetsQuery(orderId));

@@ -1,3 +1,4 @@
 export { SpecSheetLink } from './SpecSheetLink';
 export { BatchSpecSheets } from './BatchSpecSheets';
 export { RegenerateSheetButton } from './RegenerateSheetButton';
+export { OrderSpecSheets } from './OrderSpecSheets';
