@@ -5,7 +5,6 @@ import { ShopFrame } from './ShopFrame';
 
 // Route modules are lazy: each page's code loads when it is first visited.
 const page = (load: () => Promise<{ default: React.ComponentType }>) => async () => ({ Component: (await load()).default });
-const named = <K extends string>(load: () => Promise<Record<K, React.ComponentType>>, name: K) => async () => ({ Component: (await load())[name] });
 
 export const router = createBrowserRouter([
   { path: '/', lazy: page(() => import('./HomeRedirect')) },
@@ -25,9 +24,14 @@ export const router = createBrowserRouter([
     children: [
       { path: paths.account, lazy: page(() => import('../features/auth/AccountPage')) },
       { path: paths.users, lazy: page(() => import('../features/users/UsersPage')) },
-      { path: paths.board, lazy: named(() => import('./StartPages'), 'BoardPage') },
-      { path: paths.builds, lazy: named(() => import('./StartPages'), 'BuildsPage') },
-      { path: paths.bench, lazy: named(() => import('./StartPages'), 'BenchPage') },
+      { path: paths.board, lazy: page(() => import('../features/board/BoardPage')) },
+      { path: paths.builds, lazy: page(() => import('../features/builds/BuildsPage')) },
+      { path: paths.buildUnit, lazy: page(() => import('../features/builds/UnitBuildPage')) },
+      { path: paths.bench, lazy: page(() => import('../features/bench/BenchPage')) },
+      { path: paths.benchUnit, lazy: page(() => import('../features/bench/UnitTestPage')) },
+      { path: paths.planning, lazy: page(() => import('../features/planning/PlanningPage')) },
+      { path: paths.batch, lazy: page(() => import('../features/planning/BatchPage')) },
+      { path: paths.shipping, lazy: page(() => import('../features/shipping/ShippingPage')) },
       { path: paths.catalogParts, lazy: page(() => import('../features/catalog/PartsPage')) },
       { path: paths.catalogPart, lazy: page(() => import('../features/catalog/PartPage')) },
       { path: paths.catalogDevices, lazy: page(() => import('../features/catalog/DevicesPage')) },

@@ -1,0 +1,55 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { ApplyAssignmentsInput, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import type { BatchState, UnitState } from '../../../shared/production/states';
+import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
+import { api } from '../../lib/api';
+
+export interface BatchRow { id: number; number: number; label: string; state: BatchState; modelName: string; revisionNumber: number; units: number; releasedAt: string | null; createdAt: string }
+export interface Requirement {
+  partId: number; partNumber: string; description: string; supplier: string | null; leadTimeDays: number;
+  baseQuantity: number; optionQuantity: number; required: number; available: number; reservedForBatch: number; consumedForBatch: number; shortage: number;
+}
+export interface BatchUnit { id: number; serial: string; sequence: number; state: UnitState; assemblerId: number | null; assemblerName: string | null; plannedDate: string | null; kitted: boolean; optionCode: string; orderNumber: string | null; dueAt: string | null }
+export interface BatchDetail {
+  batch: { id: number; label: string; state: BatchState; modelName: string; revisionNumber: number; revisionLabel: string; notes: string; shortageOverrideReason: string | null; releasedAt: string | null; plannedStart: string | null };
+  lines: { id: number; quantity: number; optionCode: string; optionName: string; orderNumber: string | null; dueAt: string | null }[];
+  units: BatchUnit[];
+  requirements: Requirement[];
+  earliestStart: { date: string; waitingOn: string | null };
+}
+export interface Candidates {
+  revisions: { id: number; modelId: number; modelName: string; number: number; label: string; active: boolean; frozen: boolean; options: { id: number; code: string; name: string }[] }[];
+  orderLines: { id: number; modelId: number; optionId: number; quantity: number; description: string; orderNumber: string; dueAt: string | null; customerName: string }[];
+}
+export interface PlanProposal { startDate: string; jobs: PlanJob[]; assemblers: PlanAssembler[]; builds: PlannedBuild[]; unassignable: number[]; load: DayLoad[]; late: number[] }
+
+const keys = {
+  all: ['batches'] as const,
+  list: () => [...keys.all, 'list'] as const,
+  detail: (id: number) => [...keys.all, 'detail', id] as const,
+  candidates: () => [...keys.all, 'candidates'] as const,
+};
+
+export const batchesQuery = () => queryOptions({ queryKey: keys.list(), queryFn: () => api.get<{ batches: BatchRow[] }>('/api/batches').then((b) => b.batches) });
+export const batchQuery = (id: number) => queryOptions({ queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`) });
+export const candidatesQuery = () => queryOptions({ queryKey: keys.candidates(), queryFn: () => api.get<Candidates>('/api/batches/candidates') });
+export const assemblersQuery = () => queryOptions({ queryKey: ['assemblers', 'list'], queryFn: () => api.get<{ assemblers: PlanAssembler[] }>('/api/assemblers').then((b) => b.assemblers) });
+
+export const useBatches = () => useQuery(batchesQuery());
+export const useBatch = (id: number) => useQuery(batchQuery(id));
+export const useCandidates = () => useQuery(candidatesQuery());
+export const useAssemblers = () => useQuery(assemblersQuery());
+
+/** Every batch change refreshes the whole batches tree (list, detail, candidates). */
+function useBatchMutation<I, O>(fn: (input: I) => Promise<O>) {
+  const client = useQueryClient();
+  return useMutation({ mutationFn: fn, onSuccess: () => client.invalidateQueries({ queryKey: keys.all }) });
+}
+
+export const useCreateBatch = () => useBatchMutation((input: CreateBatchInput) => api.post<{ id: number; number: number }>('/api/batches', input));
+export const useReleaseBatch = (id: number) => useBatchMutation((input: ReleaseBatchInput) => api.post<{ units: number; orders: number }>(`/api/batches/${id}/release`, input));
+export const useCancelBatch = (id: number) => useBatchMutation((reason: string) => api.post(`/api/batches/${id}/cancel`, { reason }));
+export const useReserveStock = (id: number) => useBatchMutation(() => api.post<{ reserved: number; stillShort: number }>(`/api/batches/${id}/reserve`));
+export const useKitBatch = (id: number) => useBatchMutation(() => api.post<{ kitted: number; notKitted: number; firstProblem: string | null }>(`/api/batches/${id}/kit`));
+export const useProposePlan = (id: number) => useMutation({ mutationFn: (startDate?: string) => api.post<PlanProposal>(`/api/batches/${id}/plan-proposal`, startDate ? { startDate } : {}) });
+export const useApplyAssignments = (id: number) => useBatchMutation((input: ApplyAssignmentsInput) => api.post<{ assigned: number; late: number[] }>(`/api/batches/${id}/assignments`, input));
