@@ -1,4 +1,6 @@
 import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import type { Knex } from 'knex';
 import type { Role } from '../../shared/roles';
 import { serialParamSchema } from '../../shared/schemas/spec-sheets';
@@ -15,6 +17,13 @@ import { idParam } from './batches';
 /** Who makes sheets for others: the owner, the planner (batches) and the tester (units). */
 const SHEET_MAKERS: Role[] = ['owner', 'planner', 'tester'];
 const serial = (value: unknown) => parseWith(serialParamSchema, value);
+
+// The verification page's two font weights, shipped in the source-sans package (nothing fetched from elsewhere).
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+const VERIFY_FONTS: Record<string, string> = {
+  regular: path.join(root, 'node_modules/source-sans/WOFF2/TTF/SourceSans3-Regular.ttf.woff2'),
+  semibold: path.join(root, 'node_modules/source-sans/WOFF2/TTF/SourceSans3-Semibold.ttf.woff2'),
+};
 
 export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): RouteDef[] {
   // The public page is rate-limited per address, counted in PostgreSQL so every instance shares it.
@@ -58,6 +67,14 @@ export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): R
       handler: async (req, res) => {
         const archive = await jobArchive(knex, idParam(req.params.id));
         res.type('application/zip').set('Content-Disposition', `attachment; filename="${archive.filename}"`).send(archive.data);
+      },
+    },
+    {
+      method: 'get', path: '/verify-fonts/:weight', allow: 'public',
+      handler: (req, res) => {
+        const file = VERIFY_FONTS[String(req.params.weight).replace(/\.woff2$/, '')];
+        if (!file) return res.status(404).type('text').send('No such font');
+        return res.type('font/woff2').set('Cache-Control', 'public, max-age=86400').sendFile(file);
       },
     },
     {

@@ -111,6 +111,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/spec-sheet-jobs/:id': ['owner', 'planner', 'tester'],
   'GET /api/spec-sheet-jobs/:id/archive.zip': ['owner', 'planner', 'tester'],
   'GET /verify/:serial': 'public',
+  'GET /verify-fonts/:weight': 'public',
 };
 void STAFF;
 void CATALOG_EDITORS;

@@ -4,6 +4,8 @@ import type { VerifiedUnit } from './verify';
 const escape = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 const STYLE = `
+  @font-face { font-family: "Source Sans 3"; font-weight: 400; font-display: swap; src: url("/verify-fonts/regular.woff2") format("woff2"); }
+  @font-face { font-family: "Source Sans 3"; font-weight: 600 700; font-display: swap; src: url("/verify-fonts/semibold.woff2") format("woff2"); }
   body { margin: 0; background: #f7f4ee; color: #1c1b19; font: 17px/1.5 "Source Sans 3", "Source Sans Pro", system-ui, sans-serif; }
   header { background: #1e2a26; color: #fff; padding: 18px 24px; }
   header p { margin: 0; color: #c9d6cf; font-size: 15px; }
@@ -12,7 +14,8 @@ const STYLE = `
   .serial { font-family: "DejaVu Sans Mono", ui-monospace, monospace; color: #8f3f1c; font-size: 20px; }
   dl { display: grid; grid-template-columns: max-content 1fr; gap: 8px 20px; background: #fff; border: 1px solid #c9d6cf; border-radius: 10px; padding: 18px 20px; }
   dt { color: #4a4740; } dd { margin: 0; font-weight: 600; }
-  .verdict { display: inline-block; padding: 2px 10px; border-radius: 999px; }
+  .verdict { display: inline-block; padding: 2px 10px; border-radius: 6px; }
+  @media (max-width: 420px) { dl { grid-template-columns: 1fr; gap: 2px; } dd { margin-bottom: 10px; } }
   .ok { background: #ddf0e1; color: #2d6a3e; } .open { background: #f6e3d6; color: #8f3f1c; }
   footer { color: #4a4740; font-size: 14px; margin-top: 18px; }
 `;
