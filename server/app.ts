@@ -89,10 +89,10 @@ export function createApp({ knex, config }: AppDeps) {
     ...modelRoutes(knex),
     ...partRoutes(knex),
     ...deviceRoutes(knex),
-    ...batchRoutes(knex),
+    ...batchRoutes(knex, config),
     ...assemblerRoutes(knex),
-    ...unitRoutes(knex),
-    ...shipmentRoutes(knex),
+    ...unitRoutes(knex, config),
+    ...shipmentRoutes(knex, config),
     ...boardRoutes(knex),
     ...specSheetRoutes(knex, config),
   ];

@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import type { Role } from '../../shared/roles';
+import type { Config } from '../config';
 import { applyAssignmentsSchema, cancelSchema, createBatchSchema, proposePlanSchema, releaseBatchSchema } from '../../shared/schemas/production';
 import { invalid, parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
@@ -17,7 +18,7 @@ export function idParam(value: unknown, name = 'id'): number {
   return id;
 }
 
-export function batchRoutes(knex: Knex): RouteDef[] {
+export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/batches', allow: PLANNERS, handler: async (_req, res) => res.json({ batches: await listBatches(knex) }) },
     { method: 'get', path: '/api/batches/candidates', allow: PLANNERS, handler: async (_req, res) => res.json(await planningCandidates(knex)) },
@@ -37,7 +38,7 @@ export function batchRoutes(knex: Knex): RouteDef[] {
       method: 'post', path: '/api/batches/:id/release', allow: PLANNERS,
       handler: async (req, res) => {
         const id = idParam(req.params.id);
-        res.json(await releaseBatch(knex, currentUser(req).id, id, parseWith(releaseBatchSchema, req.body)));
+        res.json(await releaseBatch(knex, currentUser(req).id, id, parseWith(releaseBatchSchema, req.body), config.publicUrl));
       },
     },
     {

@@ -1,14 +1,15 @@
 import type { Knex } from 'knex';
+import type { Config } from '../config';
 import { shipOrderSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
 import { markDelivered, moveToFinishedStock, packingSlip, shipOrder, shippingQueue } from '../services/production/shipping';
 import { idParam, PLANNERS } from './batches';
 
-export function shipmentRoutes(knex: Knex): RouteDef[] {
+export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/shipping', allow: PLANNERS, handler: async (_req, res) => res.json(await shippingQueue(knex)) },
-    { method: 'post', path: '/api/shipments', allow: PLANNERS, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body))) },
+    { method: 'post', path: '/api/shipments', allow: PLANNERS, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body), config.publicUrl)) },
     {
       method: 'get', path: '/api/shipments/:id/packing-slip.pdf', allow: PLANNERS,
       handler: async (req, res) => {

@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import multer from 'multer';
 import type { RequestHandler } from 'express';
 import type { Role } from '../../shared/roles';
+import type { Config } from '../config';
 import { benchTestSchema, CAPTURE_LIMITS, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
 import { invalid, parseWith, tooLarge } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
@@ -25,7 +26,7 @@ function singleUpload(field: string, maxBytes: number, what: string): RequestHan
   });
 }
 
-export function unitRoutes(knex: Knex): RouteDef[] {
+export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/builds', allow: ['assembler'], handler: async (req, res) => res.json({ builds: await myBuilds(knex, currentUser(req).id) }) },
     { method: 'get', path: '/api/bench', allow: ['owner', 'planner', 'tester'], handler: async (_req, res) => res.json({ units: await benchQueue(knex) }) },
@@ -82,7 +83,7 @@ export function unitRoutes(knex: Knex): RouteDef[] {
         if (req.file && !/\.wav$/i.test(req.file.originalname) && !/wav/i.test(req.file.mimetype)) {
           throw invalid('The capture must be a WAV file', { capture: 'Only .wav files' });
         }
-        res.status(201).json(await recordTest(knex, currentUser(req), id, input, req.file));
+        res.status(201).json(await recordTest(knex, currentUser(req), id, input, req.file, config.publicUrl));
       },
     },
   ];

@@ -143,7 +143,7 @@ describe('building, testing and shipping a unit', () => {
     expect((await t.knex('units').where({ batch_id: batchId })).every((u) => u.state === 'shipped')).toBe(true);
     expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('closed');
     const mail = await t.knex('outbox').where({ dedupe_key: `order-shipped:${order.orderId}` }).first();
-    expect(mail.data).toMatchObject({ carrier: 'Parcelwise', trackingNumber: 'PW123456789', orderNumber: order.number });
+    expect(mail.data).toMatchObject({ carrier: 'Parcelwise', tracking: 'PW123456789', orderNumber: order.number, customerName: 'Dee Castellano' });
     const pdf = await planner.get(shipped.body.packingSlipUrl).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
     expect(pdf.headers['content-type']).toBe('application/pdf');
     expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');

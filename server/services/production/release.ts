@@ -3,6 +3,7 @@ import type { ReleaseBatchInput } from '../../../shared/schemas/production';
 import { addWorkingDays, proposePlan, workingDayOnOrAfter } from '../../../shared/production/schedule';
 import { batchLabel, unitSerial } from '../../../shared/production/serials';
 import { conflict } from '../../errors';
+import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
@@ -15,7 +16,7 @@ import { explodeBom } from './requirements';
  * schedules the pulled orders and queues each customer's "scheduled" mail with the ship date
  * the proposed plan gives. Refused (409) with shortages unless the planner gives a reason.
  */
-export async function releaseBatch(knex: Knex, userId: number, batchId: number, input: ReleaseBatchInput) {
+export async function releaseBatch(knex: Knex, userId: number, batchId: number, input: ReleaseBatchInput, publicUrl = '') {
   return knex.transaction(async (trx) => {
     const batch = await lockBatch(trx, batchId);
     assertBatchTransition(batch, 'released');
@@ -77,14 +78,12 @@ export async function releaseBatch(knex: Knex, userId: number, batchId: number, 
       if (o.state === 'paid') {
         await transitionOrder(trx, o.id, 'scheduled', { userId, message: `scheduled into batch ${batchLabel(batch.number)}, estimated to ship ${shipDate}` });
       }
+      const base = await orderMailData(trx, o.id, publicUrl);
       await enqueueMail(trx, {
         dedupeKey: `order-scheduled:${o.id}:${batchId}`,
         template: 'order-scheduled',
-        to: o.email,
-        data: {
-          orderNumber: o.number, customerName: o.customer_name, batch: batchLabel(batch.number), estimatedShipDate: shipDate,
-          serials: units.filter((u) => u.order_id === o.id).map((u) => u.serial),
-        },
+        to: base.to,
+        data: { ...base.data, batchCode: batchLabel(batch.number), estimatedShipDate: shipDate, serials: units.filter((u) => u.order_id === o.id).map((u) => u.serial) },
       });
     }
     return { id: batchId, state: 'released' as const, units: units.length, orders: orders.length, shortagesOverridden: short.length };

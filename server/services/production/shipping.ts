@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { ShipOrderInput } from '../../../shared/schemas/production';
 import { conflict, notFound } from '../../errors';
+import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
@@ -34,7 +35,7 @@ export async function shippingQueue(db: Db) {
 }
 
 /** Ships an order: only when every unit has passed; records carrier and tracking, prints the packing slip, queues the mail. */
-export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderInput) {
+export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderInput, publicUrl = '') {
   return knex.transaction(async (trx) => {
     const order = await trx('orders as o').join('users as u', 'u.id', 'o.customer_id').where('o.id', input.orderId).forUpdate('o').select('o.*', 'u.email', 'u.name as customer_name').first();
     if (!order) throw notFound('No such order');
@@ -54,9 +55,10 @@ export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderI
     const [file] = await trx('files').insert({ purpose: 'packing-slip', filename: `packing-slip-${order.number}.pdf`, content_type: 'application/pdf', size_bytes: pdf.length, data: pdf, uploaded_by: user.id }).returning('id');
     await trx('shipments').where({ id: shipment.id }).update({ packing_slip_file_id: file.id });
     await transitionOrder(trx, order.id, 'shipped', { userId: user.id, message: `shipped with ${input.carrier}, tracking ${input.trackingNumber}` });
+    const base = await orderMailData(trx, order.id, publicUrl);
     await enqueueMail(trx, {
-      dedupeKey: `order-shipped:${order.id}`, template: 'order-shipped', to: order.email,
-      data: { orderNumber: order.number, customerName: order.customer_name, carrier: input.carrier, trackingNumber: input.trackingNumber, serials: units.map((u) => u.serial) },
+      dedupeKey: `order-shipped:${order.id}`, template: 'order-shipped', to: base.to,
+      data: { ...base.data, carrier: input.carrier, tracking: input.trackingNumber, trackingNumber: input.trackingNumber, serials: units.map((u) => u.serial) },
     });
     for (const batchId of new Set(units.map((u) => u.batch_id))) await closeBatchIfDone(trx, batchId);
     return { id: shipment.id as number, orderState: 'shipped' as const, packingSlipUrl: `/api/shipments/${shipment.id}/packing-slip.pdf` };

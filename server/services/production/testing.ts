@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { BenchTestInput } from '../../../shared/schemas/production';
 import { conflict, invalid } from '../../errors';
+import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
@@ -9,6 +10,7 @@ import { analyseWav } from './capture';
 import { lockUnit, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { predictUnit } from './unit-circuit';
+import { sheetFilename, storeSheetForPassedUnit } from '../spec-sheets/sheets';
 
 type Db = Knex | Knex.Transaction;
 
@@ -33,7 +35,7 @@ export async function orderFullyPassed(trx: Db, orderId: number) {
  * the unit's predicted THD at the reference setting; relative tolerance from settings. Pass moves
  * the unit on (and its order to ready when every unit passed); fail sends it back to its assembler.
  */
-export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }) {
+export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }, publicUrl = '') {
   const analysis = capture ? analyseWav(capture) : null;
   return knex.transaction(async (trx) => {
     const unit = await lockUnit(trx, unitId);
@@ -64,9 +66,18 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
       await transitionUnit(trx, unit, 'rework', user.id, `sent back for rework: ${input.reason}`);
     } else {
       await transitionUnit(trx, unit, 'passed', user.id, input.reason ? `passed: ${input.reason}` : 'passed');
+      // The sheet is stored as the unit passes, so later catalog edits cannot change what shipped with it.
+      const sheetFileId = await storeSheetForPassedUnit(trx, unit.id, user.id);
       if (unit.order_id) {
-        const order = await trx('orders as o').join('users as u', 'u.id', 'o.customer_id').where('o.id', unit.order_id).select('o.*', 'u.email', 'u.name as customer_name').first();
-        await enqueueMail(trx, { dedupeKey: `unit-passed:${unit.id}`, template: 'unit-passed', to: order.email, data: { orderNumber: order.number, customerName: order.customer_name, serial: unit.serial, measuredThdPercent: input.measuredThdPercent, predictedThdPercent: predicted.thdPercent } });
+        const order = await trx('orders').where({ id: unit.order_id }).first();
+        const base = await orderMailData(trx, unit.order_id, publicUrl);
+        const batchLine = await trx('batch_lines').where({ id: unit.batch_line_id }).first();
+        const line = batchLine?.order_line_id ? await trx('order_lines').where({ id: batchLine.order_line_id }).first() : null;
+        await enqueueMail(trx, {
+          dedupeKey: `unit-passed:${unit.id}`, template: 'unit-passed', to: base.to,
+          data: { ...base.data, serial: unit.serial, description: line?.description ?? 'pedal', testedAt: new Date().toISOString(), hasSpecSheet: true, measuredThdPercent: input.measuredThdPercent, predictedThdPercent: predicted.thdPercent },
+          attachments: [{ filename: sheetFilename(unit.serial), fileId: sheetFileId }],
+        });
         if (order.state === 'in_production' && (await orderFullyPassed(trx, unit.order_id))) {
           await transitionOrder(trx, unit.order_id, 'ready', { userId: user.id, message: 'every unit passed its bench test' });
         }
