@@ -12,7 +12,8 @@ describe('catalog demo scenario (seeds/02-catalog.ts)', () => {
     const low = await t.knex('parts as p').join('part_stock as s', 's.part_id', 'p.id').whereRaw('s.available < p.reorder_point').count<{ count: number }[]>('* as count');
     expect(low[0].count).toBeGreaterThan(0);
     const kinds = await t.knex('stock_movements').distinct('kind').pluck('kind');
-    expect(kinds.sort()).toEqual(['adjust', 'consume', 'receive']);
+    // Other areas' seeds may add reserve/consume movements of their own.
+    expect(kinds).toEqual(expect.arrayContaining(['adjust', 'consume', 'receive']));
     const devices = await t.knex('devices').whereNotNull('preset_key').pluck('preset_key');
     expect(devices.sort()).toEqual(DEVICE_PRESETS.map((p) => p.id).sort());
     const models = await t.knex('models').whereIn('sku', ['HM-SMD', 'HM-LFO', 'HM-CPD']).select('id', 'active_revision_id');
@@ -43,7 +44,10 @@ describe('GET /api/models', () => {
     const anon = await anonymousAgent(t.app);
     const res = await anon.get('/api/models').expect(200);
     const smd = res.body.models.find((m: { sku: string }) => m.sku === 'HM-SMD');
-    expect(smd.options.map((o: { code: string }) => o.code)).toEqual(['SI2', 'LED2', 'ASYM']);
+    // Other test files may publish extra options on this model; the seeded unpublished one stays hidden.
+    const codes = smd.options.map((o: { code: string }) => o.code);
+    expect(codes.slice(0, 3)).toEqual(['SI2', 'LED2', 'ASYM']);
+    expect(codes).not.toContain('GE2');
     expect(smd.basePriceCents).toBe(18900);
     const text = JSON.stringify(res.body);
     for (const secret of ['cost', 'Cents":0,"flags', 'published', 'available', 'supplier', 'partId']) expect(text).not.toContain(secret);

@@ -152,4 +152,33 @@ describe('the catalog in a browser', () => {
     expect(await page.getByRole('button', { name: 'Save drive stage' }).count()).toBe(0);
     await page.close();
   }, 60_000);
+
+  it('adds a custom device from datasheet points, draws I–V curves, and compares options on the same axes', async () => {
+    const page = await browser.newPage({ viewport: { width: 1366, height: 1000 } });
+    await signIn(page, DEMO.planner);
+    await page.goto(`${server.url}/catalog/devices`);
+    const library = page.getByRole('table', { name: 'Clipping device library' });
+    await library.getByText('LED, red').waitFor();
+    await page.getByLabel('Device name').fill(`Amber LED ${stamp}`);
+    for (const [i, [vf, ma]] of [[1.72, 1], [1.88, 10], [1.99, 20]].entries()) {
+      await page.getByLabel(`Vf ${i + 1} (V)`).fill(String(vf));
+      await page.getByLabel('at (mA)').nth(i).fill(String(ma));
+    }
+    await page.getByRole('button', { name: 'Add device' }).click();
+    // The fit reproduces the first two datasheet points (IS and N are solved from them).
+    await page.getByText(`Amber LED ${stamp} added: Vf 1720 mV at 1 mA, 1880 mV at 10 mA`).waitFor();
+    await library.getByText(`Amber LED ${stamp} (custom)`).waitFor();
+    await page.getByRole('img', { name: 'Forward I–V curves at 27 °C' }).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-devices.png'), fullPage: true });
+
+    const cpd = await t.knex('models').where({ sku: 'HM-CPD' }).first('id');
+    const ids = await t.knex('clipping_options').where({ model_id: cpd.id }).whereIn('code', ['RECT2', 'BLU2', 'GE2']).orderBy('position').pluck('id');
+    await page.goto(`${server.url}/catalog/models/${cpd.id}/compare?options=${ids.join(',')}`);
+    const side = page.getByRole('table', { name: 'Side by side at the reference setting' });
+    await side.getByRole('row').nth(3).waitFor({ timeout: 30_000 });
+    expect(await side.getByRole('row').count()).toBe(4);
+    await page.getByRole('img', { name: 'THD_F against drive' }).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-compare.png'), fullPage: true });
+    await page.close();
+  }, 90_000);
 });

@@ -21,7 +21,7 @@ export function ThdDriveChart({ series, markerDrive, title = 'THD_F against driv
 /** Static transfer curve: output volts against stage input in millivolts. */
 export function TransferChart({ series, title = 'Transfer curve' }: { series: { label: string; inputV: number[]; outputV: number[] }[]; title?: string }) {
   const lines: LineSeries[] = series.map((s) => ({ label: s.label, points: s.inputV.map((x, i) => ({ x: x * 1000, y: s.outputV[i] })) }));
-  return <LineChart title={title} xLabel="stage input (mV)" yLabel="output (V)" series={lines} />;
+  return <LineChart title={title} xLabel="stage input (mV)" yLabel="output (V)" series={lines} formatY={(v) => v.toFixed(2)} />;
 }
 
 /** Forward I–V curve of devices: current in mA against forward voltage in volts. */

@@ -3,7 +3,7 @@ import { Link, useParams, useSearchParams } from 'react-router';
 import { SpectrumBars, ThdDriveChart } from '../../components/charts';
 import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
 import { useModel } from './api';
-import { percent } from './units';
+import { dbc, percent } from './units';
 import { useProfiles } from './useProfile';
 
 /** 2–4 options of one model on the same axes: THD_F against drive and the harmonics at the nearest sweep point to the slider. */
@@ -60,7 +60,7 @@ export default function ComparePage() {
             const h = p.reference.spectrum.harmonics;
             return (
               <tr key={o.id} className="border-t border-spruce-700/10"><th scope="row" className="p-2 text-left">{o.name}</th><td className="p-2">{percent(p.reference.spectrum.thdF)}</td>
-                <td className="p-2">{h[1].dbc.toFixed(1)} dBc</td><td className="p-2">{h[2].dbc.toFixed(1)} dBc</td>
+                <td className="p-2">{dbc(h[1].dbc)}</td><td className="p-2">{dbc(h[2].dbc)}</td>
                 <td className="p-2">{p.clippingOnsetDrive === null ? 'never' : `${Math.round(p.clippingOnsetDrive * 100)} % drive`}</td></tr>
             );
           })}</tbody>

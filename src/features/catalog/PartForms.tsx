@@ -1,11 +1,11 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useFieldArray, useForm } from 'react-hook-form';
-import { PART_CATEGORIES, partSchema, receiveSchema, type PartInput, type ReceiveInput } from '../../../shared/schemas/catalog';
+import { PART_CATEGORIES, partSchema, partUpdateSchema, receiveSchema, type PartInput, type ReceiveInput } from '../../../shared/schemas/catalog';
 import { Button } from '../../components/ui/Button';
 import { TextField } from '../../components/ui/TextField';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
-import { useAllParts, useCreatePart, useReceive, useSuppliers } from './api';
+import { useAllParts, useCreatePart, useReceive, useSuppliers, useUpdatePart, type PartRow } from './api';
 
 const select = 'min-h-11 rounded-md border border-spruce-700/40 bg-white px-2';
 
@@ -31,7 +31,7 @@ export function ReceiveDelivery() {
         <TextField label="Delivery note number" error={e.reference?.message} {...form.register('reference')} />
       </div>
       {lines.fields.map((f, i) => (
-        <div key={f.id} className="grid items-end gap-2 sm:grid-cols-[1fr_8rem_auto]">
+        <div key={f.id} className="grid items-end gap-2 sm:grid-cols-[minmax(0,1fr)_6rem_auto]">
           <div className="flex flex-col gap-1"><label htmlFor={`rcv-part-${i}`} className="font-semibold">Part, line {i + 1}</label>
             <select id={`rcv-part-${i}`} className={select} {...form.register(`lines.${i}.partId`, { setValueAs: Number })}><option value={0}>Choose…</option>{(parts.data ?? []).map((p) => <option key={p.id} value={p.id}>{p.partNumber} — {p.value}</option>)}</select>
             {e.lines?.[i]?.partId ? <p className="text-sm font-semibold text-alarm-700">{e.lines[i]!.partId!.message}</p> : null}</div>
@@ -75,6 +75,37 @@ export function CreatePart() {
       <TextField label="Reorder point" type="number" error={e.reorderPoint?.message} {...form.register('reorderPoint', n)} />
       <TextField label="Bin" error={e.binLocation?.message} {...form.register('binLocation')} />
       <div><Button type="submit" busy={create.isPending}>Add part</Button></div>
+    </form>
+  );
+}
+
+/** Edit a part's catalogue data; stock is never edited here (it is the movement ledger). */
+export function EditPart({ part }: { part: PartRow }) {
+  const update = useUpdatePart(part.id);
+  const suppliers = useSuppliers();
+  const toast = useToast();
+  const form = useForm<Partial<PartInput>>({
+    resolver: zodResolver(partUpdateSchema) as never,
+    defaultValues: { value: part.value, package: part.package, manufacturerPartNumber: part.manufacturerPartNumber, supplierId: part.supplierId, unitCostCents: part.unitCostCents, leadTimeDays: part.leadTimeDays, reorderPoint: part.reorderPoint, binLocation: part.binLocation, notes: part.notes },
+  });
+  const e = form.formState.errors;
+  const n = { valueAsNumber: true };
+  return (
+    <form noValidate className="grid gap-3 rounded-lg bg-white p-4 shadow-sm sm:grid-cols-4" onSubmit={form.handleSubmit((input) => update.mutate(input, {
+      onSuccess: () => toast(`${part.partNumber} saved`),
+      onError: (err) => { applyFieldErrors(err, form.setError); toast(err.message, 'alarm'); },
+    }))}>
+      <h2 className="text-xl font-bold text-spruce-900 sm:col-span-4">Edit part</h2>
+      <TextField label="Value" error={e.value?.message} {...form.register('value')} />
+      <TextField label="Package" error={e.package?.message} {...form.register('package')} />
+      <TextField label="Manufacturer part number" error={e.manufacturerPartNumber?.message} {...form.register('manufacturerPartNumber')} />
+      <div className="flex flex-col gap-1"><label htmlFor="edit-supplier" className="font-semibold">Supplier</label>
+        <select id="edit-supplier" className={select} {...form.register('supplierId', { setValueAs: (v) => (Number(v) > 0 ? Number(v) : null) })}><option value={0}>None</option>{(suppliers.data ?? []).map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}</select></div>
+      <TextField label="Unit cost in cents" type="number" error={e.unitCostCents?.message} {...form.register('unitCostCents', n)} />
+      <TextField label="Lead time (days)" type="number" error={e.leadTimeDays?.message} {...form.register('leadTimeDays', n)} />
+      <TextField label="Reorder point" type="number" error={e.reorderPoint?.message} {...form.register('reorderPoint', n)} />
+      <TextField label="Bin" error={e.binLocation?.message} {...form.register('binLocation')} />
+      <div><Button type="submit" busy={update.isPending}>Save part</Button></div>
     </form>
   );
 }

@@ -13,6 +13,7 @@ import { applyFieldErrors } from '../../lib/api';
 import { useFormatters } from '../../lib/format';
 import { useSession } from '../auth/api';
 import { useAddMovement, usePart, type Movement } from './api';
+import { EditPart } from './PartForms';
 
 const KIND_HELP: Record<(typeof MOVEMENT_KINDS)[number], string> = {
   receive: 'Received (adds to on hand)', adjust: 'Count correction (+ or −)', reserve: 'Reserve for a batch', release: 'Release a reservation',
@@ -74,7 +75,7 @@ export default function PartPage() {
           <div><dt className="text-sm text-ink-soft">Unit cost · bin</dt><dd className="text-2xl font-bold">{money(p.unitCostCents)} · {p.binLocation || '—'}</dd></div>
           <div className="sm:col-span-4"><dt className="text-sm text-ink-soft">Category · package · manufacturer part number</dt><dd>{p.category} · {p.package || '—'} · {p.manufacturerPartNumber || '—'}</dd></div>
         </dl>
-        {role === 'owner' || role === 'planner' ? <MovementForm partId={p.id} /> : null}
+        {role === 'owner' || role === 'planner' ? <><MovementForm partId={p.id} /><EditPart key={p.id} part={p} /></> : null}
         <section><h2 className="mb-3 text-xl font-bold text-spruce-900">Movement history</h2>
           {p.movements.length ? <DataTable data={p.movements} columns={columns} caption={`Stock movements of ${p.partNumber}`} /> : <EmptyState title="No movements yet" />}</section>
       </div>

@@ -31,9 +31,16 @@ const T: Supplier = 'Tinmoss Electronics';
 const O: Supplier = 'Orrin & Pell Supply';
 const F: Supplier = 'Fernlow Metalworks';
 
+// '4k7' → '4.7 kΩ', '10R' → '10 Ω', '1M' → '1 MΩ': the value as printed on the label.
+function printed(code: string) {
+  const m = /^(\d+)([RkM])(\d*)$/.exec(code)!;
+  const unit = { R: 'Ω', k: 'kΩ', M: 'MΩ' }[m[2] as 'R' | 'k' | 'M'];
+  return `${m[1]}${m[3] ? `.${m[3]}` : ''} ${unit}`;
+}
+
 function resistor(value: string, bin: string, consumed = 40): DemoPart {
   return {
-    part_number: `R-${value.toUpperCase()}-MF`, category: 'resistor', value: `${value}Ω 1% 0.25 W`, package: 'axial 0207',
+    part_number: `R-${value.toUpperCase()}-MF`, category: 'resistor', value: `${printed(value)} 1 % 0.25 W metal film`, package: 'axial 0207',
     manufacturer_part_number: `MF0207-${value.toUpperCase()}-1%`, supplier: B, unit_cost_cents: 3, reorder_point: 100,
     bin_location: bin, received: [200, 100], consumed,
   };
