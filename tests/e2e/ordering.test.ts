@@ -152,6 +152,22 @@ describe('ordering in a browser', () => {
     await owner.close();
   });
 
+  it('lets a visitor browse and fill a cart, and asks them to sign in to order', async () => {
+    const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+    await page.goto(`${url}/shop`);
+    await page.getByRole('heading', { name: 'Pedals', level: 1 }).waitFor();
+    await shot(page, 'visitor-shop');
+    const model = await openModelPage(page);
+    await page.getByRole('radio', { name: new RegExp(model.options[0].name) }).check();
+    await page.getByRole('button', { name: /^Add .* to cart$/ }).click();
+    await page.getByRole('link', { name: 'Go to the cart' }).click();
+    await page.getByText(/to order\. Your cart stays here\./).waitFor();
+    expect(await page.getByRole('button', { name: /Place order and pay/ }).count()).toBe(0);
+    await page.getByText(/^Total$/).waitFor();
+    await shot(page, 'visitor-cart');
+    await page.close();
+  });
+
   it('leaves the order awaiting payment with a clear message after the decline card', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(page, DEMO.customer);

@@ -41,7 +41,8 @@ export const backoffSeconds = (attempts: number, base: number) => Math.min(base 
 export async function sendDueMail(knex: Knex, mailer: Transporter, config: Config, limit = 20): Promise<{ sent: number; failed: number }> {
   const settings = await getSettings(knex);
   const ctx = { currency: settings.currency, timeZone: settings.time_zone, shopName: settings.shop_name, shopAddress: settings.shop_address };
-  const domain = config.MAIL_FROM.match(/@([^>\s]+)/)?.[1] ?? 'kneepoint.local';
+  const fromAddress = config.MAIL_FROM.match(/<([^>]+)>/)?.[1] ?? config.MAIL_FROM.trim();
+  const domain = fromAddress.split('@')[1] ?? 'kneepoint.local';
   let sent = 0;
   let failed = 0;
   for (let i = 0; i < limit; i++) {
@@ -57,7 +58,8 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
           : [];
         stage = 'send';
         await mailer.sendMail({
-          from: config.MAIL_FROM,
+          // Sent in the shop's name from the configured mailbox.
+          from: { name: settings.shop_name, address: fromAddress },
           to: row.to_address,
           subject: rendered.subject,
           text: rendered.text,

@@ -34,7 +34,7 @@ export default function InboxPage() {
       {messages.isPending ? <Loading label="Loading mail…" /> : null}
       {messages.isError ? <ErrorState error={messages.error} retry={() => messages.refetch()} /> : null}
       {messages.data?.length === 0 ? <EmptyState title="No mail sent yet">Mail appears here a few seconds after an order is paid, scheduled, tested or shipped.</EmptyState> : null}
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid gap-6 xl:grid-cols-[2fr_3fr]">
         {messages.data && messages.data.length > 0 ? <DataTable data={messages.data} columns={columns} caption="Sent mail" /> : null}
         {openId ? <MessageView id={openId} onClose={() => setOpenId(null)} /> : null}
       </div>

@@ -27,7 +27,7 @@ export default function OrderDeskPage() {
   const errors = form.formState.errors;
 
   const columns = useMemo<ColumnDef<OrderListRow, unknown>[]>(() => [
-    { header: 'Order', accessorKey: 'number', cell: ({ row }) => <Link to={orderPath(row.original.id)} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">{row.original.number}</Link> },
+    { header: 'Order', accessorKey: 'number', cell: ({ row }) => <Link to={orderPath(row.original.id)} className="inline-flex min-h-11 items-center font-semibold whitespace-nowrap text-copper-700 underline">{row.original.number}</Link> },
     { header: 'Placed', accessorKey: 'created_at', cell: ({ getValue }) => dateTime(getValue() as string) },
     { header: 'Customer', accessorKey: 'customer_name' },
     { header: 'What', accessorKey: 'summary' },

@@ -80,7 +80,7 @@ export function CartPage({ viewer }: { viewer: SessionUser | null | undefined })
         <EmptyState title="Your cart is empty"><Link to={paths.shop} className="font-semibold text-copper-700 underline">Choose a pedal</Link></EmptyState>
       ) : (
         <div className="grid gap-8 lg:grid-cols-[3fr_2fr]">
-          <div className="flex flex-col gap-4">
+          <div className="flex min-w-0 flex-col gap-4">
             <DataTable data={lines} columns={columns} caption="Pedals in your cart" />
             {quote.isPending ? <Loading label="Working out the total…" /> : null}
             {quote.isError ? <ErrorState error={quote.error} retry={() => quote.refetch()} /> : null}

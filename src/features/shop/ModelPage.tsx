@@ -13,7 +13,7 @@ import { HarmonicsExplainer } from './HarmonicsExplainer';
 import { dbcOf, describeProfile, profilesOf } from './profiles';
 
 const percent = (ratio: number) => `${(ratio * 100).toFixed(ratio < 0.1 ? 1 : 0)} %`;
-const dbc = (v: number | null) => (v === null ? '—' : `${v.toFixed(1)} dBc`);
+const dbc = (v: number | null) => (v === null ? 'none (below −100 dBc)' : `${v.toFixed(1)} dBc`);
 
 export default function ModelPage() {
   const modelId = Number(useParams().modelId);
@@ -45,10 +45,10 @@ export default function ModelPage() {
         <Link to={paths.shop} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">All pedals</Link>
         <Link to={paths.cart} className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold">Cart</Link>
       </PageHeader>
-      <div className="mb-6 grid gap-6 md:grid-cols-[2fr_3fr]">
-        {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="w-full rounded-lg object-cover" /> : <div aria-hidden className="aspect-[4/3] rounded-lg bg-spruce-100" />}
+      <div className={`mb-6 grid gap-6 ${m.photoUrl ? 'md:grid-cols-[2fr_3fr]' : ''}`}>
+        {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="w-full rounded-lg object-cover" /> : null}
         <div>
-          <p className="text-lg text-ink">{m.description}</p>
+          <p className="max-w-3xl text-lg text-ink">{m.description}</p>
           <p className="mt-3 text-ink-soft">Runs from 9 V DC, centre-negative. The figures below are computed from each option’s diodes with a 1 kHz test tone at {Math.round(reference * 100)} % drive.</p>
         </div>
       </div>

@@ -4,6 +4,7 @@ import { useFormatters } from '../../lib/format';
 import { paths, shopModelPath } from '../../lib/navigation';
 import { useShopModels } from './api';
 import { useCart } from './cart';
+import { PedalSketch } from './PedalSketch';
 
 export default function ShopPage() {
   const models = useShopModels();
@@ -28,7 +29,7 @@ export default function ShopPage() {
           const from = m.basePriceCents + (m.options.length ? Math.min(...m.options.map((o) => o.surchargeCents)) : 0);
           return (
             <li key={m.id} className="flex flex-col overflow-hidden rounded-lg border border-spruce-700/20 bg-white">
-              {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="aspect-[4/3] w-full object-cover" /> : <div aria-hidden className="aspect-[4/3] w-full bg-spruce-100" />}
+              {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="aspect-[4/3] w-full object-cover" /> : <PedalSketch label={m.name} />}
               <div className="flex flex-1 flex-col gap-2 p-4">
                 <h2 className="text-xl font-bold text-spruce-900">{m.name}</h2>
                 <p className="flex-1 text-ink-soft">{m.description}</p>

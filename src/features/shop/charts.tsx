@@ -63,7 +63,7 @@ export function ThdCurves({ profiles, drive }: { profiles: OptionProfile[]; driv
         </g>
       ))}
       {[0, 0.25, 0.5, 0.75, 1].map((d) => (
-        <text key={d} x={x(d)} y={height - 8} textAnchor="middle" fontSize="11" fill="#4b5a53">{Math.round(d * 100)} %</text>
+        <text key={d} x={x(d)} y={height - 8} textAnchor={d === 1 ? 'end' : d === 0 ? 'start' : 'middle'} fontSize="11" fill="#4b5a53">{Math.round(d * 100)} %</text>
       ))}
       <line x1={x(drive)} x2={x(drive)} y1={10} y2={10 + plotH} stroke="#b8672e" strokeDasharray="4 3" />
       {profiles.map((p, i) =>

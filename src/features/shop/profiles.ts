@@ -19,10 +19,13 @@ export function profilesOf(options: ShopOption[]): OptionProfile[] {
   });
 }
 
-/** dBc of harmonic n at the reference setting, e.g. dbcOf(p, 2) = −13.3. */
+/** Below this a harmonic is numerical noise, not sound: a symmetric clip has no even orders at all. */
+export const INAUDIBLE_DBC = -100;
+
+/** dBc of harmonic n at the reference setting, e.g. dbcOf(p, 2) = −13.3; null when below −100 dBc. */
 export function dbcOf(profile: HarmonicProfile, order: number): number | null {
   const h = profile.reference.spectrum.harmonics.find((x) => x.order === order);
-  return h && Number.isFinite(h.dbc) ? h.dbc : null;
+  return h && Number.isFinite(h.dbc) && h.dbc > INAUDIBLE_DBC ? h.dbc : null;
 }
 
 /**
