@@ -30,11 +30,12 @@ async function insertSheetFile(trx: Db, serial: string, pdf: Buffer, userId: num
  * Renders and stores the sheet of a unit that has just passed, inside the caller's transaction;
  * returns the file id for the "built and passed" mail. A unit that already has one keeps it.
  */
-export async function storeSheetForPassedUnit(trx: Db, unitId: number, userId: number | null = null, publicUrl = defaultPublicUrl()): Promise<number> {
+export async function storeSheetForPassedUnit(trx: Knex.Transaction, unitId: number, userId: number | null = null, publicUrl = defaultPublicUrl()): Promise<number> {
+  // The unit's row lock makes a second caller (the batch job, a download) wait and then find the stored sheet.
+  const unit = await trx('units').where({ id: unitId }).forUpdate().first('serial');
+  if (!unit) throw notFound('No such unit');
   const existing = await trx('spec_sheets').where({ unit_id: unitId }).first('file_id');
   if (existing) return existing.file_id as number;
-  const unit = await trx('units').where({ id: unitId }).first('serial');
-  if (!unit) throw notFound('No such unit');
   const fileId = await insertSheetFile(trx, unit.serial, await renderUnitSheet(trx, unitId, publicUrl), userId);
   await trx('spec_sheets').insert({ unit_id: unitId, file_id: fileId, version: 1, generated_by: userId });
   return fileId;
