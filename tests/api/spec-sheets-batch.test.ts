@@ -65,6 +65,25 @@ describe('a batch of spec sheets as a background job', () => {
     expect(await t.knex('spec_sheets').where({ unit_id: built.id }).first()).toBeUndefined();
   });
 
+  it('takes over a job whose worker stopped mid-way (its heartbeat went quiet)', async () => {
+    const batch = await insertBatch(t.knex, [{ vf: [1.79, 0.60] }]);
+    const [stale] = await t.knex('sheet_jobs').insert({
+      batch_id: batch.batchId, state: 'running', total: 1, done: 0, started_at: new Date(Date.now() - 600_000), heartbeat_at: new Date(Date.now() - 600_000),
+    }).returning('id');
+    if (!jobs) {
+      jobs = await startJobs(t.config, [specSheetJob(t.knex, t.config, 0.5)]);
+    }
+    await kickSpecSheets(jobs.boss);
+    const deadline = Date.now() + 30_000;
+    let row = await t.knex('sheet_jobs').where({ id: stale.id }).first();
+    while (row.state !== 'finished' && Date.now() < deadline) {
+      await new Promise((resolve) => setTimeout(resolve, 100));
+      row = await t.knex('sheet_jobs').where({ id: stale.id }).first();
+    }
+    expect(row).toMatchObject({ state: 'finished', done: 1 });
+    expect(row.archive_file_id).toBeTruthy();
+  });
+
   it('answers 404 for an unknown batch or job, and 409 for a batch without units', async () => {
     const tester = await signedInAgent(t.app, DEMO.tester);
     await tester.post('/api/batches/987654/spec-sheets').set('X-CSRF-Token', tester.csrf).expect(404);
