@@ -2,11 +2,13 @@ import type { Knex } from 'knex';
 import { DEVICE_PRESETS } from '../shared/engine/index';
 import { DEMO_PARTS, DEMO_SUPPLIERS } from '../server/services/catalog/demo/parts';
 import { DEMO_MODELS, PRESET_PARTS, type DemoBomLine } from '../server/services/catalog/demo/models';
+import { pedalPng } from '../server/services/catalog/demo/photo';
 
 // The catalog of the invented shop: suppliers, ~70 parts with a stock history, one clipping device per
 // engine preset, three pedal models with two revisions each and their clipping options.
 // Idempotent: parts are matched by part_number, devices by preset_key, models by SKU; existing rows stay.
 const DAY = 86_400_000;
+const PHOTO_COLOUR: Record<string, string> = { 'HM-SMD': '#3c5249', 'HM-LFO': '#c0602f', 'HM-CPD': '#6b2a33' };
 const FAMILY_KIND: Record<string, string> = { silicon: 'silicon', rectifier: 'silicon', schottky: 'schottky', germanium: 'germanium', led: 'led' };
 
 export async function seed(knex: Knex): Promise<void> {
@@ -59,7 +61,9 @@ export async function seed(knex: Knex): Promise<void> {
     const existingModels = new Set((await trx('models').select('sku')).map((r: { sku: string }) => r.sku));
     for (const m of DEMO_MODELS) {
       if (existingModels.has(m.sku)) continue;
-      const [model] = await trx('models').insert({ name: m.name, sku: m.sku, description: m.description, base_price_cents: m.base_price_cents, published: m.published }).returning('id');
+      const png = pedalPng(PHOTO_COLOUR[m.sku] ?? '#3c5249', 3);
+      const [photo] = await trx('files').insert({ purpose: 'model-photo', filename: `${m.sku.toLowerCase()}.png`, content_type: 'image/png', size_bytes: png.length, data: png, uploaded_by: owner?.id ?? null }).returning('id');
+      const [model] = await trx('models').insert({ name: m.name, sku: m.sku, description: m.description, base_price_cents: m.base_price_cents, published: m.published, photo_file_id: photo.id }).returning('id');
       let activeId = 0;
       for (const [r, rev] of m.revisions.entries()) {
         const [revision] = await trx('model_revisions').insert({

@@ -49,6 +49,9 @@ describe('GET /api/models', () => {
     expect(codes.slice(0, 3)).toEqual(['SI2', 'LED2', 'ASYM']);
     expect(codes).not.toContain('GE2');
     expect(smd.basePriceCents).toBe(18900);
+    const photo = await anon.get(smd.photoUrl).expect(200);
+    expect(photo.headers['content-type']).toBe('image/png');
+    expect(photo.body.subarray(1, 4).toString()).toBe('PNG');
     const text = JSON.stringify(res.body);
     for (const secret of ['cost', 'Cents":0,"flags', 'published', 'available', 'supplier', 'partId']) expect(text).not.toContain(secret);
   });
