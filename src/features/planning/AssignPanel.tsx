@@ -61,7 +61,7 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
         })}>Assign selected ({selected.size})</Button>
       </div>
       {proposal ? <PlanEditor proposal={proposal} units={detail.units} busy={apply.isPending} onCancel={() => setProposal(null)} onApply={(builds) => apply.mutate({ builds }, {
-        onSuccess: (r) => { setProposal(null); toast(`Plan applied: ${r.assigned} builds assigned${r.late.length ? `, ${r.late.length} late` : ''}`); },
+        onSuccess: (r) => { setProposal(null); toast(`Plan applied: ${r.assigned} build${r.assigned === 1 ? '' : 's'} assigned${r.late.length ? `, ${r.late.length} late` : ''}`); },
         onError: (e) => toast(e.message, 'alarm'),
       })} /> : null}
       <DataTable data={detail.units} columns={columns} caption="Units of this batch" />

@@ -35,7 +35,7 @@ function ReleasePanel({ detail }: { detail: BatchDetail }) {
         <Button
           busy={release.isPending}
           onClick={() => release.mutate({ startDate, overrideReason: reason || undefined }, {
-            onSuccess: (r) => { setProblem(null); toast(`Released: ${r.units} units created, ${r.orders} customer${r.orders === 1 ? '' : 's'} told their ship date`); },
+            onSuccess: (r) => { setProblem(null); toast(`Released: ${r.units} unit${r.units === 1 ? '' : 's'} created, ${r.orders} customer${r.orders === 1 ? '' : 's'} told their ship date`); },
             onError: (e) => setProblem(e.message),
           })}
         >
@@ -62,7 +62,7 @@ function KittingPanel({ detail }: { detail: BatchDetail }) {
           onError: (e) => toast(e.message, 'alarm'),
         })}>Hold stock for batch</Button>
         <Button busy={kit.isPending} disabled={kitted === open.length} onClick={() => kit.mutate(undefined, {
-          onSuccess: (r) => toast(r.notKitted ? `Kitted ${r.kitted} units; ${r.notKitted} wait for parts (${r.firstProblem})` : `Kitted ${r.kitted} units`, r.notKitted ? 'alarm' : undefined),
+          onSuccess: (r) => toast(r.notKitted ? `Kitted ${r.kitted} of ${r.kitted + r.notKitted} units; ${r.notKitted} wait for parts (${r.firstProblem})` : `Kitted ${r.kitted} unit${r.kitted === 1 ? '' : 's'}`, r.notKitted ? 'alarm' : undefined),
           onError: (e) => toast(e.message, 'alarm'),
         })}>Kit units</Button>
       </div>
