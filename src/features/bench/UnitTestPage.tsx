@@ -14,6 +14,9 @@ import { useRecordTest, useTestUnit, type TestRecord } from './api';
 import { HarmonicBars } from './HarmonicBars';
 import { MainsCaution } from './MainsCaution';
 
+/** A harmonic level in words; a symmetric pair's even orders sit far below anything a bench can read. */
+const dbcText = (dbc?: number) => (dbc === undefined ? '—' : dbc < -120 ? 'below −120 dBc' : `${dbc.toFixed(1)} dBc`);
+
 function TestResult({ test, predicted }: { test: TestRecord; predicted?: { order: number; dbc: number }[] }) {
   const fmt = useFormatters();
   return (
@@ -68,7 +71,7 @@ export default function UnitTestPage() {
       <p className="mb-4 text-lg">{d.unit.modelName} rev. {d.unit.revisionNumber} — {d.unit.optionName} · built by {d.unit.assemblerName ?? '—'} · <strong>{UNIT_STATE_LABELS[d.unit.state]}</strong></p>
       <section className="mb-6 rounded-lg bg-white p-6 shadow-sm" aria-labelledby="predicted-heading">
         <h2 id="predicted-heading" className="mb-2 text-xl font-bold text-spruce-900">Predicted for this unit</h2>
-        {predicted ? <p>THD<sub>F</sub> at drive {Math.round(d.unit.referenceDrive * 100)} % with a 1 kHz tone: <strong>{predicted.thdPercent.toFixed(2)} %</strong> (tolerance ±{d.thdTolerancePercent} % of it){predicted.fromMeasuredVf ? ', from the measured devices' : ', from nominal devices'}. H2 {predicted.harmonics.find((h) => h.order === 2)?.dbc.toFixed(1)} dBc · H3 {predicted.harmonics.find((h) => h.order === 3)?.dbc.toFixed(1)} dBc.</p> : <p>No prediction yet: it is computed when the test is saved.</p>}
+        {predicted ? <p>THD<sub>F</sub> at drive {Math.round(d.unit.referenceDrive * 100)} % with a 1 kHz tone: <strong>{predicted.thdPercent.toFixed(2)} %</strong> (tolerance ±{d.thdTolerancePercent} % of it){predicted.fromMeasuredVf ? ', from the measured devices' : ', from nominal devices'}. H2 {dbcText(predicted.harmonics.find((h) => h.order === 2)?.dbc)} · H3 {dbcText(predicted.harmonics.find((h) => h.order === 3)?.dbc)}.</p> : <p>No prediction yet: it is computed when the test is saved.</p>}
         <p className="mt-1 text-sm text-ink-soft">Devices: {d.devices.map((x) => `${x.name} (${x.side}) ${x.measuredVf !== null ? `${(x.measuredVf * 1000).toFixed(0)} mV` : 'not measured'}`).join(' · ')}. Supply {d.unit.supplyV} V DC, centre negative.</p>
       </section>
       {d.unit.state === 'built' ? (
