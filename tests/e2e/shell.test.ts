@@ -59,6 +59,8 @@ describe('the app shell in a browser', () => {
   it('shows a page-not-found page for an unknown address', async () => {
     const page = await browser.newPage();
     await page.goto(`${server.url}/no/such/page`);
+    // The page is a lazy route: wait for it to load instead of checking at once.
+    await page.getByRole('heading', { name: 'Page not found' }).waitFor();
     await expect(page.getByRole('heading', { name: 'Page not found' }).isVisible()).resolves.toBe(true);
     await page.close();
   });
