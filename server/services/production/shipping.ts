@@ -19,7 +19,7 @@ export async function shippingQueue(db: Db) {
     .leftJoin('shipments as s', 's.order_id', 'o.id')
     .select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name', 's.id as shipment_id', 's.carrier', 's.tracking_number', 's.shipped_at')
     .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
-    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state = 'passed') AS passed"))
+    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed"))
     .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines WHERE order_id = o.id) AS ordered'))
     .orderBy([{ column: 'o.due_at', order: 'asc', nulls: 'last' }, 'o.id']);
   const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
