@@ -150,6 +150,20 @@ describe('the catalog in a browser', () => {
     await page.getByText(/Frozen since/).waitFor();
     expect(await page.getByRole('button', { name: /Start revision \d+ from this one/ }).isVisible()).toBe(true);
     expect(await page.getByRole('button', { name: 'Save drive stage' }).count()).toBe(0);
+    await page.getByRole('link', { name: 'Back to Saltmarsh Drive' }).click();
+    const options = page.getByRole('table', { name: 'Clipping options of Saltmarsh Drive' });
+    await options.getByRole('link', { name: 'Germanium pair (GE2)' }).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-model.png'), fullPage: true });
+    await page.getByRole('link', { name: /Revision 2/ }).click();
+    const bom = page.getByRole('table', { name: 'BOM of revision 2' });
+    const row = bom.getByRole('row').filter({ has: page.getByRole('cell', { name: 'R16', exact: true }) });
+    await row.getByRole('button', { name: 'Edit' }).click();
+    const dialog = page.getByRole('dialog', { name: 'Edit R-2K2-MF' });
+    await dialog.getByLabel('Notes').fill('clipper series resistor, 1 % only');
+    await dialog.getByRole('button', { name: 'Save line' }).click();
+    await page.getByText('R-2K2-MF line saved').first().waitFor();
+    await row.getByText('clipper series resistor, 1 % only').waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-revision.png'), fullPage: true });
     await page.close();
   }, 60_000);
 

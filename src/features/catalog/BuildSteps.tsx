@@ -9,6 +9,7 @@ import { TextField } from '../../components/ui/TextField';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
 import { useAddStep, useDeleteStep, type Revision } from './api';
+import { EditStep } from './EditDialogs';
 
 const SKILL_LABEL: Record<(typeof SKILLS)[number], string> = {
   'through-hole': 'Through-hole soldering', 'smd-rework': 'SMD and rework', 'device-matching': 'Device matching', enclosure: 'Enclosure work', 'final-check': 'Final check',
@@ -59,7 +60,7 @@ export function BuildSteps({ revision, editable }: { revision: Revision; editabl
             <li key={s.id} className="rounded-lg bg-white p-4 shadow-sm">
               <div className="flex flex-wrap items-baseline justify-between gap-2">
                 <p className="font-semibold">{s.position}. {s.title} <span className="font-normal text-ink-soft">· {s.standardMinutes} min · {SKILL_LABEL[s.skill as keyof typeof SKILL_LABEL] ?? s.skill}</span></p>
-                {editable ? <ConfirmButton label="Remove" question={`Remove step ${s.position}, “${s.title}”?`} confirmLabel="Remove step" onConfirm={() => remove.mutate(s.id, { onSuccess: () => toast(`Step “${s.title}” removed`), onError: (err) => toast(err.message, 'alarm') })} /> : null}
+                {editable ? <div className="flex gap-2"><EditStep step={s} /><ConfirmButton label="Remove" question={`Remove step ${s.position}, “${s.title}”?`} confirmLabel="Remove step" onConfirm={() => remove.mutate(s.id, { onSuccess: () => toast(`Step “${s.title}” removed`), onError: (err) => toast(err.message, 'alarm') })} /></div> : null}
               </div>
               {s.instructions ? <p className="mt-1">{s.instructions}</p> : null}
               {s.safetyNote ? <p className="mt-2 rounded-md border-l-4 border-amber-400 bg-copper-100 p-2 text-sm"><strong>Caution: </strong>{s.safetyNote}</p> : null}

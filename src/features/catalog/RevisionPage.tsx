@@ -16,6 +16,7 @@ import { useSession } from '../auth/api';
 import { useAddBomLine, useAllParts, useDeleteBomLine, useRevision, useStartRevision, useUpdateRevision, type BomLine, type Revision } from './api';
 import { BomCsvUpload } from './BomCsvUpload';
 import { BuildSteps } from './BuildSteps';
+import { EditBomLine } from './EditDialogs';
 
 function DriveForm({ revision, editable }: { revision: Revision; editable: boolean }) {
   const update = useUpdateRevision(revision.id);
@@ -95,8 +96,8 @@ export default function RevisionPage() {
     { accessorKey: 'notes', header: 'Notes' },
     {
       id: 'actions', header: () => <span className="sr-only">Actions</span>, enableSorting: false,
-      cell: ({ row }) => editable ? <ConfirmButton label="Remove" question={`Remove ${row.original.partNumber} ${row.original.designators} from this BOM?`} confirmLabel="Remove line"
-        onConfirm={() => remove.mutate(row.original.id, { onSuccess: () => toast(`${row.original.partNumber} removed`), onError: (err) => toast(err.message, 'alarm') })} /> : null,
+      cell: ({ row }) => editable ? <div className="flex gap-2"><EditBomLine line={row.original} /><ConfirmButton label="Remove" question={`Remove ${row.original.partNumber} ${row.original.designators} from this BOM?`} confirmLabel="Remove line"
+        onConfirm={() => remove.mutate(row.original.id, { onSuccess: () => toast(`${row.original.partNumber} removed`), onError: (err) => toast(err.message, 'alarm') })} /></div> : null,
     },
   ], [editable, money, remove, toast]);
   if (revision.isPending) return <Loading />;

@@ -104,3 +104,5 @@ export const useDeleteStep = () => useCatalogMutation((stepId: number) => api.de
 const csvForm = (file: File) => { const f = new FormData(); f.append('file', file); return f; };
 export const usePreviewBomCsv = (id: number) => useMutation({ mutationFn: (file: File) => api.post<CsvPreview>(`/api/revisions/${id}/bom-csv/preview`, csvForm(file)) });
 export const useImportBomCsv = (id: number) => useCatalogMutation((file: File) => api.post<{ revision: Revision }>(`/api/revisions/${id}/bom-csv/import`, csvForm(file)), [catalogKeys.models()]);
+export const useUpdateBomLine = () => useCatalogMutation(({ id, ...l }: BomLineInput & { id: number }) => api.patch<{ revision: Revision }>(`/api/bom-lines/${id}`, l), [catalogKeys.models()]);
+export const useUpdateStep = () => useCatalogMutation(({ id, ...s }: BuildStepInput & { id: number }) => api.patch<{ revision: Revision }>(`/api/steps/${id}`, s), [catalogKeys.models()]);
