@@ -179,3 +179,16 @@ describe('cancelling', () => {
     expect((await fakeEvents(env.fake, 'refund.created')).filter((e) => e.event.data.object.payment_intent === row.payment_intent_id)).toHaveLength(0);
   });
 });
+
+describe('an expired payment page', () => {
+  it('notes the expiry and gives the next attempt a fresh, payable session', async () => {
+    const { order } = await placeOrder(customer, pedal);
+    const first = await checkout(order.id);
+    await fetch(`${env.fake.url}/v1/checkout/sessions/${first}/expire`, { method: 'POST', headers: { authorization: `Bearer ${env.t.config.PAYMENTS_API_KEY}` } });
+    await eventually(async () => (await env.t.knex('order_events').where({ order_id: order.id, kind: 'checkout-expired' })).length > 0, 'the expiry noted');
+    const second = await checkout(order.id);
+    expect(second).not.toBe(first);
+    expect((await payWith(env.fake, second, SUCCESS_CARD)).outcome).toBe('succeeded');
+    await eventually(async () => (await orderRow(order.id)).state === 'paid', 'paid on the second session');
+  });
+});

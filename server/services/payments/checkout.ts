@@ -37,8 +37,9 @@ export async function startCheckout(knex: Knex, { stripe, config }: PaymentsDeps
       metadata,
       payment_intent_data: { metadata },
     },
-    // One session per order attempt: a retried request returns the same session.
-    { idempotencyKey: `checkout-${order.id}-${order.checkout_session_id ?? 'first'}` },
+    // One session per attempt: a retried request returns the same session, and an attempt after an
+    // expired session is keyed on that session, so it gets a new one.
+    { idempotencyKey: `checkout-${order.id}-after-${order.checkout_session_id ?? 'none'}` },
   ));
   if (session.amount_total !== order.total_cents) throw new Error(`Checkout total ${session.amount_total} differs from order total ${order.total_cents}`);
   await knex('orders').where({ id: order.id }).update({ checkout_session_id: session.id, updated_at: knex.fn.now() });

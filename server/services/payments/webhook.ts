@@ -68,8 +68,8 @@ export async function handlePaymentEvent(knex: Knex, deps: PaymentsDeps, event: 
         return 'processed';
       }
       case 'checkout.session.expired': {
+        // The expired session's id stays on the order: the next checkout is keyed on it, so it gets a fresh session.
         if (order.state === 'awaiting_payment' && order.checkout_session_id === object.id) {
-          await trx('orders').where({ id: orderId }).update({ checkout_session_id: null });
           await note(trx, orderId, 'checkout-expired', 'The payment page expired; the customer can start paying again');
         }
         return 'processed';
