@@ -1,7 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { findPreset } from '../../shared/engine';
 import { cachedNominalBand, circuitHash } from '../../server/services/spec-sheets/band-cache';
-import { sheetDeviceName, staffName } from '../../server/services/spec-sheets/assemble';
+import { revisionText, sheetDeviceName, staffName } from '../../server/services/spec-sheets/assemble';
 import { startTestApp } from '../support/app';
 import { ASYMMETRIC_SILICON_LED_SHUNT } from '../support/circuits';
 
@@ -35,6 +35,12 @@ describe('what the sheet prints for people and parts', () => {
     expect(staffName('Juno Abara', 'initials')).toBe('J. A.');
     expect(staffName('Juno Abara', 'names')).toBe('Juno Abara');
     expect(staffName(null, 'initials')).toBe('—');
+  });
+
+  it('keeps the revision label only when it fits on the model line', () => {
+    expect(revisionText('Saltmarsh Drive', { number: 2, label: 'Quieter board' })).toBe('2 (Quieter board)');
+    expect(revisionText('Cinderpath Distortion', { number: 2, label: 'Wider drive' })).toBe('2');
+    expect(revisionText('Saltmarsh Drive', { number: 1, label: '' })).toBe('1');
   });
 
   it('shortens a long device name to fit its column', () => {

@@ -124,6 +124,24 @@ describe('a unit passed at the bench', () => {
   });
 });
 
+describe('the demo scenario', () => {
+  it('stored the sheet of the unit its seed passed at the bench, with that unit’s own table', async () => {
+    const unit = await t.knex('units as u').join('batches as b', 'b.id', 'u.batch_id').where('b.notes', 'Demo stock batch').where('u.state', 'passed')
+      .orderBy('u.sequence').first('u.id', 'u.serial');
+    expect(unit, 'the production seed passes one demo unit').toBeTruthy();
+    expect(await t.knex('spec_sheets').where({ unit_id: unit.id }).first()).toBeTruthy();
+    const { body } = await fetchBinary(tester, `/api/units/${unit.serial}/spec-sheet.pdf`);
+    const text = await pdfText(body);
+    expect(text).toContain(unit.serial);
+    expect(text).toContain('Passed');
+    expect(text).toContain('Computed from the forward voltages measured on this unit');
+    // Page 1 of the demo sheet, for docs/spec-sheet-page1.png.
+    mkdirSync('test-results', { recursive: true });
+    writeFileSync('test-results/demo-spec-sheet.pdf', body);
+    execFileSync('pdftoppm', ['-r', '110', '-png', '-singlefile', '-f', '1', '-l', '1', 'test-results/demo-spec-sheet.pdf', 'test-results/demo-spec-sheet-page1']);
+  });
+});
+
 describe('a unit not yet passed', () => {
   it('gets a sheet made on demand, not stored, with its own table from its own readings', async () => {
     const unit = batch.units[1];

@@ -41,6 +41,12 @@ export function sheetDeviceName(name: string) {
   return name.length > 24 ? name.replace(/\s*\([^)]*\)\s*$/, '') : name;
 }
 
+/** "2 (Quieter board)", or just "2" when the label would not fit on the model's line beside the model name. */
+export function revisionText(modelName: string, revision: { number: number; label: string }) {
+  const full = `${revision.number} (${revision.label})`;
+  return revision.label && `${modelName}, revision ${full}`.length <= 44 ? full : String(revision.number);
+}
+
 /** A day in the shop's time zone, e.g. "28 Nov 2026". */
 export function shopDay(at: Date | null | undefined, timeZone: string) {
   if (!at) return null;
@@ -97,7 +103,7 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
     paper: settings.paper_size === 'Letter' ? 'Letter' : 'A4',
     shop: { name: settings.shop_name, address: postalAddress(settings), email: settings.shop_email },
     unit: {
-      serial: unit.serial, model: model.name, revision: revision.label ? `${revision.number} (${revision.label})` : String(revision.number),
+      serial: unit.serial, model: model.name, revision: revisionText(model.name, revision),
       batch: batchLabel(unit.batch_number), builtOn: shopDay(built?.created_at, settings.time_zone), testedOn: shopDay(testedAt, settings.time_zone),
       assembler: staffName(unit.assembler_name, settings.sheet_staff_names), tester: staffName(test?.tester_name, settings.sheet_staff_names),
     },
