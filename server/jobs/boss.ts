@@ -22,7 +22,12 @@ export interface JobDefinition {
  * is lost when one stops.
  */
 export async function startJobs(config: Config, definitions: JobDefinition[]) {
-  const boss = new PgBoss({ connectionString: config.DATABASE_URL, schema: 'pgboss', max: 4 });
+  const boss = new PgBoss({
+    connectionString: config.DATABASE_URL, schema: 'pgboss', max: 4,
+    // Sweeps re-queue themselves every few seconds; finished jobs are history nobody reads, so
+    // archive them after an hour and drop them after a day instead of keeping a week of them.
+    archiveCompletedAfterSeconds: 3600, deleteAfterDays: 1,
+  });
   boss.on('error', (error) => console.error('[jobs]', error));
   await boss.start();
   for (const def of definitions) {
