@@ -19,7 +19,8 @@ describe('catalog demo scenario (seeds/02-catalog.ts)', () => {
     const models = await t.knex('models').whereIn('sku', ['HM-SMD', 'HM-LFO', 'HM-CPD']).select('id', 'active_revision_id');
     expect(models).toHaveLength(3);
     for (const m of models) {
-      const revs = await t.knex('model_revisions').where({ model_id: m.id }).orderBy('number');
+      // Other test files may start revision 3 on a demo model; the seed made 1 and 2.
+      const revs = await t.knex('model_revisions').where({ model_id: m.id }).where('number', '<=', 2).orderBy('number');
       expect(revs.map((r) => r.number)).toEqual([1, 2]);
       expect(m.active_revision_id).toBe(revs[1].id);
       expect(revs[0].frozen_at).not.toBeNull();
@@ -61,6 +62,9 @@ describe('GET /api/models', () => {
     const res = await planner.get('/api/models').expect(200);
     const smd = res.body.models.find((m: { sku: string }) => m.sku === 'HM-SMD');
     expect(smd.options.map((o: { code: string }) => o.code)).toContain('GE2');
+    const lfo = res.body.models.find((m: { sku: string }) => m.sku === 'HM-LFO');
+    const flagged = lfo.options.filter((o: { flags: string[] }) => o.flags.length > 0);
+    expect(flagged.map((o: { code: string; flags: string[] }) => [o.code, o.flags])).toEqual([['WHT2', ['LED, white has no linked part']]]);
     const minutes = await t.knex('build_steps').where({ revision_id: smd.activeRevision.id }).sum<{ sum: number }[]>('standard_minutes as sum');
     const parts = await t.knex('bom_lines as b').join('parts as p', 'p.id', 'b.part_id').where('b.revision_id', smd.activeRevision.id).sum<{ sum: number }[]>({ sum: t.knex.raw('b.quantity * p.unit_cost_cents') });
     expect(smd.cost.labourMinutes).toBe(Number(minutes[0].sum));

@@ -65,7 +65,7 @@ function Revisions({ model, canEdit }: { model: ModelDetail; canEdit: boolean })
   const columns = useMemo<ColumnDef<RevisionSummary, unknown>[]>(() => [
     { accessorKey: 'number', header: 'Revision', cell: ({ row }) => <Link className="font-semibold underline" to={`/catalog/revisions/${row.original.id}`}>Revision {row.original.number}{row.original.label ? ` — ${row.original.label}` : ''}</Link> },
     { id: 'state', header: 'State', cell: ({ row }) => [row.original.active ? 'active' : null, row.original.frozenAt ? `frozen since ${date(row.original.frozenAt)}` : 'editable'].filter(Boolean).join(' · ') },
-    { id: 'drive', header: 'Drive stage', cell: ({ row }) => `gain ×${row.original.drive.minGain}–×${row.original.drive.maxGain}, ${row.original.drive.taper}, ${row.original.drive.supplyV} V` },
+    { id: 'drive', header: 'Drive stage', cell: ({ row }) => `gain ${row.original.drive.minGain}× to ${row.original.drive.maxGain}×, ${row.original.drive.taper} taper, ${row.original.drive.supplyV} V` },
     { id: 'cost', header: 'Cost (parts + labour)', cell: ({ row }) => (row.original.cost ? money(row.original.cost.totalCents) : '—') },
     {
       id: 'actions', header: () => <span className="sr-only">Actions</span>, enableSorting: false,

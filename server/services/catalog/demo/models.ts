@@ -174,6 +174,8 @@ export const DEMO_MODELS: DemoModel[] = [
       { code: 'SI2', name: 'Silicon pair', description: 'Silicon diodes across the feedback resistor: smooth, mid-forward break-up.', topology: 'feedback', network: FEEDBACK, positive: ['si-small-signal'], negative: ['si-small-signal'], surcharge: 0, published: true },
       { code: 'SI3A', name: 'Two against one silicon', description: 'Two silicon diodes in series one way, one the other: an uneven clip with a strong second harmonic.', topology: 'feedback', network: FEEDBACK, positive: ['si-small-signal', 'si-small-signal'], negative: ['si-small-signal'], surcharge: 600, published: true },
       { code: 'SK2', name: 'Schottky pair, rounded', description: 'Low-knee Schottky diodes with a 47 pF cap across the loop to round off the top end.', topology: 'feedback', network: { ...FEEDBACK, feedbackFarads: 47e-12 }, positive: ['schottky-small-signal'], negative: ['schottky-small-signal'], surcharge: 600, published: true },
+      // Not stocked yet: the white LED has no linked part, so the catalog flags this option.
+      { code: 'WHT2', name: 'White LED pair', description: 'White LEDs in the loop: the loudest, cleanest break-up of the range.', topology: 'feedback', network: FEEDBACK, positive: ['led-white'], negative: ['led-white'], surcharge: 900, published: false },
     ],
   },
   {
