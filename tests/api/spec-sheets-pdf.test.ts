@@ -4,6 +4,8 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PDFParse } from 'pdf-parse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startMailFake } from '../../server/fakes/mail/index';
+import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { findPreset, perUnitCircuit, resolveCircuit } from '../../shared/engine';
 import { optionCircuit } from '../../shared/catalog/circuit';
 import { formatDbc, formatPercent } from '../../server/pdf/spec-sheet';
@@ -77,6 +79,20 @@ describe('a unit passed at the bench', () => {
     expect(stored).toMatchObject({ version: 1 });
     const mail = await t.knex('outbox').where({ dedupe_key: `unit-passed:${unit.id}` }).first();
     expect(mail.attachments).toEqual([{ filename: `spec-sheet-${unit.serial}.pdf`, fileId: stored.file_id }]);
+
+    // Through real SMTP to the mail fake: the customer's mail carries that very PDF.
+    const fake = await startMailFake({ smtpPort: 0, httpPort: 0 });
+    try {
+      await sendDueMail(t.knex, createMailer({ ...t.config, SMTP_PORT: fake.smtpPort }), t.config, 200);
+      const list = await (await fetch(`${fake.httpUrl}/messages?to=${encodeURIComponent(DEMO.customer)}`)).json() as { id: string; subject: string; attachmentCount: number }[];
+      const passed = list.find((m) => m.attachmentCount === 1 && m.subject.includes(unit.serial));
+      expect(passed, 'the built-and-passed mail').toBeTruthy();
+      const bytes = Buffer.from(await (await fetch(`${fake.httpUrl}/messages/${passed!.id}/attachments/0`)).arrayBuffer());
+      const file = await t.knex('files').where({ id: stored.file_id }).first('data');
+      expect(Buffer.compare(bytes, file.data)).toBe(0);
+    } finally {
+      await fake.close();
+    }
   });
 
   it('serves a PDF whose serial, option and every harmonic-table number equal the engine for its measured devices', async () => {
