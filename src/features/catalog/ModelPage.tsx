@@ -63,7 +63,7 @@ function Revisions({ model, canEdit }: { model: ModelDetail; canEdit: boolean })
   const { money, date } = useFormatters();
   const next = Math.max(...model.revisions.map((r) => r.number)) + 1;
   const columns = useMemo<ColumnDef<RevisionSummary, unknown>[]>(() => [
-    { accessorKey: 'number', header: 'Revision', cell: ({ row }) => <Link className="font-semibold underline" to={`/catalog/revisions/${row.original.id}`}>Revision {row.original.number}{row.original.label ? ` — ${row.original.label}` : ''}</Link> },
+    { accessorKey: 'number', header: 'Revision', cell: ({ row }) => <Link className="inline-flex min-h-11 items-center font-semibold underline" to={`/catalog/revisions/${row.original.id}`}>Revision {row.original.number}{row.original.label ? ` — ${row.original.label}` : ''}</Link> },
     { id: 'state', header: 'State', cell: ({ row }) => [row.original.active ? 'active' : null, row.original.frozenAt ? `frozen since ${date(row.original.frozenAt)}` : 'editable'].filter(Boolean).join(' · ') },
     { id: 'drive', header: 'Drive stage', cell: ({ row }) => `gain ${row.original.drive.minGain}× to ${row.original.drive.maxGain}×, ${row.original.drive.taper} taper, ${row.original.drive.supplyV} V` },
     { id: 'cost', header: 'Cost (parts + labour)', cell: ({ row }) => (row.original.cost ? money(row.original.cost.totalCents) : '—') },
@@ -94,7 +94,7 @@ export default function ModelPage() {
   const role = useSession().data?.role;
   const canEdit = role === 'owner' || role === 'planner';
   const columns = useMemo<ColumnDef<OptionView, unknown>[]>(() => [
-    { accessorKey: 'name', header: 'Option', cell: ({ row }) => <Link className="font-semibold underline" to={`/catalog/models/${id}/options/${row.original.id}`}>{row.original.name} ({row.original.code})</Link> },
+    { accessorKey: 'name', header: 'Option', cell: ({ row }) => <Link className="inline-flex min-h-11 items-center font-semibold underline" to={`/catalog/models/${id}/options/${row.original.id}`}>{row.original.name} ({row.original.code})</Link> },
     { accessorKey: 'topology', header: 'Topology' },
     { id: 'devices', header: 'Devices (positive / negative)', cell: ({ row }) => `${row.original.positive.map((d) => d.name).join(' + ') || 'none'} / ${row.original.negative.map((d) => d.name).join(' + ') || 'none'}` },
     { accessorKey: 'surchargeCents', header: 'Surcharge', cell: ({ row }) => money(row.original.surchargeCents) },

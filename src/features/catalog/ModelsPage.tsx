@@ -39,7 +39,7 @@ export default function ModelsPage() {
   const { money } = useFormatters();
   const role = useSession().data?.role;
   const columns = useMemo<ColumnDef<ModelListRow, unknown>[]>(() => [
-    { accessorKey: 'name', header: 'Model', cell: ({ row }) => <Link className="font-semibold underline" to={`/catalog/models/${row.original.id}`}>{row.original.name}</Link> },
+    { accessorKey: 'name', header: 'Model', cell: ({ row }) => <Link className="inline-flex min-h-11 items-center font-semibold underline" to={`/catalog/models/${row.original.id}`}>{row.original.name}</Link> },
     { accessorKey: 'sku', header: 'SKU' },
     { accessorKey: 'basePriceCents', header: 'Base price', cell: ({ row }) => money(row.original.basePriceCents) },
     { id: 'revision', header: 'Active revision', cell: ({ row }) => (row.original.activeRevision ? `${row.original.activeRevision.number} of ${row.original.revisionCount}${row.original.activeRevision.frozen ? ' (frozen)' : ''}` : 'none') },

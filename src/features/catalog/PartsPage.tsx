@@ -23,7 +23,7 @@ export default function PartsPage() {
   const role = useSession().data?.role;
   const canEdit = role === 'owner' || role === 'planner';
   const columns = useMemo<ColumnDef<PartRow, unknown>[]>(() => [
-    { id: 'partNumber', header: 'Part number', cell: ({ row }) => <Link className="font-semibold underline" to={`/catalog/parts/${row.original.id}`}>{row.original.partNumber}</Link> },
+    { id: 'partNumber', header: 'Part number', cell: ({ row }) => <Link className="inline-flex min-h-11 items-center font-semibold underline" to={`/catalog/parts/${row.original.id}`}>{row.original.partNumber}</Link> },
     { id: 'category', header: 'Category', accessorKey: 'category' },
     { id: 'value', header: 'Value', accessorKey: 'value' },
     { id: 'unitCostCents', header: 'Unit cost', cell: ({ row }) => money(row.original.unitCostCents) },

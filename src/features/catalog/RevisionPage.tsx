@@ -88,7 +88,7 @@ export default function RevisionPage() {
   const editable = canEdit && !!r && !r.frozen;
   const columns = useMemo<ColumnDef<BomLine, unknown>[]>(() => [
     { accessorKey: 'designators', header: 'Designators' },
-    { accessorKey: 'partNumber', header: 'Part number', cell: ({ row }) => <Link className="underline" to={`/catalog/parts/${row.original.partId}`}>{row.original.partNumber}</Link> },
+    { accessorKey: 'partNumber', header: 'Part number', cell: ({ row }) => <Link className="inline-flex min-h-11 items-center underline" to={`/catalog/parts/${row.original.partId}`}>{row.original.partNumber}</Link> },
     { accessorKey: 'value', header: 'Value' },
     { accessorKey: 'quantity', header: 'Qty' },
     { id: 'cost', header: 'Line cost', cell: ({ row }) => money(row.original.quantity * row.original.unitCostCents) },
