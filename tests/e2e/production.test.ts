@@ -133,6 +133,7 @@ describe('production in the browser', () => {
 
     // Tester: upload a capture whose THD matches the prediction, and pass it.
     const tester = await signIn(DEMO.tester, '/bench');
+    await tester.getByRole('heading', { name: 'Test bench' }).waitFor();
     expect(await tester.getByText(/test gear runs on mains power/).count()).toBe(1);
     await tester.getByRole('link', { name: unit.serial }).click();
     const predicted = built.predicted.thdPercent as number;
@@ -161,7 +162,11 @@ describe('production in the browser', () => {
     const customer = await signIn(DEMO.customer, '/shop');
     await customer.goto(`${server.url}/orders`);
     await customer.getByText(line.number).first().waitFor();
-    expect(await customer.getByText(/Shipped/).count()).toBeGreaterThan(0);
+    // On the order's card (heading and progress list together), the current step is now "Shipped".
+    const card = customer.locator('div, article, li, section')
+      .filter({ has: customer.getByRole('heading', { name: `Order ${line.number}` }) })
+      .filter({ has: customer.getByRole('list', { name: 'Order progress' }) }).last();
+    expect(await card.locator('[aria-current="step"]').textContent()).toBe('Shipped');
     await shot(customer, 'customer-orders');
     await sendDueMail(t.knex, createMailer(t.config), t.config);
     const inbox = (await (await fetch(`${mail.httpUrl}/messages?to=${encodeURIComponent(DEMO.customer)}`)).json()) as { subject: string }[];

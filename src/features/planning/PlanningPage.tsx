@@ -6,6 +6,7 @@ import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useFormatters } from '../../lib/format';
 import { useBatches, type BatchRow } from './api';
+import { AssemblersPanel } from './AssemblersPanel';
 import { NewBatchForm } from './NewBatchForm';
 
 export default function PlanningPage() {
@@ -23,6 +24,7 @@ export default function PlanningPage() {
       <PageHeader title="Batches" />
       <div className="grid gap-8">
         <NewBatchForm />
+        <AssemblersPanel />
         <section aria-labelledby="batches-heading">
           <h2 id="batches-heading" className="mb-3 text-xl font-bold text-spruce-900">All batches</h2>
           {batches.isPending ? <Loading /> : batches.isError ? <ErrorState error={batches.error} retry={() => batches.refetch()} />

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ApplyAssignmentsInput, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import type { ApplyAssignmentsInput, AssemblerProfileInput, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
 import type { BatchState, UnitState } from '../../../shared/production/states';
 import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
 import { api } from '../../lib/api';
@@ -52,4 +52,11 @@ export const useCancelBatch = (id: number) => useBatchMutation((reason: string) 
 export const useReserveStock = (id: number) => useBatchMutation(() => api.post<{ reserved: number; stillShort: number }>(`/api/batches/${id}/reserve`));
 export const useKitBatch = (id: number) => useBatchMutation(() => api.post<{ kitted: number; notKitted: number; firstProblem: string | null }>(`/api/batches/${id}/kit`));
 export const useProposePlan = (id: number) => useMutation({ mutationFn: (startDate?: string) => api.post<PlanProposal>(`/api/batches/${id}/plan-proposal`, startDate ? { startDate } : {}) });
+export function useUpdateAssembler() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, ...input }: AssemblerProfileInput & { id: number }) => api.put<{ assembler: PlanAssembler }>(`/api/assemblers/${id}`, input),
+    onSuccess: () => client.invalidateQueries({ queryKey: assemblersQuery().queryKey }),
+  });
+}
 export const useApplyAssignments = (id: number) => useBatchMutation((input: ApplyAssignmentsInput) => api.post<{ assigned: number; late: number[] }>(`/api/batches/${id}/assignments`, input));
