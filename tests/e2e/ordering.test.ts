@@ -135,6 +135,11 @@ describe('ordering in a browser', () => {
     expect(receipt).toBeDefined();
     const full = await (await fetch(`${mail.httpUrl}/messages/${receipt!.id}`)).json();
     expect(full.text).toContain(`${model.name} — ${second}`);
+    await page.getByRole('link', { name: 'My orders' }).first().click();
+    await page.waitForURL(/\/orders$/);
+    await page.getByRole('heading', { name: `Order ${number}`, level: 2 }).waitFor();
+    await page.getByRole('link', { name: `Details and receipt for ${number}` }).waitFor();
+    await shot(page, 'my-orders');
     await page.close();
 
     // Staff read it in the app's inbox.
@@ -159,6 +164,7 @@ describe('ordering in a browser', () => {
     await shot(page, 'visitor-shop');
     const model = await openModelPage(page);
     await page.getByRole('radio', { name: new RegExp(model.options[0].name) }).check();
+    await shot(page, 'visitor-model');
     await page.getByRole('button', { name: /^Add .* to cart$/ }).click();
     await page.getByRole('link', { name: 'Go to the cart' }).click();
     await page.getByText(/to order\. Your cart stays here\./).waitFor();

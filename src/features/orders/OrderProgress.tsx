@@ -13,7 +13,7 @@ export function OrderProgress({ state }: { state: OrderState }) {
       {PATH.map((s, i) => (
         <li key={s} aria-current={i === at ? 'step' : undefined}
           className={`rounded-full px-3 py-1 text-sm font-semibold ${i < at ? 'bg-spruce-700 text-white' : i === at ? 'bg-copper-600 text-white' : 'bg-spruce-100 text-ink-soft'}`}>
-          {i < at ? '✓ ' : ''}{ORDER_STATE_LABELS[s]}
+          {i < at ? '✓ ' : ''}{i < at && s === 'awaiting_payment' ? 'Ordered' : ORDER_STATE_LABELS[s]}
         </li>
       ))}
     </ol>
