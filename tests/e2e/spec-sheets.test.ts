@@ -81,7 +81,7 @@ describe('spec sheets in the browser', () => {
     const bar = page.getByRole('progressbar', { name: 'Spec sheets made' });
     await bar.waitFor();
     expect(await bar.getAttribute('aria-valuemax')).toBe('3');
-    await page.screenshot({ path: path.join(SCREENSHOTS, 'spec-sheets-batch-progress.png'), fullPage: true });
+    await page.getByRole('region', { name: 'Spec sheets' }).screenshot({ path: path.join(SCREENSHOTS, 'spec-sheets-batch-progress.png') });
     await page.reload();
     const archive = page.getByRole('link', { name: 'Download the archive (.zip)' });
     await archive.waitFor({ timeout: 30_000 });

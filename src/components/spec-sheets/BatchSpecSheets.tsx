@@ -39,7 +39,7 @@ export function BatchSpecSheets({ batchId, label }: { batchId: number; label: st
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h2 id={`sheets-${batchId}`} className="text-lg font-semibold text-spruce-900">Spec sheets</h2>
         <Button onClick={make} busy={start.isPending} disabled={working}>
-          {current ? 'Make all spec sheets again' : 'Make all spec sheets'}
+          {working ? 'Making spec sheets…' : current ? 'Make all spec sheets again' : 'Make all spec sheets'}
         </Button>
       </div>
       {!current ? <p className="text-ink-soft">One PDF per unit, in one archive. Passed units keep the sheet made now.</p> : null}
