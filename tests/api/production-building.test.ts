@@ -161,6 +161,28 @@ describe('building, testing and shipping a unit', () => {
     expect(history.map((h) => h.to_state)).toEqual(['waiting', 'building', 'built', 'rework', 'built', 'passed', 'shipped']);
   });
 
+  it('takes build photos from the unit’s own assembler only, images only, with a size limit', async () => {
+    const { units } = await releasedOrderBatch(1);
+    // The smallest valid PNG: 1×1 pixel (PNG specification, ISO/IEC 15948).
+    const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==', 'base64');
+    const ok = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).field('caption', 'board before boxing').attach('photo', png, { filename: 'board.png', contentType: 'image/png' }).expect(201);
+    const photo = await juno.get(`/api/units/${units[0].id}/photos/${ok.body.id}`).expect(200);
+    expect(photo.headers['content-type']).toBe('image/png');
+    const text = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.from('not an image'), { filename: 'notes.txt', contentType: 'text/plain' });
+    expect(text.status).toBe(400);
+    expect(text.body.error.fields.photo).toMatch(/JPEG, PNG or WebP/);
+    const disguised = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.from('plain text dressed up'), { filename: 'x.png', contentType: 'image/png' });
+    expect(disguised.status).toBe(400);
+    const none = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).send({});
+    expect(none.status).toBe(400);
+    const big = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.alloc(9 * 1024 * 1024, 7), { filename: 'huge.png', contentType: 'image/png' });
+    expect(big.status).toBe(413);
+    expect(big.body.error.message).toMatch(/photo is larger than 8 MB/);
+    const other = await priya.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', priya.csrf).attach('photo', png, { filename: 'board.png', contentType: 'image/png' });
+    expect(other.status).toBe(403);
+    expect((await juno.get(`/api/units/${units[0].id}`).expect(200)).body.photos).toHaveLength(1);
+  });
+
   it('analyses an uploaded WAV capture and refuses bad uploads with clear messages', async () => {
     const { c, batchId, units } = await releasedOrderBatch(1);
     await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
