@@ -192,3 +192,27 @@ describe('an expired payment page', () => {
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'paid on the second session');
   });
 });
+
+describe('a payment that arrives after cancelling', () => {
+  it('keeps the order cancelled and refunds the late payment once', async () => {
+    const { order } = await placeOrder(customer, pedal);
+    const sessionId = await checkout(order.id);
+    env.fake.setWebhookUrl(null); // the payment lands while the cancellation is under way
+    try {
+      await payWith(env.fake, sessionId, SUCCESS_CARD);
+      await env.t.knex('orders').where({ id: order.id }).update({ state: 'cancelled' });
+      const mine = (await fakeEvents(env.fake)).filter((e) => e.event.data.object.id === sessionId || (e.event.data.object.metadata as Record<string, string> | undefined)?.order_id === String(order.id));
+      for (const e of mine) {
+        const body = JSON.stringify(e.event);
+        expect((await post(body, signPayload(body, WEBHOOK_SECRET))).status).toBe(200);
+      }
+    } finally {
+      env.fake.setWebhookUrl(`${env.url}/api/payments/webhook`);
+    }
+    expect((await orderRow(order.id)).state).toBe('cancelled');
+    const intent = (await fakeEvents(env.fake, 'payment_intent.succeeded')).find((e) => (e.event.data.object.metadata as Record<string, string>).order_id === String(order.id));
+    const refunds = (await fakeEvents(env.fake, 'refund.created')).filter((e) => e.event.data.object.payment_intent === intent?.event.data.object.id);
+    expect(refunds).toHaveLength(1);
+    expect(await env.t.knex('order_events').where({ order_id: order.id, kind: 'refunded-after-cancel' })).toHaveLength(1);
+  });
+});

@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 import { invalid } from '../../errors';
 import { enqueueOrderMail } from '../mail/order-mail';
 import { transitionOrder } from '../orders/transitions';
-import type { PaymentsDeps } from './client';
+import { withProvider, type PaymentsDeps } from './client';
 
 // Signatures older than this are refused as replays (the provider's SDK default is the same 300 s).
 const TOLERANCE_SECONDS = 300;
@@ -46,7 +46,17 @@ export async function handlePaymentEvent(knex: Knex, deps: PaymentsDeps, event: 
           return 'processed';
         }
         if (!order.payment_intent_id && intentId) await trx('orders').where({ id: orderId }).update({ payment_intent_id: intentId });
-        if (order.state === 'cancelled') await note(trx, orderId, 'payment-after-cancel', 'A payment arrived for a cancelled order: refund it by hand from the provider');
+        const alreadyRefunded = intentId && (await trx('order_events').where({ order_id: orderId, kind: 'refunded-after-cancel' }).andWhereLike('message', `%${intentId}%`).first());
+        if (order.state === 'cancelled' && intentId && !alreadyRefunded) {
+          // Paid in another tab while the order was being cancelled: give the money back. If the
+          // provider refuses, the transaction (and this event's record) rolls back and its retry comes again.
+          const refund = await withProvider(() => deps.stripe.refunds.create(
+            { payment_intent: intentId, reason: 'requested_by_customer', metadata: { order_id: String(orderId) } },
+            { idempotencyKey: `refund-after-cancel-${orderId}-${intentId}` },
+          ));
+          await note(trx, orderId, 'refunded-after-cancel', `Payment ${intentId} arrived after the order was cancelled; refunded at once (${refund.id})`);
+          return 'processed';
+        }
         return 'ignored';
       }
       case 'payment_intent.payment_failed': {
