@@ -9,6 +9,8 @@ export interface LineSeries {
   fillToPrevious?: boolean;
   hidden?: boolean;
   colour?: string;
+  /** Draw the points as dashes (short series such as a tolerance bar). */
+  showPoints?: boolean;
 }
 
 interface Props {
@@ -36,7 +38,7 @@ export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMi
   const datasets = [...series, ...markerSeries].map((s, i) => {
     const colour = s.colour ?? SERIES_COLOURS[i % SERIES_COLOURS.length];
     return {
-      label: s.label, data: s.points, borderColor: colour, backgroundColor: `${colour}33`, borderWidth: 2, pointRadius: 0,
+      label: s.label, data: s.points, borderColor: colour, backgroundColor: `${colour}33`, borderWidth: s.showPoints ? 4 : 2, pointRadius: s.showPoints ? 8 : 0, pointStyle: s.showPoints ? ('line' as const) : undefined,
       borderDash: s.dashed ? [6, 4] : undefined, fill: s.fillToPrevious ? '-1' : false, hidden: s.hidden, showLine: true,
     };
   });

@@ -1,7 +1,12 @@
 import { LineChart, type LineSeries } from './LineChart';
 
 /** THD_F (%) against the drive control (%), log scale; marker at the slider's setting. */
-export function ThdDriveChart({ series, markerDrive, title = 'THD_F against drive' }: { series: { label: string; points: { drive: number; thdF: number }[] }[]; markerDrive?: number; title?: string }) {
+export function ThdDriveChart({ series, markerDrive, band, title = 'THD_F against drive' }: {
+  series: { label: string; points: { drive: number; thdF: number }[] }[]; markerDrive?: number; title?: string;
+  /** Tolerance band at one drive (P5–P95 of THD_F), drawn as a bar across the spread. */
+  band?: { drive: number; p5: number; p95: number };
+}) {
+  const bandSeries: LineSeries[] = band ? [{ label: 'P5–P95 tolerance', colour: '#a3212b', showPoints: true, points: [{ x: band.drive * 100, y: band.p5 * 100 }, { x: band.drive * 100, y: band.p95 * 100 }] }] : [];
   return (
     <LineChart
       title={title}
@@ -13,7 +18,7 @@ export function ThdDriveChart({ series, markerDrive, title = 'THD_F against driv
       yMin={0.001}
       markerX={markerDrive === undefined ? undefined : markerDrive * 100}
       formatY={(v) => (v >= 1 ? v.toFixed(0) : v >= 0.1 ? v.toFixed(1) : v >= 0.01 ? v.toFixed(2) : v.toFixed(3))}
-      series={series.map((s) => ({ label: s.label, points: s.points.map((p) => ({ x: p.drive * 100, y: Math.max(p.thdF * 100, 0.001) })) }))}
+      series={[...series.map((s) => ({ label: s.label, points: s.points.map((p) => ({ x: p.drive * 100, y: Math.max(p.thdF * 100, 0.001) })) })), ...bandSeries]}
     />
   );
 }

@@ -51,7 +51,7 @@ function Profile({ option }: { option: OptionView }) {
       <div className="grid gap-4 lg:grid-cols-2">
         <SpectrumBars title="Harmonics at three drive settings" series={profile.threeDrives.map((d) => ({ label: `${Math.round(d.drive * 100)} % drive`, dbc: d.spectrum.harmonics.slice(1).map((h) => h.dbc) }))} />
         <SpectrumBars title={`Harmonics at the slider (${Math.round(drive * 100)} %)`} series={at ? [{ label: `${Math.round(drive * 100)} % drive`, dbc: at.spectrum.harmonics.slice(1).map((h) => h.dbc) }] : []} />
-        <ThdDriveChart series={[{ label: option.name, points: p.sweep }]} markerDrive={drive} />
+        <ThdDriveChart series={[{ label: option.name, points: p.sweep }]} markerDrive={drive} band={p.tolerance ? { drive: p.tolerance.drive, p5: p.tolerance.thdF.p5, p95: p.tolerance.thdF.p95 } : undefined} />
         {at?.transfer ? <TransferChart title={`Transfer curve at ${Math.round(drive * 100)} % drive`} series={[{ label: option.name, inputV: at.transfer.inputV, outputV: at.transfer.outputV }]} />
           : <Notice>No static transfer curve: the network has a capacitor, so its output depends on what came before.</Notice>}
       </div>
