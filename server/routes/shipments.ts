@@ -3,7 +3,7 @@ import type { Config } from '../config';
 import { shipOrderSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
-import { markDelivered, moveToFinishedStock, packingSlip, shipOrder, shippingQueue } from '../services/production/shipping';
+import { fulfilFromStock, markDelivered, moveToFinishedStock, packingSlip, shipOrder, shippingQueue } from '../services/production/shipping';
 import { idParam, PLANNERS } from './batches';
 
 export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
@@ -19,6 +19,7 @@ export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): R
       },
     },
     { method: 'post', path: '/api/shipments/:id/delivered', allow: PLANNERS, handler: async (req, res) => res.json(await markDelivered(knex, currentUser(req), idParam(req.params.id))) },
+    { method: 'post', path: '/api/order-lines/:id/from-stock', allow: PLANNERS, handler: async (req, res) => res.json(await fulfilFromStock(knex, currentUser(req), idParam(req.params.id))) },
     { method: 'post', path: '/api/units/:id/finished-stock', allow: PLANNERS, handler: async (req, res) => res.json(await moveToFinishedStock(knex, currentUser(req), idParam(req.params.id))) },
   ];
 }

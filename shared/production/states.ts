@@ -39,7 +39,7 @@ export const UNIT_TRANSITIONS: Record<UnitState, readonly UnitState[]> = {
   built: ['passed', 'rework'],
   rework: ['built'],
   passed: ['shipped', 'in_stock'],
-  in_stock: ['shipped'],
+  in_stock: ['passed'], // taken from finished stock for an order, then shipped with it
   shipped: [],
   cancelled: [],
 };

@@ -100,6 +100,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/shipments/:id/packing-slip.pdf': CATALOG_EDITORS,
   'POST /api/shipments/:id/delivered': CATALOG_EDITORS,
   'POST /api/units/:id/finished-stock': CATALOG_EDITORS,
+  'POST /api/order-lines/:id/from-stock': CATALOG_EDITORS,
   'GET /api/board': CATALOG_EDITORS,
   // Spec sheets (issue 7): any signed-in user may ask for a unit's sheet; the service answers a
   // customer 404 for a unit not on their order (see spec-sheets-access.test.ts).

@@ -161,6 +161,32 @@ describe('building, testing and shipping a unit', () => {
     expect(history.map((h) => h.to_state)).toEqual(['waiting', 'building', 'built', 'rework', 'built', 'passed', 'shipped']);
   });
 
+  it('puts a passed stock build into finished stock and fulfils a later order of the same option from it', async () => {
+    const c = await makeCatalog(t.knex);
+    const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
+    await planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    await planner.post(`/api/batches/${body.id}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const [unit] = await t.knex('units').where({ batch_id: body.id });
+    const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
+    await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: junoId, date: '2027-01-05' }] }).expect(200);
+    await buildUnit(unit.id, c);
+    await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'stock unit, checked by ear').expect(201);
+    await planner.post(`/api/units/${unit.id}/finished-stock`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const order = await makePaidOrder(t.knex, c.modelId, c.options.asym, 1);
+    const bigger = await makePaidOrder(t.knex, c.modelId, c.options.asym, 2);
+    const short = await planner.post(`/api/order-lines/${bigger.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({});
+    expect(short.status).toBe(409);
+    expect(short.body.error.message).toMatch(/holds 1 of the 2/);
+    const queue = await planner.get('/api/shipping').expect(200);
+    expect(queue.body.fromStock.map((l: { orderLineId: number }) => l.orderLineId)).toContain(order.lineId);
+    const done = await planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    expect(done.body).toMatchObject({ orderState: 'ready', serials: [unit.serial] });
+    const again = await planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({});
+    expect(again.status).toBe(409);
+    await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW-STOCK-1' }).expect(201);
+    expect((await t.knex('units').where({ id: unit.id }).first()).state).toBe('shipped');
+  });
+
   it('takes build photos from the unit’s own assembler only, images only, with a size limit', async () => {
     const { units } = await releasedOrderBatch(1);
     // The smallest valid PNG: 1×1 pixel (PNG specification, ISO/IEC 15948).

@@ -25,7 +25,14 @@ export async function shippingQueue(db: Db) {
   const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
     .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name').orderBy('u.serial');
+  const stockByOption = new Map<number, number>();
+  for (const u of await db('units').where({ state: 'in_stock' }).whereNull('order_id').select('option_id')) stockByOption.set(u.option_id, (stockByOption.get(u.option_id) ?? 0) + 1);
+  const waiting = stockByOption.size
+    ? await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').where('o.state', 'paid').whereNull('l.batch_id').whereIn('l.option_id', [...stockByOption.keys()])
+        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id')
+    : [];
   return {
+    fromStock: waiting.filter((l) => (stockByOption.get(l.option_id) ?? 0) >= l.quantity).map((l) => ({ orderLineId: l.id, orderNumber: l.number, quantity: l.quantity, description: l.description })),
     orders: orders.map((o) => ({
       id: o.id, number: o.number, state: o.state, dueAt: o.due_at, customerName: o.customer_name, destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`,
       units: o.units, passed: o.passed, ordered: o.ordered, shipment: o.shipment_id ? { id: o.shipment_id, carrier: o.carrier, trackingNumber: o.tracking_number, shippedAt: o.shipped_at, packingSlipUrl: `/api/shipments/${o.shipment_id}/packing-slip.pdf` } : null,
@@ -85,6 +92,37 @@ export async function moveToFinishedStock(knex: Knex, user: SessionUser, unitId:
     await transitionUnit(trx, unit, 'in_stock', user.id, 'into finished stock');
     await closeBatchIfDone(trx, unit.batch_id);
     return { id: unitId, state: unit.state };
+  });
+}
+
+/**
+ * Fulfils a paid order line from finished stock: needs as many in-stock units of the same option
+ * as the line's quantity. The units join the order (passed again, ready to pack), the line counts
+ * as scheduled, and the order moves on once all its lines are covered: scheduled, then building
+ * and ready when every unit has passed.
+ */
+export async function fulfilFromStock(knex: Knex, user: SessionUser, orderLineId: number) {
+  return knex.transaction(async (trx) => {
+    const line = await trx('order_lines').where({ id: orderLineId }).forUpdate().first();
+    if (!line) throw notFound('No such order line');
+    const order = await trx('orders').where({ id: line.order_id }).forUpdate().first();
+    if (order.state !== 'paid' || line.batch_id) throw conflict(`Order ${order.number} is not paid and waiting: it cannot take stock`);
+    const units = await trx('units').where({ option_id: line.option_id, state: 'in_stock' }).whereNull('order_id').orderBy('serial').limit(line.quantity).forUpdate();
+    if (units.length < line.quantity) throw conflict(`Finished stock holds ${units.length} of the ${line.quantity} needed for this line`);
+    for (const u of units) {
+      await transitionUnit(trx, u, 'passed', user.id, `taken from finished stock for order ${order.number}`, { order_id: order.id });
+    }
+    await trx('order_lines').where({ id: line.id }).update({ batch_id: units[0].batch_id });
+    const open = await trx('order_lines').where({ order_id: order.id }).whereNull('batch_id').first();
+    if (!open) {
+      await transitionOrder(trx, order.id, 'scheduled', { userId: user.id, message: 'fulfilled from finished stock' });
+      if (await orderFullyPassed(trx, order.id)) {
+        await transitionOrder(trx, order.id, 'in_production', { userId: user.id, message: 'units taken from finished stock' });
+        await transitionOrder(trx, order.id, 'ready', { userId: user.id, message: 'every unit passed its bench test' });
+      }
+    }
+    const updated = await trx('orders').where({ id: order.id }).first('state');
+    return { orderState: updated.state as string, serials: units.map((u) => u.serial as string) };
   });
 }
 

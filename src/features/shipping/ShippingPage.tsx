@@ -7,13 +7,14 @@ import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useToast } from '../../components/ui/toast';
 import { useFormatters } from '../../lib/format';
-import { useMarkDelivered, useShipping, useToFinishedStock, type ShippingOrder } from './api';
+import { useFulfilFromStock, useMarkDelivered, useShipping, useToFinishedStock, type ShippingOrder } from './api';
 import { ShipForm } from './ShipForm';
 
 export default function ShippingPage() {
   const queue = useShipping();
   const delivered = useMarkDelivered();
   const toStock = useToFinishedStock();
+  const fromStock = useFulfilFromStock();
   const toast = useToast();
   const fmt = useFormatters();
   const columns = useMemo<ColumnDef<ShippingOrder, unknown>[]>(() => [
@@ -55,6 +56,18 @@ export default function ShippingPage() {
                 </li>))}</ul>
             ) : <p className="text-ink-soft">No passed stock builds.</p>}
           </section>
+          {queue.data.fromStock.length ? (
+            <section aria-labelledby="from-stock-heading">
+              <h2 id="from-stock-heading" className="mb-2 text-xl font-bold text-spruce-900">Paid orders finished stock can fulfil</h2>
+              <ul className="grid gap-2">{queue.data.fromStock.map((l) => (
+                <li key={l.orderLineId} className="flex flex-wrap items-center gap-3">Order {l.orderNumber}: {l.quantity} × {l.description}
+                  <Button variant="secondary" busy={fromStock.isPending} onClick={() => fromStock.mutate(l.orderLineId, {
+                    onSuccess: (r) => toast(`Order ${l.orderNumber} takes ${r.serials.join(', ')} from finished stock${r.orderState === 'ready' ? ': ready to ship' : ''}`),
+                    onError: (e) => toast(e.message, 'alarm'),
+                  })}>Fulfil {l.orderNumber} from stock</Button>
+                </li>))}</ul>
+            </section>
+          ) : null}
         </div>
       )}
     </>

@@ -7,7 +7,7 @@ export interface ShippingOrder {
   id: number; number: string; state: OrderState; dueAt: string | null; customerName: string; destination: string; units: number; passed: number; ordered: number;
   shipment: { id: number; carrier: string; trackingNumber: string; shippedAt: string; packingSlipUrl: string } | null;
 }
-export interface ShippingQueue { orders: ShippingOrder[]; finishedStock: { id: number; serial: string; state: string; modelName: string; optionName: string }[] }
+export interface ShippingQueue { fromStock: { orderLineId: number; orderNumber: string; quantity: number; description: string }[]; orders: ShippingOrder[]; finishedStock: { id: number; serial: string; state: string; modelName: string; optionName: string }[] }
 
 const keys = { all: ['shipping'] as const, queue: () => ['shipping', 'queue'] as const };
 export const shippingQuery = () => queryOptions({ queryKey: keys.queue(), queryFn: () => api.get<ShippingQueue>('/api/shipping') });
@@ -19,4 +19,5 @@ function useShippingMutation<I, O>(fn: (input: I) => Promise<O>) {
 }
 export const useShipOrder = () => useShippingMutation((input: ShipOrderInput) => api.post<{ id: number; packingSlipUrl: string }>('/api/shipments', input));
 export const useMarkDelivered = () => useShippingMutation((shipmentId: number) => api.post(`/api/shipments/${shipmentId}/delivered`));
+export const useFulfilFromStock = () => useShippingMutation((orderLineId: number) => api.post<{ orderState: string; serials: string[] }>(`/api/order-lines/${orderLineId}/from-stock`));
 export const useToFinishedStock = () => useShippingMutation((unitId: number) => api.post(`/api/units/${unitId}/finished-stock`));
