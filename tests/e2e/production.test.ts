@@ -70,6 +70,7 @@ describe('production in the browser', () => {
     const revision = await t.knex('model_revisions').where({ id: line.active_revision_id }).first();
     await planner.getByLabel('Model revision').selectOption(String(revision.id));
     await planner.getByRole('checkbox', { name: new RegExp(line.number) }).check();
+    await shot(planner, 'new-batch');
     await planner.getByRole('button', { name: 'Plan batch' }).click();
     await planner.waitForURL(/\/planning\/\d+$/);
     await planner.getByRole('heading', { name: 'Parts against stock' }).waitFor();
@@ -100,6 +101,8 @@ describe('production in the browser', () => {
     // Assembler at tablet width: work the checklist, record Vf, lots, mark built.
     const juno = await signIn(DEMO.assembler, '/builds');
     await juno.setViewportSize({ width: 1024, height: 1300 });
+    await juno.getByRole('link', { name: unit.serial }).waitFor();
+    await shot(juno, 'my-builds');
     await juno.getByRole('link', { name: unit.serial }).click();
     await juno.getByRole('heading', { name: 'Checklist' }).waitFor();
     expect(await juno.getByText(/Soldering: hot iron/).count()).toBeGreaterThan(0);
