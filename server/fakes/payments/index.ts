@@ -62,7 +62,8 @@ export interface PaymentsFake {
   close(): Promise<void>;
 }
 
-export const DEFAULT_WEBHOOK_SECRET = 'whsec_kneepoint_dev';
+// The same default as the app's PAYMENTS_WEBHOOK_SECRET, so the two agree when run on their own.
+export const DEFAULT_WEBHOOK_SECRET = 'whsec_kneepoint_local';
 const DEFAULT_RETRIES = [500, 1_000, 2_000, 4_000];
 
 export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise<PaymentsFake> {

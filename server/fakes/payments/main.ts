@@ -1,6 +1,6 @@
 // Run the payments fake on its own:
 //   PAYMENTS_FAKE_PORT=3101 WEBHOOK_URL=http://127.0.0.1:3000/api/payments/webhook \
-//   WEBHOOK_SECRET=whsec_kneepoint_dev tsx server/fakes/payments/main.ts
+//   WEBHOOK_SECRET=whsec_kneepoint_local tsx server/fakes/payments/main.ts
 // PAYMENTS_FAKE_PORT wins over PORT, so a PORT meant for the app and inherited
 // by a child process does not make the fake take the app's port.
 import { DEFAULT_WEBHOOK_SECRET, startPaymentsFake } from './index.js';
