@@ -2,9 +2,10 @@ import type { ColumnDef } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
 import { UNIT_STATE_LABELS } from '../../../shared/production/states';
 import { Button } from '../../components/ui/Button';
+import { ConfirmButton } from '../../components/ui/ConfirmButton';
 import { DataTable } from '../../components/ui/DataTable';
 import { useToast } from '../../components/ui/toast';
-import { useApplyAssignments, useAssemblers, useProposePlan, type BatchDetail, type BatchUnit, type PlanProposal } from './api';
+import { useApplyAssignments, useAssemblers, useCancelUnit, useProposePlan, type BatchDetail, type BatchUnit, type PlanProposal } from './api';
 import { PlanEditor } from './PlanEditor';
 
 /** Assign builds by hand (select several units, one assembler and day) or from a proposed plan. */
@@ -12,6 +13,7 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
   const assemblers = useAssemblers();
   const apply = useApplyAssignments(detail.batch.id);
   const propose = useProposePlan(detail.batch.id);
+  const cancelUnit = useCancelUnit();
   const toast = useToast();
   const [selected, setSelected] = useState<Set<number>>(new Set());
   const [assemblerId, setAssemblerId] = useState('');
@@ -33,7 +35,14 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
     { accessorKey: 'assemblerName', header: 'Builder', cell: ({ row }) => row.original.assemblerName ?? '—' },
     { accessorKey: 'plannedDate', header: 'Planned day', cell: ({ row }) => row.original.plannedDate ?? '—' },
     { accessorKey: 'state', header: 'State', cell: ({ row }) => `${UNIT_STATE_LABELS[row.original.state]}${row.original.kitted ? '' : ' · not kitted'}` },
-  ], [selected]);
+    {
+      id: 'cancel', enableSorting: false, header: () => <span className="sr-only">Cancel</span>,
+      cell: ({ row }) => (['waiting', 'building'].includes(row.original.state) ? (
+        <ConfirmButton variant="secondary" label="Cancel unit" question={`Cancel ${row.original.serial}? Its serial is never reused; parts held for it go back to stock if it was not kitted.`} confirmLabel="Cancel the unit"
+          onConfirm={() => cancelUnit.mutate({ unitId: row.original.id, reason: 'cancelled by the planner' }, { onSuccess: () => toast(`${row.original.serial} cancelled`), onError: (e) => toast(e.message, 'alarm') })} />
+      ) : null),
+    },
+  ], [selected, cancelUnit, toast]);
 
   return (
     <section aria-labelledby="assign-heading" className="grid gap-4 rounded-lg bg-white p-6 shadow-sm">

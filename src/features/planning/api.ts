@@ -59,4 +59,5 @@ export function useUpdateAssembler() {
     onSuccess: () => client.invalidateQueries({ queryKey: assemblersQuery().queryKey }),
   });
 }
+export const useCancelUnit = () => useBatchMutation(({ unitId, reason }: { unitId: number; reason: string }) => api.post(`/api/units/${unitId}/cancel`, { reason }));
 export const useApplyAssignments = (id: number) => useBatchMutation((input: ApplyAssignmentsInput) => api.post<{ assigned: number; late: number[] }>(`/api/batches/${id}/assignments`, input));
