@@ -23,7 +23,7 @@ export const UNIT_STATES = ['waiting', 'building', 'built', 'rework', 'passed', 
 export type UnitState = (typeof UNIT_STATES)[number];
 
 export const UNIT_STATE_LABELS: Record<UnitState, string> = {
-  waiting: 'Waiting for its builder',
+  waiting: 'Waiting to be built',
   building: 'On the bench',
   built: 'Built, awaiting test',
   rework: 'Back for rework',

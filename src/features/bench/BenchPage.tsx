@@ -11,7 +11,7 @@ export default function BenchPage() {
   const queue = useBenchQueue();
   const fmt = useFormatters();
   const columns = useMemo<ColumnDef<BenchRow, unknown>[]>(() => [
-    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Link to={`/bench/${row.original.id}`} className="inline-flex min-h-11 items-center font-mono font-semibold text-spruce-800 underline">{row.original.serial}</Link> },
+    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Link to={`/bench/${row.original.id}`} className="inline-flex min-h-11 items-center whitespace-nowrap font-mono font-semibold text-spruce-800 underline">{row.original.serial}</Link> },
     { accessorKey: 'modelName', header: 'Pedal', cell: ({ row }) => `${row.original.modelName} — ${row.original.optionName}` },
     { accessorKey: 'assemblerName', header: 'Built by', cell: ({ row }) => row.original.assemblerName ?? '—' },
     { accessorKey: 'builtAt', header: 'Built', cell: ({ row }) => fmt.dateTime(row.original.builtAt) },

@@ -12,7 +12,7 @@ export default function BuildsPage() {
   const builds = useMyBuilds();
   const { data: user } = useSession();
   const columns = useMemo<ColumnDef<BuildRow, unknown>[]>(() => [
-    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Link to={`/builds/${row.original.id}`} className="inline-flex min-h-11 items-center font-mono font-semibold text-spruce-800 underline">{row.original.serial}</Link> },
+    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Link to={`/builds/${row.original.id}`} className="inline-flex min-h-11 items-center whitespace-nowrap font-mono font-semibold text-spruce-800 underline">{row.original.serial}</Link> },
     { accessorKey: 'modelName', header: 'Pedal', cell: ({ row }) => `${row.original.modelName} — ${row.original.optionName}` },
     { accessorKey: 'plannedDate', header: 'Planned day', cell: ({ row }) => row.original.plannedDate ?? '—' },
     { accessorKey: 'stepsDone', header: 'Steps', cell: ({ row }) => `${row.original.stepsDone} of ${row.original.steps}` },
