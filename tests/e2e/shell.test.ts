@@ -36,6 +36,8 @@ describe('the app shell in a browser', () => {
       await page.getByLabel('Password').fill(DEMO_PASSWORD);
       await page.getByRole('button', { name: 'Sign in' }).click();
       await page.waitForURL(`**${EXPECTED_NAV[role].home}`);
+      // The start page is lazy: the shell shows once its code has loaded.
+      await page.getByRole('navigation', { name: 'Main' }).getByRole('link').first().waitFor();
       const links = await page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents();
       expect(links).toEqual(EXPECTED_NAV[role].nav);
       await page.screenshot({ path: path.join(SCREENSHOTS, `shell-${role}.png`) });
