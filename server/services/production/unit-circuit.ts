@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
-import { computeProfile, forwardVoltage, perUnitCircuit, railPeakFromSupply, type CircuitSpec, type DeviceModel } from '../../../shared/engine';
+import { optionCircuit } from '../../../shared/catalog/circuit';
+import { computeProfile, forwardVoltage, perUnitCircuit, type CircuitSpec, type DeviceModel } from '../../../shared/engine';
 import { EngineInputError } from '../../../shared/engine/errors';
 import { invalid } from '../../errors';
 
@@ -16,26 +17,19 @@ export async function optionDevices(db: Db, optionId: number) {
   }));
 }
 
-/** The engine's circuit for a revision's drive stage with an option's network (audio taper = log). */
+/** The engine's circuit for a revision's drive stage with an option's devices, through the catalog's one mapping (shared/catalog/circuit.ts). */
 export async function circuitFor(db: Db, revisionId: number, optionId: number): Promise<{ spec: CircuitSpec; devices: Awaited<ReturnType<typeof optionDevices>> }> {
   const revision = await db('model_revisions').where({ id: revisionId }).first();
   const option = await db('clipping_options').where({ id: optionId }).first();
   const devices = await optionDevices(db, optionId);
   const network = typeof option.network === 'string' ? JSON.parse(option.network) : option.network;
+  const string = (side: 'positive' | 'negative') => devices.filter((d) => d.side === side).map((d) => ({ is: d.model.is, n: d.model.n, rs: d.model.rs ?? 0, eg: d.model.eg, xti: d.model.xti }));
   return {
     devices,
-    spec: {
-      clipper: {
-        ...network, topology: option.topology,
-        positive: devices.filter((d) => d.side === 'positive').map((d) => d.model),
-        negative: devices.filter((d) => d.side === 'negative').map((d) => d.model),
-      },
-      drive: {
-        minGain: revision.drive_min_gain, maxGain: revision.drive_max_gain, taper: revision.drive_taper === 'linear' ? 'linear' : 'log',
-        inputPeakV: revision.input_peak_v, railPeakV: railPeakFromSupply(revision.supply_v),
-      },
-      referenceDrive: revision.reference_drive,
-    },
+    spec: optionCircuit(
+      { minGain: revision.drive_min_gain, maxGain: revision.drive_max_gain, taper: revision.drive_taper === 'linear' ? 'linear' : 'audio', inputPeakV: revision.input_peak_v, supplyV: revision.supply_v, referenceDrive: revision.reference_drive },
+      { topology: option.topology, network, positive: string('positive'), negative: string('negative') },
+    ),
   };
 }
 
