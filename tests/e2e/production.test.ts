@@ -171,7 +171,8 @@ describe('production in the browser', () => {
       .filter({ has: customer.getByRole('list', { name: 'Order progress' }) }).last();
     expect(await card.locator('[aria-current="step"]').textContent()).toBe('Shipped');
     await shot(customer, 'customer-orders');
-    await sendDueMail(t.knex, createMailer(t.config), t.config);
+    // Earlier test files leave mail queued in the shared outbox: send everything due (bounded), not one round.
+    await sendDueMail(t.knex, createMailer(t.config), t.config, 500);
     const inbox = (await (await fetch(`${mail.httpUrl}/messages?to=${encodeURIComponent(DEMO.customer)}`)).json()) as { subject: string }[];
     expect(inbox.map((m) => m.subject)).toContain(`Order ${line.number} is on its way`);
   }, 240_000);
