@@ -1,6 +1,10 @@
+import { SOLDERING_CAUTION } from '../../../shared/catalog/cautions';
 import { Button } from '../../components/ui/Button';
 import { useToast } from '../../components/ui/toast';
 import { useStep, type UnitDetail } from './api';
+
+/** What a step's safety note says beyond the standard soldering caution (shown once, above it). */
+const extraNote = (note: string | null) => (note ?? '').replace(SOLDERING_CAUTION, '').trim();
 
 /** The revision's build steps, in order, each with start and finish and its safety note. */
 export function Checklist({ unitId, steps, open }: { unitId: number; steps: UnitDetail['steps']; open: boolean }) {
@@ -15,11 +19,9 @@ export function Checklist({ unitId, steps, open }: { unitId: number; steps: Unit
               <h3 className="text-lg font-bold">{s.position}. {s.title}</h3>
               <p className="mt-1">{s.instructions}</p>
               {s.soldering ? (
-                <p className="mt-2 rounded-md border border-amber-400 bg-amber-400/15 p-2 text-sm font-semibold">
-                  Soldering: hot iron and flux fumes, often leaded solder. Work under the fume extractor, wash your hands after, keep food and drink off the bench.
-                </p>
+                <p className="mt-2 rounded-md border border-amber-400 bg-amber-400/15 p-2 text-sm font-semibold">{SOLDERING_CAUTION}</p>
               ) : null}
-              {s.safetyNote ? <p className="mt-2 text-sm font-semibold text-alarm-700">{s.safetyNote}</p> : null}
+              {extraNote(s.safetyNote) ? <p className="mt-2 text-sm font-semibold text-alarm-700">{extraNote(s.safetyNote)}</p> : null}
               <p className="mt-2 text-sm text-ink-soft">Standard {s.standardMinutes} min{s.actualMinutes !== null ? ` · took ${s.actualMinutes.toFixed(1)} min` : ''} · skill: {s.skill}</p>
             </div>
             {open ? (
