@@ -50,3 +50,24 @@ export const markDeliveredSchema = z.object({
   message: z.string().trim().max(300).default(''),
 });
 export type MarkDeliveredInput = z.infer<typeof markDeliveredSchema>;
+
+/** A priced cart, as the server computes it (the client only displays it). */
+export interface PricedLine {
+  modelId: number;
+  optionId: number;
+  quantity: number;
+  unitPriceCents: number;
+  lineTotalCents: number;
+  description: string;
+}
+
+export interface Quote {
+  currency: string;
+  lines: PricedLine[];
+  subtotalCents: number;
+  shippingCents: number;
+  taxCents: number;
+  totalCents: number;
+  pricesIncludeTax: boolean;
+  taxRateBasisPoints: number;
+}

@@ -1,27 +1,9 @@
 import type { Knex } from 'knex';
-import type { QuoteInput } from '../../../shared/schemas/orders';
+import type { PricedLine, Quote, QuoteInput } from '../../../shared/schemas/orders';
+
+export type { PricedLine, Quote };
 import { invalid } from '../../errors';
 import { getSettings } from '../settings';
-
-export interface PricedLine {
-  modelId: number;
-  optionId: number;
-  quantity: number;
-  unitPriceCents: number;
-  lineTotalCents: number;
-  description: string;
-}
-
-export interface Quote {
-  currency: string;
-  lines: PricedLine[];
-  subtotalCents: number;
-  shippingCents: number;
-  taxCents: number;
-  totalCents: number;
-  pricesIncludeTax: boolean;
-  taxRateBasisPoints: number;
-}
 
 /**
  * Prices a cart from the catalog and the settings row only: whatever amounts a client sends are

@@ -1,6 +1,8 @@
 import { queryOptions, useMutation, useQuery } from '@tanstack/react-query';
 import type { CircuitSpec } from '../../../shared/engine';
-import type { PlaceOrderInput, QuoteInput } from '../../../shared/schemas/orders';
+import type { PlaceOrderInput, Quote, QuoteInput } from '../../../shared/schemas/orders';
+
+export type { Quote };
 import { api } from '../../lib/api';
 
 // The storefront reads the catalog's public API (GET /api/models, /api/models/:id) and asks the
@@ -32,17 +34,6 @@ export interface ShopOption extends ShopOptionSummary {
 export interface ShopModel extends Omit<ShopModelSummary, 'options'> {
   activeRevision: { id: number; number: number; drive: { referenceDrive: number } } | null;
   options: ShopOption[];
-}
-
-export interface Quote {
-  currency: string;
-  lines: { modelId: number; optionId: number; quantity: number; unitPriceCents: number; lineTotalCents: number; description: string }[];
-  subtotalCents: number;
-  shippingCents: number;
-  taxCents: number;
-  totalCents: number;
-  pricesIncludeTax: boolean;
-  taxRateBasisPoints: number;
 }
 
 export const shopKeys = {
