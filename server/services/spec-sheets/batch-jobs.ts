@@ -7,24 +7,14 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import { batchLabel } from '../../../shared/production/serials';
 import { conflict, notFound } from '../../errors';
+import type { SheetJobView } from '../../../shared/schemas/spec-sheets';
 import { defaultPublicUrl } from './assemble';
 import { renderUnitSheet, storeSheetForPassedUnit, storesSheet } from './sheets';
 
 /** A running job whose heartbeat is older than this is taken over by another worker. */
 export const STALE_AFTER_SECONDS = 120;
 
-export interface SheetJobView {
-  id: number;
-  batchId: number;
-  state: 'queued' | 'running' | 'finished' | 'failed';
-  total: number;
-  done: number;
-  failures: { serial: string; reason: string }[];
-  archiveReady: boolean;
-  error: string | null;
-  createdAt: string;
-  finishedAt: string | null;
-}
+export type { SheetJobView };
 
 interface SheetJobRow {
   id: number; batch_id: number; state: SheetJobView['state']; total: number; done: number; failures: Record<string, string> | null;

@@ -1,19 +1,10 @@
 // Spec sheet data for any page: a batch's sheet job (latest, polled while it runs) and starting one.
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { SheetJobView } from '../../../shared/schemas/spec-sheets';
 import { api } from '../../lib/api';
 
-export interface SheetJob {
-  id: number;
-  batchId: number;
-  state: 'queued' | 'running' | 'finished' | 'failed';
-  total: number;
-  done: number;
-  failures: { serial: string; reason: string }[];
-  archiveReady: boolean;
-  error: string | null;
-  createdAt: string;
-  finishedAt: string | null;
-}
+/** The job as the API reports it; the type lives in shared/ with the server's. */
+export type SheetJob = SheetJobView;
 
 export const sheetPdfUrl = (serial: string) => `/api/units/${encodeURIComponent(serial)}/spec-sheet.pdf`;
 export const archiveUrl = (jobId: number) => `/api/spec-sheet-jobs/${jobId}/archive.zip`;
