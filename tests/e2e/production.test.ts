@@ -7,6 +7,7 @@ import type { Browser, Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { getBatch } from '../../server/services/production/planning';
+import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
 
@@ -105,7 +106,9 @@ describe('production in the browser', () => {
     await shot(juno, 'my-builds');
     await juno.getByRole('link', { name: unit.serial }).click();
     await juno.getByRole('heading', { name: 'Checklist' }).waitFor();
-    expect(await juno.getByText(/Soldering: hot iron/).count()).toBeGreaterThan(0);
+    // Every soldering step shows the caution, once.
+    const solderingSteps = await t.knex('build_steps').where({ revision_id: revision.id, soldering: true }).count<{ count: number }[]>('* as count');
+    expect(await juno.getByText(SOLDERING_CAUTION, { exact: true }).count()).toBe(Number(solderingSteps[0].count));
     const steps = await t.knex('build_steps').where({ revision_id: revision.id }).orderBy('position');
     for (const s of steps) {
       await juno.getByRole('button', { name: `Start step ${s.position}`, exact: true }).click();
