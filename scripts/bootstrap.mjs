@@ -261,6 +261,16 @@ function serve(devServer) {
   for (const child of children) child.on('exit', (code) => stop(code ?? 1));
 }
 
+// vitest's JSON report, read back for one plain closing line that any CI can count.
+const RESULTS = path.join(DATA, `vitest-results-${process.pid}.json`);
+function printTestCounts() {
+  if (!existsSync(RESULTS)) return;
+  const report = JSON.parse(readFileSync(RESULTS, 'utf8'));
+  rmSync(RESULTS, { force: true });
+  const skipped = (report.numPendingTests ?? 0) + (report.numTodoTests ?? 0);
+  process.stdout.write(`tests: ${report.numPassedTests} passed, ${report.numFailedTests} failed, ${skipped} skipped\n`);
+}
+
 function test() {
   const database = process.env.KP_TEST_DB ?? 'kneepoint_test';
   if (!/^[a-z_][a-z0-9_]*$/.test(database)) fail('KP_TEST_DB must be a plain lower-case identifier.');
@@ -277,7 +287,7 @@ function test() {
     ['lint', path.join(bins, 'eslint'), ['.']],
     ['typecheck', path.join(bins, 'tsc'), ['-p', 'tsconfig.json', '--noEmit']],
     ['client build', path.join(bins, 'vite'), ['build', '--logLevel', 'warn']],
-    ['tests', path.join(bins, 'vitest'), ['run', ...process.argv.slice(3)]],
+    ['tests', path.join(bins, 'vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${RESULTS}`, ...process.argv.slice(3)]],
   ];
   // KP_QUICK=1 skips lint, typecheck and build for a fast loop while developing (never in CI).
   const chosen = process.env.KP_QUICK === '1' && !process.env.CI ? steps.slice(3) : steps;
@@ -290,6 +300,7 @@ function test() {
       break;
     }
   }
+  printTestCounts();
   rmSync(marker, { force: true });
   // Several test runs (or npm start) may share the cluster: the last one out stops it.
   if (!otherUsersOfCluster()) stopPostgres(bin);
