@@ -113,6 +113,16 @@ describe('ordering in a browser', () => {
     const second = model.options[1].name;
     await page.getByRole('radio', { name: new RegExp(first) }).check();
     await page.getByRole('radio', { name: new RegExp(second) }).check();
+    // The listening preview: play, switch A/B, and the page's level meter shows sound came out.
+    const preview = page.getByRole('region', { name: 'Listen before you choose' });
+    await preview.getByRole('button', { name: 'Play' }).click();
+    await preview.getByRole('button', { name: 'Stop' }).waitFor();
+    await page.waitForTimeout(700);
+    await preview.getByRole('radio', { name: 'Hear B' }).click();
+    await page.waitForTimeout(500);
+    const peakSeen = Number(await preview.locator('#listen-level').getAttribute('data-peak-seen'));
+    expect(peakSeen).toBeGreaterThan(0.005);
+    await preview.getByRole('button', { name: 'Stop' }).click();
     await shot(page, 'model');
     await page.getByRole('button', { name: `Add ${model.name} with ${second} to cart` }).click();
     await page.getByText(`Added 1 × ${model.name} with ${second} to your cart`).waitFor();
