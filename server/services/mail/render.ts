@@ -8,6 +8,7 @@ import { fileURLToPath } from 'node:url';
 //   {{date path}}              an ISO date/time as a date in the shop's time zone
 //   {{#each path}}…{{/each}}   repeat for each item; inside, paths are the item's fields
 //   {{#if path}}…{{else}}…{{/if}}
+//   {{> name}}                 the partial templates/mail/_name.html (or .txt), e.g. the order's lines
 // Unknown paths render empty, so a missing optional field never breaks a mail.
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..', '..', 'templates', 'mail');
@@ -64,6 +65,12 @@ function load(file: string): string {
   return cache.get(file) as string;
 }
 
+/** Loads a template with its {{> name}} partials put in place (partials do not nest). */
+function loadWithPartials(file: string): string {
+  const ext = path.extname(file);
+  return load(file).replace(/\{\{> ([\w-]+)\}\}/g, (_all, name: string) => load(`_${name}${ext}`).replace(/^<!--[\s\S]*?-->\s*/, '').replace(/\n$/, ''));
+}
+
 export const TEMPLATES = ['welcome', 'order-received', 'payment-failed', 'order-scheduled', 'unit-passed', 'order-shipped', 'order-refunded'] as const;
 
 /**
@@ -73,10 +80,10 @@ export const TEMPLATES = ['welcome', 'order-received', 'payment-failed', 'order-
 export function renderMail(name: string, data: Scope, ctx: RenderContext) {
   if (!(TEMPLATES as readonly string[]).includes(name)) throw new Error(`Unknown mail template "${name}"`);
   const scope = { ...data, shopName: ctx.shopName, shopAddress: ctx.shopAddress };
-  const [subjectLine, ...textLines] = load(`${name}.txt`).split('\n');
+  const [subjectLine, ...textLines] = loadWithPartials(`${name}.txt`).split('\n');
   const subject = renderString(subjectLine.replace(/^Subject:\s*/, ''), scope, ctx, false);
   const textBody = renderString(textLines.join('\n').trim(), scope, ctx, false);
-  const htmlBody = renderString(load(`${name}.html`).replace(/^<!--[\s\S]*?-->\s*/, ''), scope, ctx, true);
+  const htmlBody = renderString(loadWithPartials(`${name}.html`).replace(/^<!--[\s\S]*?-->\s*/, ''), scope, ctx, true);
   const text = renderString(load('layout.txt'), { ...scope, body: textBody }, ctx, false);
   const html = renderString(load('layout.html'), { ...scope, subject }, ctx, true).replace('<!-- body -->', htmlBody);
   return { subject, text, html };
