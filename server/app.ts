@@ -10,7 +10,8 @@ import type { Config } from './config';
 import { csrfProtection } from './auth/csrf';
 import { PostgresRateLimitStore } from './auth/rate-limit-store';
 import { createPassport, sessionMiddleware } from './auth/session';
-import { DomainError, errorMiddleware } from './errors';
+import { DomainError, errorMiddleware, requestId } from './errors';
+import { refuseNul } from './http/input-guard';
 import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-table';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
@@ -55,9 +56,11 @@ export function createApp({ knex, config }: AppDeps) {
 
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(requestId);
   app.use(helmet());
   // Webhooks are verified against the exact bytes received, so keep them.
   app.use(express.json({ limit: '1mb', verify: (req, _res, buf) => { req.rawBody = buf; } }));
+  app.use(refuseNul);
   app.use(sessionMiddleware(sessionPool, config));
   const passport = createPassport(knex);
   app.use(passport.initialize());

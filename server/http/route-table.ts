@@ -1,6 +1,7 @@
 import { Router, type Request, type RequestHandler, type Response } from 'express';
-import type { Role, SessionUser } from '../../shared/roles';
+import { STAFF, type Role, type SessionUser } from '../../shared/roles';
 import { forbidden, unauthorized } from '../errors';
+import { refuseNulInParsed } from './input-guard';
 
 /** Who may call a route: anyone, any signed-in user, or the listed roles. */
 export type Allow = 'public' | 'signed-in' | readonly Role[];
@@ -26,6 +27,12 @@ export function currentUser(req: Request): SessionUser {
   return user;
 }
 
+/** Staff see unpublished models, costs and stock; everyone else (anonymous, customers) the public view. */
+export function isStaffRequest(req: Request): boolean {
+  const user = req.user as SessionUser | undefined;
+  return !!user && STAFF.includes(user.role);
+}
+
 function guard(allow: Allow, req: Request) {
   if (allow === 'public') return;
   const user = req.user as SessionUser | undefined;
@@ -43,7 +50,7 @@ export function buildRouter(routes: RouteDef[], registry: RouteRegistry): Router
       guard(route.allow, req);
       next();
     };
-    router[route.method](route.path, check, ...(route.before ?? []), async (req, res) => {
+    router[route.method](route.path, check, ...(route.before ?? []), refuseNulInParsed, async (req, res) => {
       await route.handler(req, res);
     });
   }

@@ -1,8 +1,8 @@
 import type { Knex } from 'knex';
 import type { RouteDef } from '../http/route-table';
 import { productionBoard } from '../services/production/board';
-import { PLANNERS } from './batches';
+import { PLANNING } from '../../shared/roles';
 
 export function boardRoutes(knex: Knex): RouteDef[] {
-  return [{ method: 'get', path: '/api/board', allow: PLANNERS, handler: async (_req, res) => res.json(await productionBoard(knex)) }];
+  return [{ method: 'get', path: '/api/board', allow: PLANNING, handler: async (_req, res) => res.json(await productionBoard(knex)) }];
 }

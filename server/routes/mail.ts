@@ -3,19 +3,20 @@ import { notFound } from '../errors';
 import type { RouteDef } from '../http/route-table';
 import * as inbox from '../services/mail/inbox';
 
+import { PLANNING } from '../../shared/roles';
+
 // The staff inbox: owner and planner read what Kneepoint sent (the mail fake's messages locally).
-const INBOX_READERS = ['owner', 'planner'] as const;
 
 export function mailRoutes(config: Config): RouteDef[] {
   const base = config.MAIL_INBOX_URL;
   return [
     {
-      method: 'get', path: '/api/mail/messages', allow: INBOX_READERS,
+      method: 'get', path: '/api/mail/messages', allow: PLANNING,
       handler: async (req, res) => res.json({ messages: await inbox.listMessages(base, typeof req.query.to === 'string' ? req.query.to : undefined) }),
     },
-    { method: 'get', path: '/api/mail/messages/:id', allow: INBOX_READERS, handler: async (req, res) => res.json({ message: await inbox.getMessage(base, String(req.params.id)) }) },
+    { method: 'get', path: '/api/mail/messages/:id', allow: PLANNING, handler: async (req, res) => res.json({ message: await inbox.getMessage(base, String(req.params.id)) }) },
     {
-      method: 'get', path: '/api/mail/messages/:id/attachments/:index', allow: INBOX_READERS,
+      method: 'get', path: '/api/mail/messages/:id/attachments/:index', allow: PLANNING,
       handler: async (req, res) => {
         const index = Number(req.params.index);
         if (!Number.isInteger(index) || index < 0) throw notFound('No such attachment');

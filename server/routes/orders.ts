@@ -1,42 +1,40 @@
 import type { Knex } from 'knex';
 import type { Request } from 'express';
 import { z } from 'zod';
+import { text } from '../../shared/schemas/common';
 import type { Config } from '../config';
 import { markDeliveredSchema, orderFilterSchema, orderNoteSchema, placeOrderSchema } from '../../shared/schemas/orders';
-import { notFound, parseWith } from '../errors';
+import { CUSTOMERS, ORDER_CANCELLERS, PLANNING } from '../../shared/roles';
+import { parseWith } from '../errors';
+import { pathId } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
 import * as orders from '../services/orders/orders';
 import { cancelOrder } from '../services/payments/cancel';
 import { startCheckout } from '../services/payments/checkout';
 import { createPaymentsClient } from '../services/payments/client';
 
-const STAFF = orders.ORDER_STAFF;
-const cancelSchema = z.object({ reason: z.string().trim().max(300).default('') });
+const cancelSchema = z.object({ reason: text(300).default('') });
 
-/** An order id from the path; anything but a positive integer is simply not an order. */
-function orderId(req: Request): number {
-  const id = Number(req.params.id);
-  if (!Number.isSafeInteger(id) || id <= 0) throw notFound('No such order');
-  return id;
-}
+/** An order id from the path; anything but a valid id is simply not an order (404). */
+const orderId = (req: Request) => pathId(req, 'id', 'order');
 
 export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
   const payments = { stripe: createPaymentsClient(config), config };
   return [
-    { method: 'get', path: '/api/orders/mine', allow: ['customer'], handler: async (req, res) => res.json({ orders: await orders.myOrders(knex, currentUser(req)) }) },
+    { method: 'get', path: '/api/orders/mine', allow: CUSTOMERS, handler: async (req, res) => res.json({ orders: await orders.myOrders(knex, currentUser(req)) }) },
     {
-      method: 'post', path: '/api/orders', allow: ['customer'],
+      method: 'post', path: '/api/orders', allow: CUSTOMERS,
       handler: async (req, res) => {
         const order = await orders.placeOrder(knex, currentUser(req), parseWith(placeOrderSchema, req.body));
         res.status(201).json(await orders.orderDetail(knex, currentUser(req), order.id));
       },
     },
-    { method: 'get', path: '/api/orders', allow: STAFF, handler: async (req, res) => res.json({ orders: await orders.listOrders(knex, parseWith(orderFilterSchema, req.query)) }) },
+    { method: 'get', path: '/api/orders', allow: PLANNING, handler: async (req, res) => res.json({ orders: await orders.listOrders(knex, parseWith(orderFilterSchema, req.query)) }) },
     // Customers reach only their own orders (someone else's answers 404); order staff reach all.
     { method: 'get', path: '/api/orders/:id', allow: 'signed-in', handler: async (req, res) => res.json(await orders.orderDetail(knex, currentUser(req), orderId(req))) },
-    { method: 'post', path: '/api/orders/:id/checkout', allow: ['customer'], handler: async (req, res) => res.json(await startCheckout(knex, payments, currentUser(req), orderId(req))) },
+    { method: 'post', path: '/api/orders/:id/checkout', allow: CUSTOMERS, handler: async (req, res) => res.json(await startCheckout(knex, payments, currentUser(req), orderId(req))) },
     {
-      method: 'post', path: '/api/orders/:id/cancel', allow: ['customer', ...STAFF],
+      method: 'post', path: '/api/orders/:id/cancel', allow: ORDER_CANCELLERS,
       handler: async (req, res) => {
         const { reason } = parseWith(cancelSchema, req.body);
         const result = await cancelOrder(knex, payments, currentUser(req), orderId(req), reason);
@@ -44,14 +42,14 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
       },
     },
     {
-      method: 'post', path: '/api/orders/:id/notes', allow: STAFF,
+      method: 'post', path: '/api/orders/:id/notes', allow: PLANNING,
       handler: async (req, res) => {
         await orders.addStaffNote(knex, currentUser(req), orderId(req), parseWith(orderNoteSchema, req.body).note);
         res.status(201).json(await orders.orderDetail(knex, currentUser(req), orderId(req)));
       },
     },
     {
-      method: 'post', path: '/api/orders/:id/delivered', allow: STAFF,
+      method: 'post', path: '/api/orders/:id/delivered', allow: PLANNING,
       handler: async (req, res) => {
         await orders.markDelivered(knex, currentUser(req), orderId(req), parseWith(markDeliveredSchema, req.body).message);
         res.json(await orders.orderDetail(knex, currentUser(req), orderId(req)));

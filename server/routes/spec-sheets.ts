@@ -2,21 +2,19 @@ import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Knex } from 'knex';
-import type { Role } from '../../shared/roles';
+import { BENCH } from '../../shared/roles';
 import { serialParamSchema } from '../../shared/schemas/spec-sheets';
 import { PostgresRateLimitStore } from '../auth/rate-limit-store';
 import type { Config } from '../config';
-import { parseWith } from '../errors';
+import { pathId, pathSerial } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
 import { jobArchive, latestBatchJob, requestBatchSheets, sheetJob } from '../services/spec-sheets/batch-jobs';
 import { orderSheets, regenerateSheet, unitSheetPdf } from '../services/spec-sheets/sheets';
 import { shopName, verifyUnit } from '../services/spec-sheets/verify';
 import { tooManyChecksPage, unknownSerialPage, verifiedPage } from '../services/spec-sheets/verify-page';
-import { idParam } from './batches';
 
 /** Who makes sheets for others: the owner, the planner (batches) and the tester (units). */
-const SHEET_MAKERS: Role[] = ['owner', 'planner', 'tester'];
-const serial = (value: unknown) => parseWith(serialParamSchema, value);
+const SHEET_MAKERS = BENCH;
 
 // The verification page's two font weights, shipped in the source-sans package (nothing fetched from elsewhere).
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
@@ -37,42 +35,44 @@ export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): R
       // Staff, or the customer whose order the unit is on (anyone else's unit is "not found"): checked in the service.
       method: 'get', path: '/api/units/:serial/spec-sheet.pdf', allow: 'signed-in',
       handler: async (req, res) => {
-        const sheet = await unitSheetPdf(knex, currentUser(req), serial(req.params.serial), config.publicUrl);
+        const sheet = await unitSheetPdf(knex, currentUser(req), pathSerial(req), config.publicUrl);
         res.type('application/pdf').set('Content-Disposition', `inline; filename="${sheet.filename}"`).set('Cache-Control', 'private, no-store').send(sheet.pdf);
       },
     },
     {
       method: 'post', path: '/api/units/:serial/spec-sheet/regenerate', allow: SHEET_MAKERS,
-      handler: async (req, res) => res.json(await regenerateSheet(knex, currentUser(req), serial(req.params.serial), config.publicUrl)),
+      handler: async (req, res) => res.json(await regenerateSheet(knex, currentUser(req), pathSerial(req), config.publicUrl)),
     },
     {
       // The customer's own order (anyone else's is "not found"), or any order for staff: checked in the service.
       method: 'get', path: '/api/orders/:id/spec-sheets', allow: 'signed-in',
-      handler: async (req, res) => res.json({ units: await orderSheets(knex, currentUser(req), idParam(req.params.id)) }),
+      handler: async (req, res) => res.json({ units: await orderSheets(knex, currentUser(req), pathId(req, 'id', 'order')) }),
     },
     {
       method: 'post', path: '/api/batches/:id/spec-sheets', allow: SHEET_MAKERS,
       handler: async (req, res) => {
-        const { job } = await requestBatchSheets(knex, currentUser(req), idParam(req.params.id));
+        const { job } = await requestBatchSheets(knex, currentUser(req), pathId(req, 'id', 'batch'));
         res.status(202).json({ job });
       },
     },
     {
       method: 'get', path: '/api/batches/:id/spec-sheets/latest', allow: SHEET_MAKERS,
-      handler: async (req, res) => res.json({ job: await latestBatchJob(knex, idParam(req.params.id)) }),
+      handler: async (req, res) => res.json({ job: await latestBatchJob(knex, pathId(req, 'id', 'batch')) }),
     },
-    { method: 'get', path: '/api/spec-sheet-jobs/:id', allow: SHEET_MAKERS, handler: async (req, res) => res.json({ job: await sheetJob(knex, idParam(req.params.id)) }) },
+    { method: 'get', path: '/api/spec-sheet-jobs/:id', allow: SHEET_MAKERS, handler: async (req, res) => res.json({ job: await sheetJob(knex, pathId(req, 'id', 'sheet job')) }) },
     {
       method: 'get', path: '/api/spec-sheet-jobs/:id/archive.zip', allow: SHEET_MAKERS,
       handler: async (req, res) => {
-        const archive = await jobArchive(knex, idParam(req.params.id));
+        const archive = await jobArchive(knex, pathId(req, 'id', 'sheet job'));
         res.type('application/zip').set('Content-Disposition', `attachment; filename="${archive.filename}"`).send(archive.data);
       },
     },
     {
       method: 'get', path: '/verify-fonts/:weight', allow: 'public',
       handler: (req, res) => {
-        const file = VERIFY_FONTS[String(req.params.weight).replace(/\.woff2$/, '')];
+        // An own-property lookup: `constructor` or `__proto__` is not a font.
+        const weight = String(req.params.weight).replace(/\.woff2$/, '');
+        const file = Object.hasOwn(VERIFY_FONTS, weight) ? VERIFY_FONTS[weight] : undefined;
         if (!file) return res.status(404).type('text').send('No such font');
         return res.type('font/woff2').set('Cache-Control', 'public, max-age=86400').sendFile(file);
       },

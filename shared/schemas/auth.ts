@@ -1,8 +1,9 @@
 import { z } from 'zod';
 import { ROLES } from '../roles';
+import { str } from './common';
 
 // One schema per request shape: the forms, the client types and the server's validation share them.
-const email = z.string().trim().toLowerCase().email('Enter a valid e-mail address').max(200);
+const email = str().trim().toLowerCase().email('Enter a valid e-mail address').max(200);
 const newPassword = z
   .string()
   .min(10, 'Use at least 10 characters')
@@ -10,25 +11,25 @@ const newPassword = z
 
 export const loginSchema = z.object({
   email,
-  password: z.string().min(1, 'Enter your password').max(200),
+  password: str().min(1, 'Enter your password').max(200),
 });
 export type LoginInput = z.infer<typeof loginSchema>;
 
 export const registerSchema = z.object({
-  name: z.string().trim().min(1, 'Enter your name').max(120),
+  name: str().trim().min(1, 'Enter your name').max(120),
   email,
   password: newPassword,
 });
 export type RegisterInput = z.infer<typeof registerSchema>;
 
 export const changePasswordSchema = z.object({
-  currentPassword: z.string().min(1, 'Enter your current password').max(200),
+  currentPassword: str().min(1, 'Enter your current password').max(200),
   newPassword,
 });
 export type ChangePasswordInput = z.infer<typeof changePasswordSchema>;
 
 export const createUserSchema = z.object({
-  name: z.string().trim().min(1, 'Enter a name').max(120),
+  name: str().trim().min(1, 'Enter a name').max(120),
   email,
   role: z.enum(ROLES, { message: 'Choose a role' }),
   password: newPassword,
@@ -39,7 +40,7 @@ export const updateUserSchema = z
   .object({
     role: z.enum(ROLES, { message: 'Choose a role' }).optional(),
     active: z.boolean().optional(),
-    name: z.string().trim().min(1).max(120).optional(),
+    name: str().trim().min(1).max(120).optional(),
   })
   .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change' });
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;

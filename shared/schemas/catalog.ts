@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { id, str, text } from './common';
 
 // Request shapes of the catalog: parts and stock, devices, models, revisions, BOM, steps, options.
 // The same schemas validate the forms (react-hook-form + zodResolver) and the server (parseWith).
@@ -17,17 +18,16 @@ function patchOf<T extends z.ZodRawShape>(schema: z.ZodObject<T>) {
   return z.object(shape) as unknown as z.ZodObject<{ [K in keyof T]: z.ZodOptional<T[K]> }>;
 }
 
-const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters`);
 const whole = (label: string, max = 1_000_000) =>
   z.coerce.number({ message: `Enter ${label} as a number` }).int(`${label} must be a whole number`).min(0, `${label} cannot be negative`).max(max, `${label} must be at most ${max}`);
 
 export const partSchema = z.object({
-  partNumber: z.string().trim().min(1, 'Enter the internal part number').max(40, 'Use at most 40 characters').regex(/^[A-Za-z0-9._\-/]+$/, 'Letters, digits and . _ - / only'),
+  partNumber: str().trim().min(1, 'Enter the internal part number').max(40, 'Use at most 40 characters').regex(/^[A-Za-z0-9._\-/]+$/, 'Letters, digits and . _ - / only'),
   category: z.enum(PART_CATEGORIES, { message: 'Choose a category' }),
   value: text(80).default(''),
   package: text(60).default(''),
   manufacturerPartNumber: text(80).default(''),
-  supplierId: z.coerce.number().int().positive().nullable().default(null),
+  supplierId: id('Choose the supplier').nullable().default(null),
   unitCostCents: whole('Unit cost', 10_000_000),
   leadTimeDays: whole('Lead time', 365),
   reorderPoint: whole('Reorder point'),
@@ -38,7 +38,7 @@ export type PartInput = z.infer<typeof partSchema>;
 export const partUpdateSchema = patchOf(partSchema);
 
 export const partListQuerySchema = z.object({
-  search: z.string().trim().max(80).default(''),
+  search: str().trim().max(80).default(''),
   category: z.enum(PART_CATEGORIES).optional().or(z.literal('').transform(() => undefined)),
   lowStock: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
   sort: z.enum(['partNumber', 'category', 'value', 'unitCostCents', 'onHand', 'available', 'reorderPoint', 'binLocation']).default('partNumber'),
@@ -54,18 +54,18 @@ export const movementSchema = z.object({
   kind: z.enum(MOVEMENT_KINDS, { message: 'Choose what happened' }),
   // Signed for adjust (a count correction), positive for the others.
   quantity: z.coerce.number({ message: 'Enter a quantity' }).int('Quantity must be a whole number').refine((q) => q !== 0, 'Quantity cannot be zero').refine((q) => Math.abs(q) <= 100_000, 'At most 100000 at once'),
-  reason: z.string().trim().min(1, 'Say why').max(300),
+  reason: str().trim().min(1, 'Say why').max(300),
   reference: text(80).default(''),
-  batchId: z.coerce.number().int().positive().optional(),
-  unitId: z.coerce.number().int().positive().optional(),
+  batchId: id('Not a valid batch id').optional(),
+  unitId: id('Not a valid unit id').optional(),
 }).refine((m) => m.kind === 'adjust' || m.quantity > 0, { message: 'Quantity must be positive (only an adjustment can be negative)', path: ['quantity'] });
 export type MovementInput = z.infer<typeof movementSchema>;
 
 export const receiveSchema = z.object({
-  supplierId: z.coerce.number({ message: 'Choose the supplier' }).int().positive('Choose the supplier'),
-  reference: z.string().trim().min(1, 'Enter the delivery note number').max(80),
+  supplierId: id('Choose the supplier'),
+  reference: str().trim().min(1, 'Enter the delivery note number').max(80),
   lines: z.array(z.object({
-    partId: z.coerce.number().int().positive('Choose a part'),
+    partId: id('Choose a part'),
     quantity: z.coerce.number({ message: 'Enter a quantity' }).int('Whole numbers only').min(1, 'At least 1').max(100_000, 'At most 100000'),
   })).min(1, 'Add at least one line').max(200),
 });
@@ -74,14 +74,14 @@ export type ReceiveInput = z.infer<typeof receiveSchema>;
 const positive = (label: string) => z.coerce.number({ message: `Enter ${label}` }).positive(`${label} must be above zero`);
 
 export const customDeviceSchema = z.object({
-  name: z.string().trim().min(1, 'Name the device').max(120),
+  name: str().trim().min(1, 'Name the device').max(120),
   kind: z.enum(DEVICE_KINDS, { message: 'Choose the kind' }),
   source: z.enum(['spice', 'datasheet']),
   is: positive('IS').max(1, 'IS must be at most 1 A').optional(),
   n: z.coerce.number().min(0.5, 'N must be at least 0.5').max(10, 'N must be at most 10').optional(),
   rs: z.coerce.number().min(0, 'RS cannot be negative').max(1e6).default(0),
   points: z.array(z.object({ vf: positive('Vf').max(100), currentMa: positive('the current').max(1000) })).min(2, 'Give two or three points').max(3, 'Give two or three points').optional(),
-  partId: z.coerce.number().int().positive().nullable().default(null),
+  partId: id('Choose a part').nullable().default(null),
   provenance: text(500).default(''),
 }).superRefine((d, ctx) => {
   if (d.source === 'spice') {
@@ -90,11 +90,11 @@ export const customDeviceSchema = z.object({
   } else if (!d.points) ctx.addIssue({ code: 'custom', path: ['points'], message: 'Give two or three points' });
 });
 export type CustomDeviceInput = z.infer<typeof customDeviceSchema>;
-export const deviceLinkSchema = z.object({ partId: z.coerce.number().int().positive().nullable() });
+export const deviceLinkSchema = z.object({ partId: id('Choose a part').nullable() });
 
 export const modelSchema = z.object({
-  name: z.string().trim().min(1, 'Name the pedal').max(80),
-  sku: z.string().trim().min(1, 'Enter the SKU').max(40).regex(/^[A-Z0-9-]+$/, 'Capital letters, digits and - only'),
+  name: str().trim().min(1, 'Name the pedal').max(80),
+  sku: str().trim().min(1, 'Enter the SKU').max(40).regex(/^[A-Z0-9-]+$/, 'Capital letters, digits and - only'),
   description: text(2000).default(''),
   basePriceCents: whole('Base price', 100_000_000),
   published: z.boolean().default(false),
@@ -115,7 +115,7 @@ export const driveStageSchema = z.object({
 export type DriveStageInput = z.infer<typeof driveStageSchema>;
 
 export const bomLineSchema = z.object({
-  partId: z.coerce.number({ message: 'Choose a part' }).int().positive('Choose a part'),
+  partId: id('Choose a part'),
   quantity: z.coerce.number({ message: 'Enter a quantity' }).int('Whole numbers only').min(1, 'At least 1').max(10_000),
   designators: text(2000).default(''),
   notes: text(500).default(''),
@@ -124,7 +124,7 @@ export const bomLineSchema = z.object({
 export type BomLineInput = z.infer<typeof bomLineSchema>;
 
 export const buildStepSchema = z.object({
-  title: z.string().trim().min(1, 'Give the step a title').max(120),
+  title: str().trim().min(1, 'Give the step a title').max(120),
   instructions: text(4000).default(''),
   standardMinutes: z.coerce.number({ message: 'Enter minutes' }).int('Whole minutes').min(1, 'At least 1 minute').max(600, 'At most 600 minutes'),
   skill: z.enum(SKILLS, { message: 'Choose the skill' }),
@@ -137,8 +137,8 @@ const ohms = (label: string) => z.coerce.number({ message: `Enter ${label}` }).p
 const farads = z.coerce.number().min(0, 'Cannot be negative').max(1e-6, 'At most 1 µF');
 
 export const optionSchema = z.object({
-  code: z.string().trim().min(1, 'Enter a short code').max(20).regex(/^[A-Z0-9]+$/, 'Capital letters and digits only'),
-  name: z.string().trim().min(1, 'Name the option').max(80),
+  code: str().trim().min(1, 'Enter a short code').max(20).regex(/^[A-Z0-9]+$/, 'Capital letters and digits only'),
+  name: str().trim().min(1, 'Name the option').max(80),
   description: text(2000).default(''),
   topology: z.enum(['shunt', 'feedback'], { message: 'Choose shunt or feedback' }),
   network: z.object({
@@ -148,13 +148,16 @@ export const optionSchema = z.object({
     groundOhms: ohms('the ground resistor').optional(),
     feedbackFarads: farads.optional(),
   }).default({}),
-  positive: z.array(z.coerce.number().int().positive()).min(1, 'Choose at least one device').max(6, 'At most 6 in series'),
-  negative: z.array(z.coerce.number().int().positive()).max(6, 'At most 6 in series'),
+  positive: z.array(id('Choose a device from the library')).min(1, 'Choose at least one device').max(6, 'At most 6 in series'),
+  negative: z.array(id('Choose a device from the library')).max(6, 'At most 6 in series'),
   surchargeCents: whole('Surcharge', 10_000_000),
   published: z.boolean().default(false),
 });
 export type OptionInput = z.infer<typeof optionSchema>;
 export const optionUpdateSchema = patchOf(optionSchema);
+
+/** POST /api/models/:id/revisions: the revision the new one copies. */
+export const newRevisionSchema = z.object({ fromRevisionId: id('Choose the revision to copy') });
 
 /** BOM CSV upload: the one documented column format (see DEVELOPERS.md, "BOM CSV"). */
 export const BOM_CSV_COLUMNS = { partNumber: 'part number', quantity: 'quantity', designators: 'designators', notes: 'notes' } as const;

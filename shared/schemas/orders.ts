@@ -1,25 +1,26 @@
 import { z } from 'zod';
+import { dateSchema, id, str } from './common';
 import { ORDER_STATES } from '../order-states';
 
 // One schema per request shape for ordering: the cart and checkout forms and the server share them.
 // Prices are deliberately absent: the server computes every amount from the catalog and settings.
 
 export const orderLineSchema = z.object({
-  modelId: z.coerce.number().int('Choose a pedal').positive('Choose a pedal'),
-  optionId: z.coerce.number().int('Choose a clipping option').positive('Choose a clipping option'),
+  modelId: id('Choose a pedal'),
+  optionId: id('Choose a clipping option'),
   quantity: z.coerce.number().int('Enter a whole number').min(1, 'At least 1').max(20, 'At most 20 of one pedal per order'),
 });
 export type OrderLineInput = z.infer<typeof orderLineSchema>;
 
 export const shippingAddressSchema = z.object({
-  name: z.string().trim().min(1, 'Enter the name to ship to').max(120, 'Use at most 120 characters'),
-  line1: z.string().trim().min(1, 'Enter the street and number').max(160, 'Use at most 160 characters'),
-  line2: z.string().trim().max(160, 'Use at most 160 characters').default(''),
-  city: z.string().trim().min(1, 'Enter the town or city').max(80, 'Use at most 80 characters'),
-  postcode: z.string().trim().min(2, 'Enter the postcode').max(20, 'Use at most 20 characters')
+  name: str().trim().min(1, 'Enter the name to ship to').max(120, 'Use at most 120 characters'),
+  line1: str().trim().min(1, 'Enter the street and number').max(160, 'Use at most 160 characters'),
+  line2: str().trim().max(160, 'Use at most 160 characters').default(''),
+  city: str().trim().min(1, 'Enter the town or city').max(80, 'Use at most 80 characters'),
+  postcode: str().trim().min(2, 'Enter the postcode').max(20, 'Use at most 20 characters')
     .regex(/^[A-Za-z0-9 -]+$/, 'Use letters, digits, spaces and dashes only'),
-  country: z.string().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Choose a country (two-letter code, e.g. DE)'),
-  phone: z.string().trim().max(40, 'Use at most 40 characters').regex(/^[0-9 +()/-]*$/, 'Use digits, spaces and + ( ) / - only').default(''),
+  country: str().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Choose a country (two-letter code, e.g. DE)'),
+  phone: str().trim().max(40, 'Use at most 40 characters').regex(/^[0-9 +()/-]*$/, 'Use digits, spaces and + ( ) / - only').default(''),
 });
 export type ShippingAddressInput = z.infer<typeof shippingAddressSchema>;
 
@@ -33,21 +34,21 @@ export type PlaceOrderInput = z.infer<typeof placeOrderSchema>;
 
 export const orderFilterSchema = z.object({
   state: z.enum(ORDER_STATES).optional(),
-  optionId: z.coerce.number().int().positive().optional(),
-  from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-01').optional(),
-  to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-01').optional(),
-  q: z.string().trim().max(100).optional(),
+  optionId: id('Not a valid option id').optional(),
+  from: dateSchema('2026-12-01').optional(),
+  to: dateSchema('2026-12-01').optional(),
+  q: str().trim().max(100).optional(),
 });
 export type OrderFilter = z.infer<typeof orderFilterSchema>;
 
 export const orderNoteSchema = z.object({
-  note: z.string().trim().min(1, 'Write the note first').max(2000, 'Use at most 2000 characters'),
+  note: str().trim().min(1, 'Write the note first').max(2000, 'Use at most 2000 characters'),
 });
 export type OrderNoteInput = z.infer<typeof orderNoteSchema>;
 
 /** The one hand-made state change staff make here; production and payments move the rest. */
 export const markDeliveredSchema = z.object({
-  message: z.string().trim().max(300).default(''),
+  message: str().trim().max(300).default(''),
 });
 export type MarkDeliveredInput = z.infer<typeof markDeliveredSchema>;
 

@@ -1,9 +1,10 @@
 import { z } from 'zod';
+import { dateSchema, id as idOf, str } from './common';
 
 // One schema per request shape of the production area (planning, kitting, assigning, building,
 // testing, shipping); forms and the server share them.
-const id = z.coerce.number().int('Pick one').positive('Pick one');
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2026-12-07');
+const id = idOf('Pick one');
+const isoDate = dateSchema('2026-12-07');
 
 export const createBatchSchema = z.object({
   revisionId: id,
@@ -12,17 +13,17 @@ export const createBatchSchema = z.object({
     .array(z.object({ optionId: id, quantity: z.coerce.number().int('Whole units only').min(1, 'At least 1').max(500, 'At most 500') }))
     .max(20)
     .default([]),
-  notes: z.string().trim().max(2000).default(''),
+  notes: str().trim().max(2000).default(''),
 }).refine((b) => b.orderLineIds.length + b.stockBuilds.length > 0, { message: 'Pull in at least one order line or add a stock build', path: ['orderLineIds'] });
 export type CreateBatchInput = z.infer<typeof createBatchSchema>;
 
 export const releaseBatchSchema = z.object({
   startDate: isoDate.optional(),
-  overrideReason: z.string().trim().max(500).optional(),
+  overrideReason: str().trim().max(500).optional(),
 });
 export type ReleaseBatchInput = z.infer<typeof releaseBatchSchema>;
 
-export const cancelSchema = z.object({ reason: z.string().trim().min(3, 'Say why (at least 3 characters)').max(500) });
+export const cancelSchema = z.object({ reason: str().trim().min(3, 'Say why (at least 3 characters)').max(500) });
 export type CancelInput = z.infer<typeof cancelSchema>;
 
 export const proposePlanSchema = z.object({ startDate: isoDate.optional() });
@@ -36,7 +37,7 @@ export const applyAssignmentsSchema = z.object({
 export type ApplyAssignmentsInput = z.infer<typeof applyAssignmentsSchema>;
 
 export const assemblerProfileSchema = z.object({
-  skills: z.array(z.string().trim().min(1).max(40)).max(20),
+  skills: z.array(str().trim().min(1).max(40)).max(20),
   dailyCapacityMinutes: z.coerce.number().int('Whole minutes').min(0, 'At least 0').max(1440, 'At most 1440 (a whole day)'),
 });
 export type AssemblerProfileInput = z.infer<typeof assemblerProfileSchema>;
@@ -51,7 +52,7 @@ export const deviceReadingsSchema = z.object({
 export type DeviceReadingsInput = z.infer<typeof deviceReadingsSchema>;
 
 export const partLotsSchema = z.object({
-  lots: z.array(z.object({ bomLineId: id, lot: z.string().trim().min(1, 'Enter the lot').max(80) })).min(1, 'Enter at least one lot'),
+  lots: z.array(z.object({ bomLineId: id, lot: str().trim().min(1, 'Enter the lot').max(80) })).min(1, 'Enter at least one lot'),
 });
 export type PartLotsInput = z.infer<typeof partLotsSchema>;
 
@@ -60,14 +61,14 @@ export const benchTestSchema = z.object({
   currentDrawMa: z.coerce.number({ error: 'Enter the current draw' }).positive('Enter a positive current').max(1000, 'At most 1000 mA'),
   measuredThdPercent: z.coerce.number({ error: 'Enter the measured THD' }).min(0, 'At least 0 %').max(100, 'At most 100 %'),
   outcome: z.enum(['pass', 'fail'], { error: 'Choose pass or send back' }),
-  reason: z.string().trim().max(500).default(''),
+  reason: str().trim().max(500).default(''),
 }).refine((t) => t.outcome === 'pass' || t.reason.length >= 3, { message: 'Say what needs rework (at least 3 characters)', path: ['reason'] });
 export type BenchTestInput = z.infer<typeof benchTestSchema>;
 
 export const shipOrderSchema = z.object({
   orderId: id,
-  carrier: z.string().trim().min(2, 'Enter the carrier').max(60),
-  trackingNumber: z.string().trim().min(4, 'Enter the tracking number').max(80),
+  carrier: str().trim().min(2, 'Enter the carrier').max(60),
+  trackingNumber: str().trim().min(4, 'Enter the tracking number').max(80),
 });
 export type ShipOrderInput = z.infer<typeof shipOrderSchema>;
 

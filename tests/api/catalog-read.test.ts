@@ -95,11 +95,12 @@ describe('GET /api/models/:id', () => {
     expect(JSON.stringify(m)).not.toMatch(/cost|bomDelta|flags/i);
   });
 
-  it('is 404 for a visitor asking for an unpublished model, 400 for a bad id', async () => {
+  it('is 404 for a visitor asking for an unpublished model, and for a path id that cannot name a model', async () => {
     const [{ id }] = await t.knex('models').insert({ name: `Hidden ${Date.now()}`, sku: `HID-${Date.now()}`, base_price_cents: 100, published: false }).returning('id');
     const anon = await anonymousAgent(t.app);
     await anon.get(`/api/models/${id}`).expect(404);
-    await anon.get('/api/models/abc').expect(400);
+    // A malformed path id names nothing: the same 404 as a missing row (server/http/params.ts).
+    for (const bad of ['abc', '0', '-1', '1e308', '2147483648', '12abc']) await anon.get(`/api/models/${bad}`).expect(404);
     const owner = await signedInAgent(t.app, DEMO.owner);
     const res = await owner.get(`/api/models/${id}`).expect(200);
     expect(res.body.model.activeRevision).toBeNull();

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import type { ModelInput, OptionInput } from '../../../shared/schemas/catalog';
 import { PHOTO_TYPES } from '../../../shared/schemas/catalog';
 import { invalid, isUniqueViolation, notFound } from '../../errors';
+import { imageTypeOf } from '../image-type';
 
 function modelRow(m: Partial<ModelInput>) {
   const r = { name: m.name, sku: m.sku, description: m.description, base_price_cents: m.basePriceCents, published: m.published };
@@ -41,18 +42,11 @@ export async function updateModel(knex: Knex, id: number, input: Partial<ModelIn
   }
 }
 
-/** Image types are checked by their first bytes too, not only by what the browser claims. */
-function sniff(buf: Buffer): string | null {
-  if (buf.length > 8 && buf.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))) return 'image/png';
-  if (buf.length > 3 && buf[0] === 0xff && buf[1] === 0xd8 && buf[2] === 0xff) return 'image/jpeg';
-  if (buf.length > 12 && buf.toString('latin1', 0, 4) === 'RIFF' && buf.toString('latin1', 8, 12) === 'WEBP') return 'image/webp';
-  return null;
-}
-
 /** PUT /api/models/:id/photo: stores the image in the files table and points the model at it, in one transaction. */
 export async function setModelPhoto(knex: Knex, id: number, file: Express.Multer.File | undefined, userId: number) {
   if (!file) throw invalid('Choose a photo', { photo: 'No file was uploaded' });
-  const type = sniff(file.buffer);
+  // The file's own bytes decide its type, not what the browser claims.
+  const type = await imageTypeOf(file.buffer);
   if (!type || !(PHOTO_TYPES as readonly string[]).includes(type)) throw invalid('Photos must be PNG, JPEG or WebP images', { photo: 'Not a PNG, JPEG or WebP image' });
   await knex.transaction(async (trx) => {
     const m = await trx('models').where({ id }).forUpdate().first('photo_file_id');

@@ -1,3 +1,4 @@
+import { PLANNING } from '../../../shared/roles';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
@@ -8,7 +9,7 @@ import { priceCart } from './pricing';
 import { transitionOrder } from './transitions';
 
 /** Staff who may see and annotate every order. */
-export const ORDER_STAFF = ['owner', 'planner'] as const;
+export const ORDER_STAFF = PLANNING;
 
 export interface OrderRow {
   id: number;

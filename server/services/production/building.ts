@@ -2,7 +2,9 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
 import { isVfOutOfRange, vfRange } from '../../../shared/production/forward-voltage';
+import { PHOTO_TYPES } from '../../../shared/schemas/catalog';
 import { conflict, forbidden, invalid, notFound } from '../../errors';
+import { imageTypeOf } from '../image-type';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
 import { lockUnit, transitionUnit, unitEvent } from './history';
@@ -179,16 +181,11 @@ export async function recordLots(knex: Knex, user: SessionUser, unitId: number, 
   });
 }
 
-export const PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp'];
-
 export async function addPhoto(knex: Knex, user: SessionUser, unitId: number, file: { originalname: string; mimetype: string; size: number; buffer: Buffer } | undefined, caption: string) {
   if (!file) throw invalid('Choose a photo to upload', { photo: 'Choose a photo' });
-  // The declared type is the browser's guess; the file's own signature decides.
-  const b = file.buffer;
-  const sniffed = b[0] === 0xff && b[1] === 0xd8 && b[2] === 0xff ? 'image/jpeg'
-    : b.subarray(0, 4).toString('latin1') === '\x89PNG' ? 'image/png'
-    : b.subarray(0, 4).toString('latin1') === 'RIFF' && b.subarray(8, 12).toString('latin1') === 'WEBP' ? 'image/webp' : null;
-  if (!PHOTO_TYPES.includes(file.mimetype) || !sniffed) throw invalid('Photos must be JPEG, PNG or WebP', { photo: 'JPEG, PNG or WebP only' });
+  // The declared type is the browser's guess; the file's own bytes decide.
+  const sniffed = await imageTypeOf(file.buffer);
+  if (!(PHOTO_TYPES as readonly string[]).includes(file.mimetype) || !sniffed) throw invalid('Photos must be JPEG, PNG or WebP', { photo: 'JPEG, PNG or WebP only' });
   file = { ...file, mimetype: sniffed };
   return knex.transaction(async (trx) => {
     const unit = await lockUnit(trx, unitId);

@@ -1,7 +1,8 @@
 import wavefile from 'wavefile';
 import { CAPTURE_LIMITS } from '../../../shared/schemas/production';
 import { analyseCapture } from '../../../shared/production/wav-analysis';
-import { invalid, tooLarge } from '../../errors';
+import { invalid, tooLarge, unsupportedMedia } from '../../errors';
+import { readWavHeader, SUPPORTED_ENCODINGS } from './wav-header';
 
 // wavefile is CommonJS: its class comes off the default export under Node's ESM loader.
 const { WaveFile } = wavefile;
@@ -10,19 +11,30 @@ type WaveFile = InstanceType<typeof WaveFile>;
 /** Reads a WAV capture (mono or stereo, 44.1/48/96 kHz, limited length) and analyses its test tone. */
 export function analyseWav(file: { buffer: Buffer; size: number; originalname: string }) {
   if (file.size > CAPTURE_LIMITS.maxBytes) throw tooLarge(`The capture is ${(file.size / 1048576).toFixed(1)} MB: at most ${CAPTURE_LIMITS.maxBytes / 1048576} MB`);
-  const head = file.buffer.subarray(0, 12).toString('latin1');
-  if (head.slice(0, 4) !== 'RIFF' || head.slice(8, 12) !== 'WAVE') throw invalid('The capture must be a WAV file', { capture: 'Not a WAV file (RIFF/WAVE header missing)' });
+  // Everything the header can tell is checked before a single sample is decoded.
+  const header = readWavHeader(file.buffer);
+  if ('kind' in header) {
+    if (header.kind === 'not-wav') throw invalid('The capture must be a WAV file', { capture: header.detail });
+    if (header.kind === 'truncated') {
+      throw invalid('The WAV file is cut short', { capture: `The header declares ${header.declared} bytes of audio but only ${header.present} are present: export or copy the capture again` });
+    }
+    throw unsupportedMedia(`${header.format} WAV captures cannot be analysed`, { capture: `${header.format} is not supported: export the capture as ${SUPPORTED_ENCODINGS}` });
+  }
+  if (!CAPTURE_LIMITS.sampleRates.includes(header.sampleRate)) {
+    throw invalid('Unsupported sample rate', { capture: `${header.sampleRate} Hz: use 44.1, 48 or 96 kHz` });
+  }
+  if (header.channels < 1 || header.channels > 2) throw invalid('Mono or stereo only', { capture: `${header.channels} channels: use mono or stereo` });
+  const declaredSeconds = header.declaredDataBytes / (header.channels * (header.bitsPerSample / 8)) / header.sampleRate;
+  if (declaredSeconds < CAPTURE_LIMITS.minSeconds || declaredSeconds > CAPTURE_LIMITS.maxSeconds) {
+    throw invalid('The capture is too short or too long', { capture: `${declaredSeconds.toFixed(2)} s: use ${CAPTURE_LIMITS.minSeconds}–${CAPTURE_LIMITS.maxSeconds} s of the test tone` });
+  }
   let wav: WaveFile;
   try {
     wav = new WaveFile(file.buffer);
   } catch (error) {
     throw invalid('The WAV file cannot be read', { capture: `Unreadable WAV: ${(error as Error).message}` });
   }
-  const fmt = wav.fmt as { sampleRate: number; numChannels: number; bitsPerSample: number };
-  if (!CAPTURE_LIMITS.sampleRates.includes(fmt.sampleRate)) {
-    throw invalid('Unsupported sample rate', { capture: `${fmt.sampleRate} Hz: use 44.1, 48 or 96 kHz` });
-  }
-  if (fmt.numChannels < 1 || fmt.numChannels > 2) throw invalid('Mono or stereo only', { capture: `${fmt.numChannels} channels: use mono or stereo` });
+  const fmt = { sampleRate: header.sampleRate, numChannels: header.channels, bitsPerSample: header.bitsPerSample };
   let channels: Float64Array[];
   try {
     const raw = wav.getSamples(false, Float64Array) as unknown as Float64Array | Float64Array[];

@@ -1,6 +1,6 @@
 // One unit's sheet: who may read it, when it is stored, and the explicit, logged regeneration.
 import type { Knex } from 'knex';
-import { STAFF_ROLES, type SessionUser } from '../../../shared/roles';
+import { STAFF, type SessionUser } from '../../../shared/roles';
 import { conflict, notFound } from '../../errors';
 import { renderSpecSheet } from '../../pdf/spec-sheet';
 import { unitEvent } from '../production/history';
@@ -8,7 +8,7 @@ import { defaultPublicUrl, sheetDataForUnit, SHEET_STATES, unitBySerial } from '
 
 type Db = Knex | Knex.Transaction;
 
-const isStaff = (user: SessionUser) => STAFF_ROLES.includes(user.role);
+const isStaff = (user: SessionUser) => STAFF.includes(user.role);
 
 export const sheetFilename = (serial: string) => `spec-sheet-${serial}.pdf`;
 
