@@ -24,7 +24,7 @@ export const pgCode = (error: unknown) => (isPgError(error) ? error.code : undef
 export const isRetryable = (error: unknown) => ['40P01', '40001'].includes(pgCode(error) ?? '');
 
 const words = (name: string) => name.replace(/_/g, ' ');
-const singular = (table: string) => words(table).replace(/ies$/, 'y').replace(/(s|x)es$/, '$1').replace(/s$/, '');
+const singular = (table: string) => words(table).replace(/ies$/, 'y').replace(/(ch|sh|ss|x)es$/, '$1').replace(/s$/, '');
 /** A column as the API names it (snake_case → camelCase), for the `fields` map. */
 const field = (column: string) => column.replace(/_([a-z])/g, (_m, c: string) => c.toUpperCase());
 const keyColumn = (detail?: string) => /^Key \(([a-z_0-9, ]+)\)/.exec(detail ?? '')?.[1]?.split(', ')[0];
