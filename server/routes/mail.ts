@@ -18,8 +18,9 @@ export function mailRoutes(config: Config): RouteDef[] {
     {
       method: 'get', path: '/api/mail/messages/:id/attachments/:index', allow: PLANNING,
       handler: async (req, res) => {
+        // A position in the message (0-based), not a row id: plain digits, bounded.
+        if (!/^\d{1,3}$/.test(String(req.params.index))) throw notFound('No such attachment');
         const index = Number(req.params.index);
-        if (!Number.isInteger(index) || index < 0) throw notFound('No such attachment');
         const file = await inbox.getAttachment(base, String(req.params.id), index);
         res.type(file.contentType);
         if (file.disposition) res.setHeader('Content-Disposition', file.disposition);

@@ -39,9 +39,9 @@ export const str = () => z.string().refine((s) => !hasNul(s), 'Remove the NUL ch
 /** Trimmed free text of at most `max` characters. */
 export const text = (max: number) => str().trim().max(max, `Use at most ${max} characters`);
 
-/** The dates the shop plans with; a wider range is a typo, not a plan. */
-export const DATE_MIN_YEAR = 2000;
-export const DATE_MAX_YEAR = 2099;
+/** Four-digit years only: PostgreSQL and JavaScript agree on every day in this range. */
+export const DATE_MIN_YEAR = 1970;
+export const DATE_MAX_YEAR = 9999;
 
 /** True when `value` is YYYY-MM-DD and that day exists (2026-02-31 and 2026-13-45 do not). */
 export function isCalendarDate(value: string): boolean {

@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/roles';
+import { ASSEMBLY, CUSTOMERS, OWNER_ONLY, PLANNING, ROLES, STAFF, TESTING, type Role } from '../../shared/roles';
 
 /** Every client path, defined once. */
 export const paths = {
@@ -42,21 +42,21 @@ export interface NavItem {
 
 /** The navigation, by role; each area adds its own entries here. */
 export const NAV: NavItem[] = [
-  { to: paths.board, label: 'Production board', roles: ['owner', 'planner'] },
-  { to: paths.builds, label: 'My builds', roles: ['assembler'] },
-  { to: paths.bench, label: 'Test bench', roles: ['tester'] },
-  { to: paths.planning, label: 'Batches', roles: ['owner', 'planner'] },
-  { to: paths.shipping, label: 'Shipping', roles: ['owner', 'planner'] },
+  { to: paths.board, label: 'Production board', roles: PLANNING },
+  { to: paths.builds, label: 'My builds', roles: ASSEMBLY },
+  { to: paths.bench, label: 'Test bench', roles: TESTING },
+  { to: paths.planning, label: 'Batches', roles: PLANNING },
+  { to: paths.shipping, label: 'Shipping', roles: PLANNING },
   // Catalog: owner and planner edit; assembler and tester read.
-  { to: paths.catalogParts, label: 'Parts & stock', roles: ['owner', 'planner', 'assembler', 'tester'] },
-  { to: paths.catalogDevices, label: 'Clipping devices', roles: ['owner', 'planner', 'assembler', 'tester'] },
-  { to: paths.catalogModels, label: 'Pedal models', roles: ['owner', 'planner', 'assembler', 'tester'] },
-  { to: paths.orderDesk, label: 'Orders', roles: ['owner', 'planner'] },
-  { to: paths.inbox, label: 'Mail inbox', roles: ['owner', 'planner'] },
-  { to: paths.shop, label: 'Pedals', roles: ['customer'] },
-  { to: paths.myOrders, label: 'My orders', roles: ['customer'] },
-  { to: paths.users, label: 'People & roles', roles: ['owner'] },
-  { to: paths.account, label: 'My account', roles: ['owner', 'planner', 'assembler', 'tester', 'customer'] },
+  { to: paths.catalogParts, label: 'Parts & stock', roles: STAFF },
+  { to: paths.catalogDevices, label: 'Clipping devices', roles: STAFF },
+  { to: paths.catalogModels, label: 'Pedal models', roles: STAFF },
+  { to: paths.orderDesk, label: 'Orders', roles: PLANNING },
+  { to: paths.inbox, label: 'Mail inbox', roles: PLANNING },
+  { to: paths.shop, label: 'Pedals', roles: CUSTOMERS },
+  { to: paths.myOrders, label: 'My orders', roles: CUSTOMERS },
+  { to: paths.users, label: 'People & roles', roles: OWNER_ONLY },
+  { to: paths.account, label: 'My account', roles: ROLES },
 ];
 
 export const navFor = (role: Role) => NAV.filter((item) => item.roles.includes(role));
