@@ -20,7 +20,7 @@ describe('the stock ledger service', () => {
     expect(await t.knex('part_balances').where({ part_id: c.parts.pcb }).first('on_hand', 'reserved')).toEqual({ on_hand: 4, reserved: 3 });
     const refused = await t.knex.transaction((trx) => appendMovements(trx, [{ partId: c.parts.pcb, kind: 'reserve', quantity: 2, reason: 'too much' }])).catch((e: { status: number; message: string }) => e);
     expect(refused).toMatchObject({ status: 409 });
-    expect((refused as Error).message).toMatch(/1 available \(4 on hand, 3 reserved\)/);
+    expect((refused as unknown as Error).message).toMatch(/1 available \(4 on hand, 3 reserved\)/);
     expect(await t.knex('stock_movements').where({ part_id: c.parts.pcb }).count({ n: '*' }).first()).toEqual({ n: 3 });
     expect(await compareBalances(t.knex, Object.values(c.parts))).toEqual([]);
   });

@@ -6,15 +6,7 @@
 import type { Knex } from 'knex';
 import type { MovementInput, ReceiveInput } from '../../../shared/schemas/catalog';
 import { conflict, invalid, notFound } from '../../errors';
-import { appendMovements, lockBatchRow, lockParts, lockUnitRows, movementEffect } from '../stock/ledger';
-
-export { movementEffect };
-
-export interface StockLevels {
-  on_hand: number;
-  reserved: number;
-  available: number;
-}
+import { appendMovements, batchHoldings, lockBatchRow, lockParts, lockUnitRows, movementEffect } from '../stock/ledger';
 
 /** Records one movement inside the caller's transaction, after locking the part; 409 if it would go negative. */
 export async function recordMovement(trx: Knex.Transaction, partId: number, m: MovementInput, userId: number | null) {
@@ -29,6 +21,11 @@ export async function recordMovement(trx: Knex.Transaction, partId: number, m: M
   const after = { onHand: now.onHand + e.onHand, reserved: now.reserved + e.reserved };
   const available = after.onHand - after.reserved;
   if (after.reserved < 0) throw conflict(`${now.partNumber}: only ${now.reserved} reserved, cannot release ${m.quantity}`);
+  if (m.kind === 'release' && m.batchId) {
+    // A release named for a batch gives back that batch's reservation, not another batch's.
+    const held = (await batchHoldings(trx, m.batchId, [partId])).get(partId)?.reserved ?? 0;
+    if (held < m.quantity) throw conflict(`${now.partNumber}: the batch holds ${held} reserved, cannot release ${m.quantity}`);
+  }
   if (after.onHand < 0 || available < 0) {
     throw conflict(`${now.partNumber}: ${now.available} available, this ${m.kind} of ${Math.abs(m.quantity)} would take it below zero`);
   }
