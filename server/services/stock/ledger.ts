@@ -8,8 +8,10 @@
 //   3. the parts       (ascending id, all in one statement)  lockParts
 //
 // A step may be skipped, never taken backwards: kitting, reserving, cancelling a unit or a batch,
-// assigning builds, starting a build and a catalog movement all go batch → units → parts. Orders
-// (transitionOrder) are locked after these. Batch and unit locks are FOR NO KEY UPDATE, so the
+// assigning builds, starting a build, a bench test and a catalog movement all go batch → units →
+// parts. Orders (transitionOrder) are locked after these; the one exception is shipping (and taking
+// finished stock), which starts from the order and then locks batches and units that are past
+// building, which no stock action waits for. Batch and unit locks are FOR NO KEY UPDATE, so the
 // foreign-key checks of rows that merely point at them (movements, unit events, sheet jobs) never wait.
 // The part row guards its `part_balances` row: whoever holds the part lock may read the balance
 // and append movements. `assertLockOrder` below refuses a lock taken out of order at run time,
