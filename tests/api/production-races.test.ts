@@ -10,7 +10,7 @@ import { makeCatalog } from './production-fixture';
 const t = startTestApp();
 afterAll(() => t.stop());
 
-const TRIALS = 10;
+const TRIALS = Number(process.env.KP_RACE_TRIALS ?? 10); // more with KP_RACE_TRIALS=20
 const UNITS = 5;
 let planner: TestAgent;
 let assemblerId: number;
