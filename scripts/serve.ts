@@ -5,12 +5,13 @@ import { createApp } from '../server/app';
 import { startJobs } from '../server/jobs/boss';
 import { kickOutbox, outboxJob } from '../server/jobs/outbox-worker';
 import { kickSpecSheets, specSheetJob } from '../server/jobs/spec-sheets';
+import { stockCheckJob } from '../server/jobs/stock-check';
 
 const config = loadConfig();
 const knex = createKnex(config.DATABASE_URL);
 const { app, close } = createApp({ knex, config });
 // Background jobs (pg-boss on the same PostgreSQL): the mail outbox; other areas add theirs to this list.
-const jobs = await startJobs(config, [outboxJob(knex, config), specSheetJob(knex, config)]);
+const jobs = await startJobs(config, [outboxJob(knex, config), specSheetJob(knex, config), stockCheckJob(knex)]);
 await kickOutbox(jobs.boss);
 await kickSpecSheets(jobs.boss);
 const server = app.listen(config.PORT, config.HOST, () => {

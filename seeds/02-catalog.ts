@@ -3,6 +3,7 @@ import { DEVICE_PRESETS } from '../shared/engine/index';
 import { DEMO_PARTS, DEMO_SUPPLIERS } from '../server/services/catalog/demo/parts';
 import { DEMO_MODELS, PRESET_PARTS, type DemoBomLine } from '../server/services/catalog/demo/models';
 import { pedalPng } from '../server/services/catalog/demo/photo';
+import { appendMovements, type MovementKind } from '../server/services/stock/ledger';
 
 // The catalog of the invented shop: suppliers, ~70 parts with a stock history, one clipping device per
 // engine preset, three pedal models with two revisions each and their clipping options.
@@ -40,7 +41,10 @@ export async function seed(knex: Knex): Promise<void> {
       if (i % 9 === 4) {
         movements.push({ kind: 'adjust', quantity: -2, on_hand_delta: -2, reserved_delta: 0, user_id: owner?.id, reason: 'Stock count: two damaged in the tray', reference: 'Count 2026-11', created_at: new Date(now - 10 * DAY) });
       }
-      await trx('stock_movements').insert(movements.map((m) => ({ ...m, part_id: row.id })));
+      await appendMovements(trx, movements.map((m) => ({
+        partId: row.id, kind: m.kind as MovementKind, quantity: m.quantity, onHandDelta: m.on_hand_delta, reservedDelta: m.reserved_delta,
+        userId: m.user_id ?? null, reason: m.reason, reference: m.reference, createdAt: m.created_at,
+      })));
     }
     const partIds = new Map((await trx('parts').select('id', 'part_number')).map((r: { id: number; part_number: string }) => [r.part_number, r.id]));
 

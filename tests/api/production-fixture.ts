@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { findPreset } from '../../shared/engine';
+import { appendMovements } from '../../server/services/stock/ledger';
 
 // A small catalog of our own per test (unique names), so production tests do not lean on the
 // demo seeds: two base parts (one asks for a lot), a silicon diode and a red LED as clipping
@@ -11,7 +12,7 @@ export async function makeCatalog(knex: Knex, opts: { stock?: number; diodeStock
   const [supplier] = await knex('suppliers').insert({ name: `Test Supplies ${tag}`, default_lead_time_days: 5 }).returning('id');
   const part = async (pn: string, category: string, lead: number, qty: number) => {
     const [p] = await knex('parts').insert({ part_number: `${pn}-${tag}`, category, value: pn, supplier_id: supplier.id, unit_cost_cents: 25, lead_time_days: lead }).returning('id');
-    if (qty > 0) await knex('stock_movements').insert({ part_id: p.id, kind: 'receive', quantity: qty, on_hand_delta: qty, reserved_delta: 0, reason: 'test stock' });
+    if (qty > 0) await knex.transaction((trx) => appendMovements(trx, [{ partId: p.id, kind: 'receive', quantity: qty, reason: 'test stock' }]));
     return p.id as number;
   };
   const pcb = await part('PCB', 'pcb', 10, opts.stock ?? 50);

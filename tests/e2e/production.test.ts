@@ -7,6 +7,7 @@ import type { Browser, Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { getBatch } from '../../server/services/production/planning';
+import { appendMovements } from '../../server/services/stock/ledger';
 import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
@@ -84,7 +85,7 @@ describe('production in the browser', () => {
     // A supplier delivery covers whatever the demo stock is short of, before kitting.
     const detail = await t.knex('units').where({ order_id: line.order_id }).first('batch_id');
     const short = await shortParts(detail.batch_id);
-    if (short.length) await t.knex('stock_movements').insert(short.map((s) => ({ part_id: s.partId, kind: 'receive', quantity: s.shortage, on_hand_delta: s.shortage, reserved_delta: 0, reason: 'supplier delivery', reference: 'DN-E2E' })));
+    if (short.length) await t.knex.transaction((trx) => appendMovements(trx, short.map((s) => ({ partId: s.partId, kind: 'receive' as const, quantity: s.shortage, reason: 'supplier delivery', reference: 'DN-E2E' }))));
     await planner.getByRole('button', { name: 'Kit units' }).click();
     await toast(planner, /Kitted 1 unit\b/);
     const unit = await t.knex('units').where({ order_id: line.order_id }).first();

@@ -1,49 +1,37 @@
-// The stock ledger: every change is a movement; on-hand, reserved and available are sums (part_stock view).
-// A movement locks its part row (SELECT … FOR UPDATE) before reading the sums, so two concurrent
-// movements on one part run one after the other and the second sees the first: neither can take
-// available below zero unnoticed.
+// Catalog movements (deliveries, returns, count corrections, manual reservations) through the one
+// stock ledger (server/services/stock/ledger.ts), which owns the lock order and the balance.
+// A movement locks what it names in that order (batch, unit, then the part) before reading the
+// balance, so two concurrent movements on one part run one after the other and the second sees
+// the first: neither can take available below zero unnoticed.
 import type { Knex } from 'knex';
 import type { MovementInput, ReceiveInput } from '../../../shared/schemas/catalog';
 import { conflict, invalid, notFound } from '../../errors';
-
-type Kind = MovementInput['kind'];
-
-/** Effect of a movement of quantity q on on-hand and on reserved. */
-export function movementEffect(kind: Kind, q: number): { onHand: number; reserved: number } {
-  switch (kind) {
-    case 'receive': case 'return': case 'adjust': return { onHand: q, reserved: 0 };
-    case 'reserve': return { onHand: 0, reserved: q };
-    case 'release': return { onHand: 0, reserved: -q };
-    case 'consume': return { onHand: -q, reserved: 0 };
-  }
-}
-
-export interface StockLevels {
-  on_hand: number;
-  reserved: number;
-  available: number;
-}
-
-async function levels(trx: Knex.Transaction, partId: number): Promise<StockLevels> {
-  return trx('part_stock').where({ part_id: partId }).first('on_hand', 'reserved', 'available');
-}
+import { appendMovements, batchHoldings, lockBatchRow, lockParts, lockUnitRows, movementEffect } from '../stock/ledger';
 
 /** Records one movement inside the caller's transaction, after locking the part; 409 if it would go negative. */
 export async function recordMovement(trx: Knex.Transaction, partId: number, m: MovementInput, userId: number | null) {
-  const part = await trx('parts').where({ id: partId }).forUpdate().first('id', 'part_number');
-  if (!part) throw notFound('No such part');
-  const now = await levels(trx, partId);
-  const e = movementEffect(m.kind, m.quantity);
-  const after = { onHand: now.on_hand + e.onHand, reserved: now.reserved + e.reserved };
-  const available = after.onHand - after.reserved;
-  if (after.reserved < 0) throw conflict(`${part.part_number}: only ${now.reserved} reserved, cannot release ${m.quantity}`);
-  if (after.onHand < 0 || available < 0) {
-    throw conflict(`${part.part_number}: ${now.available} available, this ${m.kind} of ${Math.abs(m.quantity)} would take it below zero`);
+  if (m.batchId) {
+    const found = await lockBatchRow(trx, m.batchId).catch((e: { status?: number }) => { if (e.status === 404) return null; throw e; });
+    if (!found) throw invalid('The movement names a batch that does not exist', { batchId: 'No such batch' });
   }
-  const [row] = await trx('stock_movements').insert({
-    part_id: partId, kind: m.kind, quantity: m.quantity, on_hand_delta: e.onHand, reserved_delta: e.reserved,
-    user_id: userId, reason: m.reason, reference: m.reference ?? '', batch_id: m.batchId ?? null, unit_id: m.unitId ?? null,
-  }).returning('*');
+  if (m.unitId && !(await lockUnitRows(trx, [m.unitId])).length) throw invalid('The movement names a unit that does not exist', { unitId: 'No such unit' });
+  const now = (await lockParts(trx, [partId])).get(partId);
+  if (!now) throw notFound('No such part');
+  const e = movementEffect(m.kind, m.quantity);
+  const after = { onHand: now.onHand + e.onHand, reserved: now.reserved + e.reserved };
+  const available = after.onHand - after.reserved;
+  if (after.reserved < 0) throw conflict(`${now.partNumber}: only ${now.reserved} reserved, cannot release ${m.quantity}`);
+  if (m.kind === 'release' && m.batchId) {
+    // A release named for a batch gives back that batch's reservation, not another batch's.
+    const held = (await batchHoldings(trx, m.batchId, [partId])).get(partId)?.reserved ?? 0;
+    if (held < m.quantity) throw conflict(`${now.partNumber}: the batch holds ${held} reserved, cannot release ${m.quantity}`);
+  }
+  if (after.onHand < 0 || available < 0) {
+    throw conflict(`${now.partNumber}: ${now.available} available, this ${m.kind} of ${Math.abs(m.quantity)} would take it below zero`);
+  }
+  const [row] = await appendMovements(trx, [{
+    partId, kind: m.kind, quantity: m.quantity, userId, reason: m.reason, reference: m.reference ?? '', batchId: m.batchId ?? null, unitId: m.unitId ?? null,
+  }]);
   return { movement: row, stock: { on_hand: after.onHand, reserved: after.reserved, available } };
 }
 
@@ -63,7 +51,7 @@ export async function receiveDelivery(knex: Knex, input: ReceiveInput, userId: n
   return knex.transaction(async (trx) => {
     const supplier = await trx('suppliers').where({ id: input.supplierId }).first('name');
     if (!supplier) throw invalid('Choose the supplier', { supplierId: 'No such supplier' });
-    const found = await trx('parts').whereIn('id', ids).orderBy('id').forUpdate().pluck('id');
+    const found = [...(await lockParts(trx, ids)).keys()];
     const missing = input.lines.findIndex((l) => !found.includes(l.partId));
     if (missing >= 0) throw invalid('A line names a part that does not exist', { [`lines.${missing}.partId`]: 'No such part' });
     const movements = [];

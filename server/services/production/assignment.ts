@@ -2,6 +2,7 @@ import type { Knex } from 'knex';
 import type { ApplyAssignmentsInput, AssemblerProfileInput } from '../../../shared/schemas/production';
 import { assessPlan, proposePlan, workingDayOnOrAfter, type PlanAssembler, type PlanJob } from '../../../shared/production/schedule';
 import { conflict, invalid, notFound } from '../../errors';
+import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { unitEvent } from './history';
 import { toDate } from './planning';
 
@@ -45,13 +46,12 @@ export async function proposeBatchPlan(db: Db, batchId: number, startDate?: stri
 /** Applies a plan (proposed, edited or by hand): each unit gets its assembler and day; all or nothing. */
 export async function applyAssignments(knex: Knex, userId: number, batchId: number, input: ApplyAssignmentsInput) {
   return knex.transaction(async (trx) => {
-    const batch = await trx('batches').where({ id: batchId }).forUpdate().first();
-    if (!batch) throw notFound('No such batch');
+    const batch = await lockBatchRow(trx, batchId);
     if (!['released', 'on_bench'].includes(batch.state)) throw conflict('Assign builds once the batch is released');
     const assemblers = await listAssemblers(trx);
     const byId = new Map(assemblers.map((a) => [a.id, a]));
     const jobs = await batchJobs(trx, batchId);
-    const units = await trx('units').whereIn('id', input.builds.map((b) => b.unitId)).forUpdate().select('id', 'batch_id', 'state', 'serial', 'assembler_id');
+    const units = await lockUnitRows(trx, input.builds.map((b) => b.unitId));
     const unitById = new Map(units.map((u) => [u.id, u]));
     for (const [i, b] of input.builds.entries()) {
       const unit = unitById.get(b.unitId);

@@ -7,7 +7,7 @@ import { conflict, forbidden, invalid, notFound } from '../../errors';
 import { imageTypeOf } from '../image-type';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
-import { lockUnit, transitionUnit, unitEvent } from './history';
+import { lockUnit, lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { nominalVf, predictUnit } from './unit-circuit';
 
@@ -100,8 +100,9 @@ async function ownedUnitForWork(trx: Knex.Transaction, user: SessionUser, unitId
 /** Starts a checklist step; the first start puts the unit (and its batch and order) on the bench. */
 export async function startStep(knex: Knex, user: SessionUser, unitId: number, stepId: number) {
   return knex.transaction(async (trx) => {
+    // The ledger's lock order: the batch (it may go on the bench), then the unit.
+    const { batch } = await lockUnitWithBatch(trx, unitId);
     const unit = await ownedUnitForWork(trx, user, unitId);
-    const batch = await trx('batches').where({ id: unit.batch_id }).forUpdate().first();
     const step = await trx('build_steps').where({ id: stepId, revision_id: batch.revision_id }).first();
     if (!step) throw notFound('No such step on this build');
     const existing = await trx('unit_steps').where({ unit_id: unitId, step_id: stepId }).first();

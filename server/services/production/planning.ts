@@ -4,6 +4,7 @@ import type { CreateBatchInput } from '../../../shared/schemas/production';
 import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../../shared/production/states';
 import { batchLabel } from '../../../shared/production/serials';
 import { conflict, invalid, notFound } from '../../errors';
+import { lockBatchRow } from '../stock/ledger';
 import { earliestStart, explodeBom } from './requirements';
 
 type Db = Knex | Knex.Transaction;
@@ -63,11 +64,8 @@ export async function createBatch(knex: Knex, userId: number, input: CreateBatch
   });
 }
 
-export async function lockBatch(trx: Knex.Transaction, batchId: number) {
-  const batch = await trx('batches').where({ id: batchId }).forUpdate().first();
-  if (!batch) throw notFound('No such batch');
-  return batch;
-}
+/** Locks a batch row first, as the ledger's lock order asks (server/services/stock/ledger.ts). */
+export const lockBatch = lockBatchRow;
 
 export function assertBatchTransition(batch: { number: number; state: BatchState }, to: BatchState) {
   if (!BATCH_TRANSITIONS[batch.state].includes(to)) {
@@ -75,12 +73,12 @@ export function assertBatchTransition(batch: { number: number; state: BatchState
   }
 }
 
-/** Units per option still to build for a batch: its lines while planning, else open units not yet kitted. */
-async function openQuantities(db: Db, batch: { id: number; state: BatchState }) {
-  const rows = (batch.state === 'draft'
-    ? await db('batch_lines').where({ batch_id: batch.id }).select('option_id').sum({ n: 'quantity' }).groupBy('option_id')
-    : await db('units').where({ batch_id: batch.id }).whereNull('kitted_at').whereNot('state', 'cancelled').select('option_id').count({ n: '*' }).groupBy('option_id')) as unknown as { option_id: number; n: string }[];
-  return new Map<number, number>(rows.map((r: { option_id: number; n: string }) => [r.option_id, Number(r.n)]));
+/** Units per option still to build: the lines while planning, else the open units not yet kitted. */
+function openQuantities(state: BatchState, lines: { option_id: number; quantity: number }[], units: { option_id: number; state: string; kitted_at: unknown }[]) {
+  const counts = new Map<number, number>();
+  if (state === 'draft') for (const l of lines) counts.set(l.option_id, (counts.get(l.option_id) ?? 0) + l.quantity);
+  else for (const u of units) if (u.kitted_at === null && u.state !== 'cancelled') counts.set(u.option_id, (counts.get(u.option_id) ?? 0) + 1);
+  return counts;
 }
 
 /** A batch with its lines, units, exploded BOM against stock, shortages and earliest start. */
@@ -95,9 +93,9 @@ export async function getBatch(db: Db, batchId: number) {
   const units = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id').join('clipping_options as c', 'c.id', 'u.option_id')
     .leftJoin('orders as o', 'o.id', 'u.order_id')
     .where('u.batch_id', batchId)
-    .select('u.id', 'u.serial', 'u.sequence', 'u.state', 'u.assembler_id', 'a.name as assembler_name', 'u.planned_date', 'u.kitted_at', 'c.code as option_code', 'o.number as order_number', 'o.due_at')
+    .select('u.id', 'u.serial', 'u.sequence', 'u.state', 'u.option_id', 'u.assembler_id', 'a.name as assembler_name', 'u.planned_date', 'u.kitted_at', 'c.code as option_code', 'o.number as order_number', 'o.due_at')
     .orderBy('u.sequence');
-  const requirements = await explodeBom(db, batch.revision_id, await openQuantities(db, batch), batch.state === 'draft' ? null : batch.id);
+  const requirements = await explodeBom(db, batch.revision_id, openQuantities(batch.state, lines, units), batch.state === 'draft' ? null : batch.id);
   return {
     batch: {
       id: batch.id, number: batch.number, label: batchLabel(batch.number), state: batch.state as BatchState,

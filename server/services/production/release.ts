@@ -10,6 +10,7 @@ import { getSettings } from '../settings';
 import { listAssemblers } from './assignment';
 import { assertBatchTransition, lockBatch } from './planning';
 import { explodeBom } from './requirements';
+import { appendMovements, batchHoldings, lockUnitRows } from '../stock/ledger';
 
 /**
  * Releases a batch: freezes its revision, creates its serial-numbered units (1..N, no gaps),
@@ -95,17 +96,14 @@ export async function cancelBatch(knex: Knex, userId: number, batchId: number, r
   return knex.transaction(async (trx) => {
     const batch = await lockBatch(trx, batchId);
     assertBatchTransition(batch, 'cancelled');
-    const started = await trx('units').where({ batch_id: batchId }).whereNotIn('state', ['waiting', 'cancelled']).first();
-    if (started || (await trx('units').where({ batch_id: batchId }).whereNotNull('kitted_at').first())) throw conflict('Units of this batch are kitted or being built: cancel those units one by one instead');
-    const held = (await trx('stock_movements').where({ batch_id: batchId }).select('part_id').sum({ r: 'reserved_delta' }).groupBy('part_id').orderBy('part_id')) as unknown as { part_id: number; r: string }[];
-    if (held.length) await trx('parts').whereIn('id', held.map((h: { part_id: number }) => h.part_id)).orderBy('id').forUpdate().select('id');
-    for (const h of held as { part_id: number; r: string }[]) {
-      const q = Number(h.r);
-      if (q > 0) await trx('stock_movements').insert({ part_id: h.part_id, kind: 'release', quantity: q, on_hand_delta: 0, reserved_delta: -q, user_id: userId, batch_id: batchId, reason: `batch cancelled: ${reason}` });
-    }
-    const units = await trx('units').where({ batch_id: batchId, state: 'waiting' }).select('id');
-    await trx('units').where({ batch_id: batchId, state: 'waiting' }).update({ state: 'cancelled', updated_at: trx.fn.now() });
-    if (units.length) await trx('unit_events').insert(units.map((u: { id: number }) => ({ unit_id: u.id, kind: 'state-change', from_state: 'waiting', to_state: 'cancelled', message: reason, user_id: userId })));
+    // The ledger's lock order: the batch (above), its units, then the parts it holds.
+    const units = await lockUnitRows(trx, await trx('units').where({ batch_id: batchId }).pluck('id'));
+    if (units.some((u) => !['waiting', 'cancelled'].includes(u.state) || u.kitted_at)) throw conflict('Units of this batch are kitted or being built: cancel those units one by one instead');
+    const held = [...(await batchHoldings(trx, batchId))].filter(([, h]) => h.reserved > 0);
+    await appendMovements(trx, held.map(([partId, h]) => ({ partId, kind: 'release' as const, quantity: h.reserved, userId, batchId, reason: `batch cancelled: ${reason}` })));
+    const waiting = units.filter((u) => u.state === 'waiting');
+    await trx('units').whereIn('id', waiting.map((u) => u.id)).update({ state: 'cancelled', updated_at: trx.fn.now() });
+    if (waiting.length) await trx('unit_events').insert(waiting.map((u: { id: number }) => ({ unit_id: u.id, kind: 'state-change', from_state: 'waiting', to_state: 'cancelled', message: reason, user_id: userId })));
     const orderIds: number[] = await trx('order_lines').where({ batch_id: batchId }).distinct().pluck('order_id');
     await trx('order_lines').where({ batch_id: batchId }).update({ batch_id: null });
     for (const orderId of orderIds) {

@@ -1,4 +1,5 @@
 import type { Knex } from 'knex';
+import { batchHoldingsMany } from '../stock/ledger';
 
 type Db = Knex | Knex.Transaction;
 
@@ -45,39 +46,64 @@ export interface RequirementRow {
  * stock ledger. `units` maps option id → units still to build (open, not kitted).
  */
 export async function explodeBom(db: Db, revisionId: number, units: Map<number, number>, batchId: number | null): Promise<RequirementRow[]> {
-  const perOption = await partsPerUnit(db, revisionId, [...units.keys()]);
-  const base = new Map<number, number>(
-    ((await db('bom_lines').where({ revision_id: revisionId }).select('part_id').sum({ q: 'quantity' }).groupBy('part_id')) as unknown as { part_id: number; q: string }[])
-      .map((r: { part_id: number; q: string }) => [r.part_id, Number(r.q)]),
-  );
-  const totals = new Map<number, { base: number; option: number }>();
-  for (const [optionId, count] of units) {
-    for (const [partId, q] of perOption.get(optionId) ?? []) {
-      const t = totals.get(partId) ?? { base: 0, option: 0 };
-      const b = base.get(partId) ?? 0;
-      t.base += b * count;
-      t.option += (q - b) * count;
-      totals.set(partId, t);
-    }
+  return (await explodeBoms(db, [{ revisionId, units, batchId }]))[0];
+}
+
+export interface BomRequest { revisionId: number; units: Map<number, number>; batchId: number | null }
+
+/**
+ * explodeBom for many batches at once in four queries (base BOMs, option deltas, parts with their
+ * balance, batch holdings), whatever their number: the board asks for every live batch.
+ */
+export async function explodeBoms(db: Db, requests: BomRequest[]): Promise<RequirementRow[][]> {
+  const revisionIds = [...new Set(requests.map((r) => r.revisionId))];
+  const optionIds = [...new Set(requests.flatMap((r) => [...r.units.keys()]))];
+  if (!requests.some((r) => r.units.size)) return requests.map(() => []);
+  const [baseRows, deltaRows] = await Promise.all([
+    db('bom_lines').whereIn('revision_id', revisionIds).select('revision_id', 'part_id').sum({ q: 'quantity' }).groupBy('revision_id', 'part_id') as unknown as Promise<{ revision_id: number; part_id: number; q: string }[]>,
+    (optionIds.length
+      ? db('option_devices as od').join('devices as d', 'd.id', 'od.device_id').whereIn('od.option_id', optionIds).whereNotNull('d.part_id')
+          .select('od.option_id', 'd.part_id').count({ q: '*' }).groupBy('od.option_id', 'd.part_id')
+      : Promise.resolve([])) as unknown as Promise<{ option_id: number; part_id: number; q: string }[]>,
+  ]);
+  const baseOf = new Map<number, Map<number, number>>(revisionIds.map((id) => [id, new Map()]));
+  for (const r of baseRows) baseOf.get(r.revision_id)!.set(r.part_id, Number(r.q));
+  const deltaOf = new Map<number, Map<number, number>>();
+  for (const r of deltaRows) {
+    if (!deltaOf.has(r.option_id)) deltaOf.set(r.option_id, new Map());
+    deltaOf.get(r.option_id)!.set(r.part_id, Number(r.q));
   }
-  if (totals.size === 0) return [];
-  const partIds = [...totals.keys()];
-  const parts = await db('parts as p').leftJoin('suppliers as s', 's.id', 'p.supplier_id').join('part_stock as ps', 'ps.part_id', 'p.id')
-    .whereIn('p.id', partIds)
-    .select('p.id', 'p.part_number', 'p.category', 'p.value', 'p.package', 'p.unit_cost_cents', 'p.lead_time_days', 's.name as supplier', 's.default_lead_time_days', 'ps.available');
-  const held = batchId
-    ? new Map<number, { reserved: number; consumed: number }>(
-        ((await db('stock_movements').where({ batch_id: batchId }).whereIn('part_id', partIds).select('part_id')
-          .sum({ reserved: 'reserved_delta' })
-          .select(db.raw(`COALESCE(SUM(CASE WHEN kind = 'consume' THEN quantity ELSE 0 END), 0)::int AS consumed`))
-          .groupBy('part_id')) as unknown as { part_id: number; reserved: string; consumed: number }[])
-          .map((r: { part_id: number; reserved: string; consumed: number }) => [r.part_id, { reserved: Number(r.reserved), consumed: Number(r.consumed) }]),
-      )
-    : new Map();
-  return parts
-    .map((p: Record<string, unknown>) => {
+  // Per request: part → {base, option} quantities over its units.
+  const totalsPerRequest = requests.map((req) => {
+    const base = baseOf.get(req.revisionId)!;
+    const totals = new Map<number, { base: number; option: number }>();
+    const add = (partId: number, b: number, o: number) => {
+      const t = totals.get(partId) ?? { base: 0, option: 0 };
+      t.base += b;
+      t.option += o;
+      totals.set(partId, t);
+    };
+    for (const [optionId, count] of req.units) {
+      for (const [partId, q] of base) add(partId, q * count, 0);
+      for (const [partId, q] of deltaOf.get(optionId) ?? []) add(partId, 0, q * count);
+    }
+    return totals;
+  });
+  const partIds = [...new Set(totalsPerRequest.flatMap((t) => [...t.keys()]))];
+  const batchIds = [...new Set(requests.map((r) => r.batchId).filter((id): id is number => id !== null))];
+  const [parts, heldRows] = await Promise.all([
+    partIds.length
+      ? db('parts as p').leftJoin('suppliers as s', 's.id', 'p.supplier_id').join('part_stock as ps', 'ps.part_id', 'p.id').whereIn('p.id', partIds)
+          .select('p.id', 'p.part_number', 'p.category', 'p.value', 'p.package', 'p.unit_cost_cents', 'p.lead_time_days', 's.name as supplier', 'ps.available')
+      : [],
+    batchIds.length && partIds.length ? batchHoldingsMany(db, batchIds, partIds) : [],
+  ]);
+  const held = new Map(heldRows.map((h) => [`${h.batch_id}:${h.part_id}`, h]));
+  return requests.map((req, i) => {
+    const totals = totalsPerRequest[i];
+    return (parts as Record<string, unknown>[]).filter((p) => totals.has(p.id as number)).map((p) => {
       const t = totals.get(p.id as number)!;
-      const h = held.get(p.id as number) ?? { reserved: 0, consumed: 0 };
+      const h = held.get(`${req.batchId}:${p.id}`) ?? { reserved: 0, consumed: 0 };
       const required = t.base + t.option;
       const available = Number(p.available);
       return {
@@ -97,8 +123,8 @@ export async function explodeBom(db: Db, revisionId: number, units: Map<number, 
         // What is reserved for this batch already counts towards it.
         shortage: Math.max(0, required - h.reserved - available),
       };
-    })
-    .sort((a, b) => a.partNumber.localeCompare(b.partNumber));
+    }).sort((a, b) => a.partNumber.localeCompare(b.partNumber));
+  });
 }
 
 /** The earliest day building can start: today if nothing is short, else after the longest lead time of a short part. */

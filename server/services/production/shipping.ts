@@ -7,7 +7,8 @@ import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
 import { renderPackingSlip } from '../../pdf/packing-slip';
-import { lockUnit, transitionUnit } from './history';
+import { lockUnit, lockUnitWithBatch, transitionUnit } from './history';
+import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { closeBatchIfDone, orderFullyPassed } from './testing';
 
 type Db = Knex | Knex.Transaction;
@@ -52,6 +53,9 @@ export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderI
     const units = await trx('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
       .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
       .where('u.order_id', order.id).where('u.state', 'passed').select('u.id', 'u.serial', 'u.batch_id', 'm.name as model_name', 'c.name as option_name', 'r.supply_v').orderBy('u.serial');
+    // The ledger's lock order: the batches (a pass may close them), then the units.
+    for (const batchId of [...new Set(units.map((u) => u.batch_id as number))].sort((a, b) => a - b)) await lockBatchRow(trx, batchId);
+    await lockUnitRows(trx, units.map((u) => u.id));
     const [shipment] = await trx('shipments').insert({ order_id: order.id, carrier: input.carrier, tracking_number: input.trackingNumber, shipped_by: user.id }).returning('*');
     for (const u of units) {
       const unit = await lockUnit(trx, u.id);
@@ -87,7 +91,7 @@ export async function markDelivered(knex: Knex, user: SessionUser, shipmentId: n
 /** A passed unit built for stock goes to finished stock, to fulfil a later order of the same model and option. */
 export async function moveToFinishedStock(knex: Knex, user: SessionUser, unitId: number) {
   return knex.transaction(async (trx) => {
-    const unit = await lockUnit(trx, unitId);
+    const { unit } = await lockUnitWithBatch(trx, unitId);
     if (unit.order_id) throw conflict(`Unit ${unit.serial} belongs to an order: ship it with that order`);
     await transitionUnit(trx, unit, 'in_stock', user.id, 'into finished stock');
     await closeBatchIfDone(trx, unit.batch_id);

@@ -1,24 +1,25 @@
 import type { Knex } from 'knex';
 import { conflict } from '../../errors';
-import { unitEvent, lockUnit, transitionUnit } from './history';
+import { appendMovements, batchHoldings, lockParts, type Movement } from '../stock/ledger';
+import { unitEvent, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatch } from './planning';
 import { partsPerUnit } from './requirements';
 
-// Kitting through the stock ledger. Every writer locks the parts rows it touches FOR UPDATE in
-// part-id order first (so two batches never deadlock), then reads available from part_stock:
-// with the rows locked no other kitting can move the same parts, so available never goes negative.
+// Kitting, reserving and cancelling through the one stock ledger (server/services/stock/ledger.ts),
+// in its lock order: the batch, then the unit, then the parts in id order. With the batch locked no
+// other planner action or kit of the same batch runs at the same time; with the parts locked no
+// other batch moves the same parts, so available never goes negative.
 
-async function lockParts(trx: Knex.Transaction, partIds: number[]) {
-  const ids = [...new Set(partIds)].sort((a, b) => a - b);
-  if (ids.length) await trx('parts').whereIn('id', ids).orderBy('id').forUpdate().select('id');
-  const rows = ids.length ? await trx('part_stock').whereIn('part_id', ids).select('part_id', 'available') : [];
-  return new Map<number, number>(rows.map((r: { part_id: number; available: number }) => [r.part_id, Number(r.available)]));
+async function lockPartsAvailable(trx: Knex.Transaction, partIds: number[]) {
+  const balances = await lockParts(trx, partIds);
+  return new Map<number, number>([...balances].map(([id, b]) => [id, b.available]));
 }
 
 async function batchReservations(trx: Knex.Transaction, batchId: number) {
-  const rows = (await trx('stock_movements').where({ batch_id: batchId }).select('part_id').sum({ r: 'reserved_delta' }).groupBy('part_id')) as unknown as { part_id: number; r: string }[];
-  return new Map<number, number>(rows.map((r: { part_id: number; r: string }) => [r.part_id, Number(r.r)]));
+  return new Map<number, number>([...(await batchHoldings(trx, batchId))].map(([id, h]) => [id, h.reserved]));
 }
+
+const LIVE_BATCH = ['released', 'on_bench'];
 
 /** Needs of the open, not yet kitted units of a batch, per part. */
 async function openNeeds(trx: Knex.Transaction, batch: { id: number; revision_id: number }) {
@@ -35,33 +36,32 @@ async function openNeeds(trx: Knex.Transaction, batch: { id: number; revision_id
 export async function reserveForBatch(knex: Knex, userId: number, batchId: number) {
   return knex.transaction(async (trx) => {
     const batch = await lockBatch(trx, batchId);
-    if (!['released', 'on_bench'].includes(batch.state)) throw conflict('Only a released batch can reserve stock');
+    if (!LIVE_BATCH.includes(batch.state)) throw conflict('Only a released batch can reserve stock');
     const need = await openNeeds(trx, batch);
-    const available = await lockParts(trx, [...need.keys()]);
+    const available = await lockPartsAvailable(trx, [...need.keys()]);
     const held = await batchReservations(trx, batchId);
-    let reserved = 0;
     let stillShort = 0;
+    const movements: Movement[] = [];
     for (const [partId, q] of [...need].sort((a, b) => a[0] - b[0])) {
       const want = q - (held.get(partId) ?? 0);
       if (want <= 0) continue;
       const take = Math.min(want, Math.max(0, available.get(partId) ?? 0));
       stillShort += want - take;
-      if (take <= 0) continue;
-      await trx('stock_movements').insert({ part_id: partId, kind: 'reserve', quantity: take, on_hand_delta: 0, reserved_delta: take, user_id: userId, batch_id: batchId, reason: 'reserved for the batch' });
-      reserved += take;
+      if (take > 0) movements.push({ partId, kind: 'reserve', quantity: take, userId, batchId, reason: 'reserved for the batch' });
     }
-    return { reserved, stillShort };
+    await appendMovements(trx, movements);
+    return { reserved: movements.reduce((a, m) => a + m.quantity, 0), stillShort };
   });
 }
 
 /** Kits one unit: consumes its parts, from the batch's reservation first, then from free stock. All or nothing. */
 export async function kitUnit(trx: Knex.Transaction, userId: number, unitId: number) {
-  const unit = await lockUnit(trx, unitId);
+  const { unit, batch } = await lockUnitWithBatch(trx, unitId);
   if (unit.kitted_at) throw conflict(`Unit ${unit.serial} is already kitted`);
   if (unit.state === 'cancelled') throw conflict(`Unit ${unit.serial} is cancelled`);
-  const batch = await trx('batches').where({ id: unit.batch_id }).first();
+  if (!LIVE_BATCH.includes(batch.state)) throw conflict(`Unit ${unit.serial}: its batch is no longer released`);
   const need = (await partsPerUnit(trx, batch.revision_id, [unit.option_id])).get(unit.option_id)!;
-  const available = await lockParts(trx, [...need.keys()]);
+  const available = await lockPartsAvailable(trx, [...need.keys()]);
   const held = await batchReservations(trx, unit.batch_id);
   const plan = [...need].sort((a, b) => a[0] - b[0]).map(([partId, q]) => {
     const fromReservation = Math.min(q, Math.max(0, held.get(partId) ?? 0));
@@ -72,9 +72,10 @@ export async function kitUnit(trx: Knex.Transaction, userId: number, unitId: num
     const names = await trx('parts').whereIn('id', short.map((s) => s.partId)).pluck('part_number');
     throw conflict(`Not enough stock to kit ${unit.serial}: short of ${names.join(', ')}`);
   }
-  for (const p of plan) {
-    await trx('stock_movements').insert({ part_id: p.partId, kind: 'consume', quantity: p.q, on_hand_delta: -p.q, reserved_delta: -p.fromReservation, user_id: userId, batch_id: unit.batch_id, unit_id: unit.id, reason: `kitted ${unit.serial}` });
-  }
+  await appendMovements(trx, plan.map((p) => ({
+    partId: p.partId, kind: 'consume' as const, quantity: p.q, onHandDelta: -p.q, reservedDelta: -p.fromReservation,
+    userId, batchId: unit.batch_id, unitId: unit.id, reason: `kitted ${unit.serial}`,
+  })));
   await trx('units').where({ id: unit.id }).update({ kitted_at: trx.fn.now(), updated_at: trx.fn.now() });
   await unitEvent(trx, unit.id, 'kitted', 'parts taken from stock', userId);
 }
@@ -83,7 +84,7 @@ export async function kitUnit(trx: Knex.Transaction, userId: number, unitId: num
 export async function kitBatch(knex: Knex, userId: number, batchId: number) {
   const unitIds: number[] = await knex('units').where({ batch_id: batchId }).whereNull('kitted_at').whereNot('state', 'cancelled').orderBy('sequence').pluck('id');
   const batch = await knex('batches').where({ id: batchId }).first();
-  if (!batch || !['released', 'on_bench'].includes(batch.state)) throw conflict('Only a released batch can be kitted');
+  if (!batch || !LIVE_BATCH.includes(batch.state)) throw conflict('Only a released batch can be kitted');
   let kitted = 0;
   const short: string[] = [];
   for (const id of unitIds) {
@@ -101,19 +102,20 @@ export async function kitBatch(knex: Knex, userId: number, batchId: number) {
 /** Cancels a unit that is not yet built; its share of the batch's reservation goes back to free stock. */
 export async function cancelUnit(knex: Knex, userId: number, unitId: number, reason: string) {
   return knex.transaction(async (trx) => {
-    const unit = await lockUnit(trx, unitId);
+    const { unit, batch } = await lockUnitWithBatch(trx, unitId);
     await transitionUnit(trx, unit, 'cancelled', userId, reason);
     if (!unit.kitted_at) {
-      const batch = await trx('batches').where({ id: unit.batch_id }).first();
       const need = (await partsPerUnit(trx, batch.revision_id, [unit.option_id])).get(unit.option_id)!;
       await lockParts(trx, [...need.keys()]);
       const held = await batchReservations(trx, unit.batch_id);
       // Keep what the remaining open units still need; release only the surplus.
       const stillNeeded = await openNeeds(trx, batch);
+      const releases: Movement[] = [];
       for (const [partId] of [...need].sort((a, b) => a[0] - b[0])) {
         const surplus = (held.get(partId) ?? 0) - (stillNeeded.get(partId) ?? 0);
-        if (surplus > 0) await trx('stock_movements').insert({ part_id: partId, kind: 'release', quantity: surplus, on_hand_delta: 0, reserved_delta: -surplus, user_id: userId, batch_id: unit.batch_id, unit_id: unit.id, reason: `unit ${unit.serial} cancelled` });
+        if (surplus > 0) releases.push({ partId, kind: 'release', quantity: surplus, userId, batchId: unit.batch_id, unitId: unit.id, reason: `unit ${unit.serial} cancelled` });
       }
+      await appendMovements(trx, releases);
     }
     return { id: unit.id, state: unit.state };
   });

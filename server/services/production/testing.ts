@@ -7,7 +7,7 @@ import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
 import { analyseWav } from './capture';
-import { lockUnit, transitionUnit, unitEvent } from './history';
+import { lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { predictUnit } from './unit-circuit';
 import { sheetFilename, storeSheetForPassedUnit } from '../spec-sheets/sheets';
@@ -38,7 +38,8 @@ export async function orderFullyPassed(trx: Db, orderId: number) {
 export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }, publicUrl = '') {
   const analysis = capture ? analyseWav(capture) : null;
   return knex.transaction(async (trx) => {
-    const unit = await lockUnit(trx, unitId);
+    // Batch first: a pass may close the batch (closeBatchIfDone).
+    const { unit } = await lockUnitWithBatch(trx, unitId);
     if (unit.state !== 'built') throw conflict(`Unit ${unit.serial} is not waiting for a test`);
     const settings = await getSettings(trx);
     const batch = await trx('batches').where({ id: unit.batch_id }).first();
