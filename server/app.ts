@@ -1,6 +1,5 @@
 import express from 'express';
 import helmet from 'helmet';
-import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
 import path from 'node:path';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
@@ -8,7 +7,7 @@ import pg from 'pg';
 import type { Knex } from 'knex';
 import type { Config } from './config';
 import { csrfProtection } from './auth/csrf';
-import { PostgresRateLimitStore } from './auth/rate-limit-store';
+import { authLimiters } from './auth/limits';
 import { createPassport, sessionMiddleware } from './auth/session';
 import { DomainError, errorMiddleware, requestId } from './errors';
 import { refuseNul } from './http/input-guard';
@@ -55,7 +54,8 @@ export function createApp({ knex, config }: AppDeps) {
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5 });
 
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // Only the proxies named in TRUST_PROXY may say who the client is (req.ip, req.secure).
+  app.set('trust proxy', config.trustProxy);
   app.use(requestId);
   app.use(helmet());
   // Webhooks are verified against the exact bytes received, so keep them.
@@ -67,21 +67,9 @@ export function createApp({ knex, config }: AppDeps) {
   app.use(passport.session());
   app.use('/api', csrfProtection(CSRF_EXEMPT.map((p) => p.replace(/^\/api/, ''))));
 
-  const loginLimiter = rateLimit({
-    windowMs: config.LOGIN_WINDOW_MINUTES * 60_000,
-    limit: config.LOGIN_MAX_FAILURES,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    store: new PostgresRateLimitStore(knex, 'login:'),
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`,
-    handler: (_req, _res, next) =>
-      next(new DomainError(429, 'rate_limited', 'Too many failed sign-in attempts: wait a few minutes and try again')),
-  });
-
   const routes: RouteDef[] = [
     ...healthRoutes(knex),
-    ...authRoutes(knex, passport, loginLimiter),
+    ...authRoutes(knex, passport, authLimiters(knex, config)),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
     ...profileRoutes(),

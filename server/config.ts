@@ -1,4 +1,8 @@
 import { z } from 'zod';
+import { checkSecrets } from './secrets';
+
+const flag = z.enum(['true', 'false']);
+const count = (fallback: number) => z.coerce.number().int().min(1).default(fallback);
 
 // Configuration is read once at start-up; a wrong value stops the server with a readable list.
 const schema = z.object({
@@ -8,9 +12,24 @@ const schema = z.object({
   HOST: z.string().default('127.0.0.1'),
   PUBLIC_URL: z.string().url().optional(),
   SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
-  COOKIE_SECURE: z.enum(['true', 'false']).default('false'),
-  LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(8),
-  LOGIN_WINDOW_MINUTES: z.coerce.number().int().min(1).default(15),
+  // Unset: Secure cookies in production, plain ones in development and tests.
+  COOKIE_SECURE: flag.optional(),
+  // Which proxies may set X-Forwarded-For / -Proto: express's `trust proxy` (a hop count, or
+  // addresses, subnets and loopback/linklocal/uniquelocal, comma-separated). Unset: none.
+  TRUST_PROXY: z.string().trim().default(''),
+  // Failed sign-ins: per account (the e-mail, from any address) and per client address (any e-mail).
+  LOGIN_MAX_FAILURES: count(8),
+  LOGIN_ADDRESS_MAX_FAILURES: count(30),
+  LOGIN_WINDOW_MINUTES: count(15),
+  // Registrations per client address.
+  REGISTER_MAX_PER_ADDRESS: count(10),
+  REGISTER_WINDOW_MINUTES: count(60),
+  // Wrong current passwords per account when changing it.
+  PASSWORD_CHANGE_MAX_FAILURES: count(5),
+  PASSWORD_CHANGE_WINDOW_MINUTES: count(15),
+  // The public unit check: every request per minute, and unknown serials (or wrong codes) per day, per address.
+  VERIFY_MAX_PER_MINUTE: count(30),
+  VERIFY_MAX_MISSES_PER_DAY: count(60),
   PAYMENTS_API_KEY: z.string().default('sk_test_kneepoint_local'),
   PAYMENTS_HOST: z.string().default('127.0.0.1'),
   PAYMENTS_PORT: z.coerce.number().int().default(3101),
@@ -18,7 +37,7 @@ const schema = z.object({
   PAYMENTS_WEBHOOK_SECRET: z.string().default('whsec_kneepoint_local'),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().default(3125),
-  SMTP_SECURE: z.enum(['true', 'false']).default('false'),
+  SMTP_SECURE: flag.default('false'),
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().default('Kneepoint <workshop@shop.example>'),
@@ -29,14 +48,38 @@ const schema = z.object({
   OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(12),
 });
 
-export type Config = z.infer<typeof schema> & { publicUrl: string };
+export type Config = z.infer<typeof schema> & {
+  publicUrl: string;
+  cookieSecure: boolean;
+  trustProxy: false | number | string;
+};
+
+const LOOPBACK_HOSTS = ['127.0.0.1', 'localhost', '[::1]'];
+
+/** `trust proxy` from TRUST_PROXY: nothing by default, so a client cannot pick its own address. */
+function trustProxy(value: string): false | number | string {
+  if (value === '' || value === 'false') return false;
+  if (/^\d+$/.test(value)) return Number(value);
+  return value;
+}
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const result = schema.safeParse(env);
-  if (!result.success) {
-    const lines = result.error.issues.map((i) => `  - ${i.path.join('.')}: ${i.message}`);
-    throw new Error(`Kneepoint's configuration is not valid:\n${lines.join('\n')}`);
+  const problems = result.success ? [] : result.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`);
+  if (result.success) {
+    const c = result.data;
+    const publicUrl = c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`;
+    if (c.NODE_ENV === 'production') {
+      problems.push(...checkSecrets(env));
+      const host = new URL(publicUrl).hostname;
+      if (c.COOKIE_SECURE === 'false' && (!publicUrl.startsWith('http:') || !LOOPBACK_HOSTS.includes(host))) {
+        problems.push(`COOKIE_SECURE: plain cookies in production are only for plain http on loopback, and PUBLIC_URL is ${publicUrl}`);
+      }
+    }
+    if (problems.length === 0) {
+      const cookieSecure = c.COOKIE_SECURE ? c.COOKIE_SECURE === 'true' : c.NODE_ENV === 'production';
+      return { ...c, publicUrl, cookieSecure, trustProxy: trustProxy(c.TRUST_PROXY) };
+    }
   }
-  const c = result.data;
-  return { ...c, publicUrl: c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}` };
+  throw new Error(`Kneepoint's configuration is not valid:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
 }

@@ -20,7 +20,7 @@ export function sessionMiddleware(pool: pg.Pool, config: Config) {
     resave: false,
     saveUninitialized: false,
     rolling: true,
-    cookie: { httpOnly: true, sameSite: 'lax', secure: config.COOKIE_SECURE === 'true', maxAge: WEEK_MS },
+    cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: WEEK_MS },
   });
 }
 

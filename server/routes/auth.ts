@@ -1,9 +1,10 @@
-import type { Request, RequestHandler } from 'express';
+import type { Request } from 'express';
 import type { createPassport } from '../auth/session';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../shared/roles';
 import { changePasswordSchema, loginSchema, registerSchema } from '../../shared/schemas/auth';
 import { csrfToken } from '../auth/csrf';
+import type { AuthLimiters } from '../auth/limits';
 import { parseWith, unauthorized } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
 import * as users from '../services/users';
@@ -15,11 +16,14 @@ function logIn(req: Request, user: SessionUser): Promise<void> {
 // The one message for every failed sign-in, so nobody can learn which e-mails have accounts.
 const BAD_SIGN_IN = 'That e-mail and password do not match an active account';
 
-export function authRoutes(knex: Knex, passport: ReturnType<typeof createPassport>, loginLimiter: RequestHandler): RouteDef[] {
+// The one answer to every well-formed registration, whether or not the address has an account.
+const REGISTERED = 'Thank you. We have sent a mail to that address; if you just made a new account, you can sign in now.';
+
+export function authRoutes(knex: Knex, passport: ReturnType<typeof createPassport>, limits: AuthLimiters): RouteDef[] {
   return [
     { method: 'get', path: '/api/auth/csrf', allow: 'public', handler: (req, res) => res.json({ csrfToken: csrfToken(req) }) },
     {
-      method: 'post', path: '/api/auth/login', allow: 'public', before: [loginLimiter],
+      method: 'post', path: '/api/auth/login', allow: 'public', before: limits.login,
       handler: async (req, res) => {
         req.body = parseWith(loginSchema, req.body);
         const user = await new Promise<SessionUser | false>((resolve, reject) => {
@@ -41,18 +45,18 @@ export function authRoutes(knex: Knex, passport: ReturnType<typeof createPasspor
     },
     { method: 'get', path: '/api/auth/me', allow: 'signed-in', handler: (req, res) => res.json({ user: currentUser(req), csrfToken: csrfToken(req) }) },
     {
-      method: 'post', path: '/api/auth/register', allow: 'public',
+      // Never signs in and never says whether the address had an account: the client signs in next.
+      method: 'post', path: '/api/auth/register', allow: 'public', before: limits.register,
       handler: async (req, res) => {
-        const user = await users.registerCustomer(knex, parseWith(registerSchema, req.body));
-        await logIn(req, user);
-        res.status(201).json({ user, csrfToken: csrfToken(req) });
+        await users.registerCustomer(knex, parseWith(registerSchema, req.body));
+        res.status(202).json({ message: REGISTERED });
       },
     },
     {
-      method: 'post', path: '/api/auth/password', allow: 'signed-in',
+      method: 'post', path: '/api/auth/password', allow: 'signed-in', before: limits.passwordChange,
       handler: async (req, res) => {
         const input = parseWith(changePasswordSchema, req.body);
-        await users.changePassword(knex, currentUser(req).id, input.currentPassword, input.newPassword);
+        await users.changePassword(knex, currentUser(req).id, input, req.sessionID);
         res.status(204).end();
       },
     },

@@ -1,10 +1,9 @@
-import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Knex } from 'knex';
 import { BENCH } from '../../shared/roles';
 import { serialParamSchema } from '../../shared/schemas/spec-sheets';
-import { PostgresRateLimitStore } from '../auth/rate-limit-store';
+import { verifyLimiters } from '../auth/limits';
 import type { Config } from '../config';
 import { pathId, pathSerial } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
@@ -23,13 +22,9 @@ const VERIFY_FONTS: Record<string, string> = {
   semibold: path.join(root, 'node_modules/source-sans/WOFF2/TTF/SourceSans3-Semibold.ttf.woff2'),
 };
 
-export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): RouteDef[] {
-  // The public page is rate-limited per address, counted in PostgreSQL so every instance shares it.
-  const verifyLimiter = rateLimit({
-    windowMs: 60_000, limit: verifyLimit, standardHeaders: 'draft-8', legacyHeaders: false,
-    store: new PostgresRateLimitStore(knex, 'verify:'), keyGenerator: (req) => ipKeyGenerator(req.ip ?? ''),
-    handler: async (_req, res) => { res.status(429).type('html').send(tooManyChecksPage(await shopName(knex))); },
-  });
+export function specSheetRoutes(knex: Knex, config: Config): RouteDef[] {
+  // The public page is rate-limited per address (all checks a minute, misses a day), counted in PostgreSQL.
+  const limits = verifyLimiters(knex, config, async (_req, res) => { res.status(429).type('html').send(tooManyChecksPage(await shopName(knex))); });
   return [
     {
       // Staff, or the customer whose order the unit is on (anyone else's unit is "not found"): checked in the service.
@@ -78,11 +73,13 @@ export function specSheetRoutes(knex: Knex, config: Config, verifyLimit = 30): R
       },
     },
     {
-      method: 'get', path: '/verify/:serial', allow: 'public', before: [verifyLimiter],
+      // ?c= is the unit's code from its spec sheet's link (required for units that have one).
+      method: 'get', path: '/verify/:serial', allow: 'public', before: limits,
       handler: async (req, res) => {
         const shop = await shopName(knex);
         const raw = String(req.params.serial);
-        const unit = serialParamSchema.safeParse(raw).success ? await verifyUnit(knex, raw.trim()) : null;
+        const code = typeof req.query.c === 'string' ? req.query.c.slice(0, 100) : '';
+        const unit = serialParamSchema.safeParse(raw).success ? await verifyUnit(knex, raw.trim(), code) : null;
         res.set('Cache-Control', 'no-store');
         if (!unit) return res.status(404).type('html').send(unknownSerialPage(shop, raw));
         return res.type('html').send(verifiedPage(shop, unit));

@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import type { Role, SessionUser } from '../../shared/roles';
 import type { CreateUserInput, RegisterInput, UpdateUserInput } from '../../shared/schemas/auth';
 import { conflict, invalid, isUniqueViolation, notFound } from '../errors';
+import { passwordProblem } from '../../shared/schemas/password';
 import { enqueueMail } from './mail/outbox';
 
 const HASH_ROUNDS = 12;
@@ -50,13 +51,31 @@ async function insertUser(knex: Knex, input: { name: string; email: string; role
   }
 }
 
-// The welcome mail is queued in the same transaction as the account, so it exists exactly when the account does.
-export const registerCustomer = (knex: Knex, input: RegisterInput) =>
-  knex.transaction(async (trx) => {
-    const user = await insertUser(trx, { ...input, role: 'customer' });
-    await enqueueMail(trx, { dedupeKey: `welcome:${user.id}`, template: 'welcome', to: user.email, data: { name: user.name } });
-    return user;
+const HOUR_MS = 3600_000;
+
+/**
+ * Registers a customer, answering the same whatever the e-mail: a new address gets an account and
+ * a welcome mail; an address that has an account gets no second one, and its owner a mail saying
+ * so (at most one an hour). The password is hashed either way, so both take as long. Mail is
+ * queued in the same transaction as the account, so it exists exactly when the account does.
+ */
+export async function registerCustomer(knex: Knex, input: RegisterInput): Promise<void> {
+  const passwordHash = await hashPassword(input.password);
+  await knex.transaction(async (trx) => {
+    const [created] = await trx<UserRow>('users')
+      .insert({ name: input.name, email: input.email, role: 'customer', password_hash: passwordHash })
+      .onConflict('email').ignore()
+      .returning('*');
+    if (created) {
+      await enqueueMail(trx, { dedupeKey: `welcome:${created.id}`, template: 'welcome', to: created.email, data: { name: created.name } });
+      return;
+    }
+    const owner = await trx<UserRow>('users').where({ email: input.email }).first();
+    if (!owner) return;
+    const hour = Math.floor(Date.now() / HOUR_MS);
+    await enqueueMail(trx, { dedupeKey: `account-exists:${owner.id}:${hour}`, template: 'account-exists', to: owner.email, data: { name: owner.name } });
   });
+}
 export const createUser = (knex: Knex, input: CreateUserInput) => insertUser(knex, input);
 
 export async function listUsers(knex: Knex) {
@@ -78,17 +97,32 @@ export async function updateUser(knex: Knex, actorId: number, id: number, input:
       .returning(['id', 'email', 'name', 'role', 'active', 'created_at']);
     if (input.active === false) {
       // Their sessions stop working at once: delete every stored session of theirs.
-      await trx.raw(`DELETE FROM "session" WHERE (sess -> 'passport' ->> 'user') = ?`, [String(id)]);
+      await endSessions(trx, id);
     }
     return updated;
   });
 }
 
-export async function changePassword(knex: Knex, id: number, currentPassword: string, newPassword: string) {
+/**
+ * Changes a password after checking the current one, and ends every other session of the account
+ * (a thief signed in elsewhere is signed out); the session making the change is kept.
+ */
+export async function changePassword(knex: Knex, id: number, input: { currentPassword: string; newPassword: string }, keepSessionId: string) {
   const row = await knex<UserRow>('users').where({ id }).first();
   if (!row) throw notFound('No such user');
-  if (!(await bcrypt.compare(currentPassword, row.password_hash))) {
+  if (!(await bcrypt.compare(input.currentPassword, row.password_hash))) {
     throw invalid('Some fields need attention', { currentPassword: 'This is not your current password' });
   }
-  await knex('users').where({ id }).update({ password_hash: await hashPassword(newPassword), updated_at: knex.fn.now() });
+  const problem = passwordProblem(input.newPassword, row.email);
+  if (problem) throw invalid('Some fields need attention', { newPassword: problem });
+  const passwordHash = await hashPassword(input.newPassword);
+  await knex.transaction(async (trx) => {
+    await trx('users').where({ id }).update({ password_hash: passwordHash, updated_at: trx.fn.now() });
+    await endSessions(trx, id, keepSessionId);
+  });
+}
+
+/** Deletes the account's stored sessions (connect-pg-simple's table), all or all but one. */
+async function endSessions(trx: Knex.Transaction, userId: number, exceptSessionId?: string) {
+  await trx.raw(`DELETE FROM "session" WHERE (sess -> 'passport' ->> 'user') = ? AND sid <> ?`, [String(userId), exceptSessionId ?? '']);
 }

@@ -1,13 +1,11 @@
 import { z } from 'zod';
 import { ROLES } from '../roles';
 import { str } from './common';
+import { newPasswordSchema, refuseEmailAsPassword } from './password';
 
 // One schema per request shape: the forms, the client types and the server's validation share them.
 const email = str().trim().toLowerCase().email('Enter a valid e-mail address').max(200);
-const newPassword = z
-  .string()
-  .min(10, 'Use at least 10 characters')
-  .max(200, 'Use at most 200 characters');
+const newPassword = newPasswordSchema;
 
 export const loginSchema = z.object({
   email,
@@ -19,7 +17,7 @@ export const registerSchema = z.object({
   name: str().trim().min(1, 'Enter your name').max(120),
   email,
   password: newPassword,
-});
+}).superRefine(refuseEmailAsPassword('password'));
 export type RegisterInput = z.infer<typeof registerSchema>;
 
 export const changePasswordSchema = z.object({
@@ -33,7 +31,7 @@ export const createUserSchema = z.object({
   email,
   role: z.enum(ROLES, { message: 'Choose a role' }),
   password: newPassword,
-});
+}).superRefine(refuseEmailAsPassword('password'));
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 
 export const updateUserSchema = z

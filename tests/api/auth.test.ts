@@ -52,7 +52,7 @@ describe('sign-in', () => {
   it('rate-limits repeated failures for one e-mail, then refuses even the right password', async () => {
     const email = uniqueEmail('target');
     const agent = await anonymousAgent(app);
-    await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Rate Target', email, password: 'correct-horse-42' }).expect(201);
+    await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Rate Target', email, password: 'correct-horse-42' }).expect(202);
     const other = await anonymousAgent(app);
     const statuses: number[] = [];
     for (let i = 0; i < 4; i++) {
@@ -85,30 +85,22 @@ describe('CSRF defence', () => {
 });
 
 describe('registration', () => {
-  it('registers a customer, signs them in, and refuses the same e-mail again with 409', async () => {
+  it('registers a customer without signing in; the new account then signs in, and the role is always customer', async () => {
     const email = uniqueEmail('new-customer');
     const agent = await anonymousAgent(app);
-    const res = await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Ada Vale', email: email.toUpperCase(), password: 'long-enough-pass' });
-    expect(res.status).toBe(201);
-    expect(res.body.user).toMatchObject({ email, role: 'customer' });
-    const me = await agent.get('/api/auth/me').expect(200);
-    expect(me.body.user.email).toBe(email);
-    const again = await anonymousAgent(app);
-    const dup = await again.post('/api/auth/register').set('X-CSRF-Token', again.csrf).send({ name: 'Someone', email, password: 'long-enough-pass' });
-    expect(dup.status).toBe(409);
-  });
-
-  it('cannot be used to make staff: the role is always customer', async () => {
-    const agent = await anonymousAgent(app);
-    const res = await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Sneaky', email: uniqueEmail('sneaky'), password: 'long-enough-pass', role: 'owner' });
-    expect(res.status).toBe(201);
-    expect(res.body.user.role).toBe('customer');
+    const res = await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Ada Vale', email: email.toUpperCase(), password: 'long-enough-pass', role: 'owner' });
+    expect(res.status).toBe(202);
+    expect(Object.keys(res.body)).toEqual(['message']);
+    await agent.get('/api/auth/me').expect(401);
+    const signedIn = await signedInAgent(app, email, 'long-enough-pass');
+    const me = await signedIn.get('/api/auth/me').expect(200);
+    expect(me.body.user).toMatchObject({ email, role: 'customer' });
   });
 
   it('stores a hash, never the password', async () => {
     const email = uniqueEmail('hashcheck');
     const agent = await anonymousAgent(app);
-    await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Hash Check', email, password: 'plain-text-secret' }).expect(201);
+    await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Hash Check', email, password: 'plain-text-secret' }).expect(202);
     const row = await t.knex('users').where({ email }).first();
     expect(row.password_hash).not.toContain('plain-text-secret');
     expect(row.password_hash).toMatch(/^\$2[aby]\$12\$/);
@@ -152,9 +144,9 @@ describe('people and roles (owner)', () => {
 describe('change password', () => {
   it('needs the current password, then the new one works and the old does not', async () => {
     const email = uniqueEmail('pw');
-    const agent = await anonymousAgent(app);
-    const reg = await agent.post('/api/auth/register').set('X-CSRF-Token', agent.csrf).send({ name: 'Pw Person', email, password: 'old-password-1' });
-    agent.csrf = reg.body.csrfToken;
+    const anon = await anonymousAgent(app);
+    await anon.post('/api/auth/register').set('X-CSRF-Token', anon.csrf).send({ name: 'Pw Person', email, password: 'old-password-1' }).expect(202);
+    const agent = await signedInAgent(app, email, 'old-password-1');
     const bad = await agent.post('/api/auth/password').set('X-CSRF-Token', agent.csrf).send({ currentPassword: 'nope-nope-nope', newPassword: 'new-password-2' });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields.currentPassword).toBeTruthy();

@@ -1,11 +1,14 @@
 // The app on a real port with the payments fake (and optionally the mail fake) in-process, the
 // fake's webhooks pointed at the app's endpoint with the app's secret.
+import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll } from 'vitest';
 import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/index';
 import { listen } from '../support/browser';
 import { startTestApp } from '../support/app';
 
-export const WEBHOOK_SECRET = 'whsec_kneepoint_ordering_test';
+// Made per test run, like an install's own: no value written in the repository signs a webhook here.
+export const WEBHOOK_SECRET = `whsec_${randomBytes(24).toString('hex')}`;
+export const API_KEY = `sk_test_${randomBytes(24).toString('hex')}`;
 
 export interface PaymentsEnv {
   t: ReturnType<typeof startTestApp>;
@@ -17,8 +20,8 @@ export function usePaymentsApp(extraEnv: () => Record<string, string> = () => ({
   const env = {} as PaymentsEnv;
   let server: Awaited<ReturnType<typeof listen>>;
   beforeAll(async () => {
-    env.fake = await startPaymentsFake({ port: 0, webhookSecret: WEBHOOK_SECRET, retryDelaysMs: [50, 100, 200] });
-    env.t = startTestApp({ PAYMENTS_PORT: String(env.fake.port), PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, ...extraEnv() });
+    env.fake = await startPaymentsFake({ port: 0, webhookSecret: WEBHOOK_SECRET, apiKey: API_KEY, retryDelaysMs: [50, 100, 200] });
+    env.t = startTestApp({ PAYMENTS_PORT: String(env.fake.port), PAYMENTS_WEBHOOK_SECRET: WEBHOOK_SECRET, PAYMENTS_API_KEY: API_KEY, ...extraEnv() });
     server = await listen(env.t.app);
     env.url = server.url;
     env.fake.setWebhookUrl(`${server.url}/api/payments/webhook`);

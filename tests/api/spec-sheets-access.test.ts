@@ -1,5 +1,7 @@
 import express from 'express';
 import request from 'supertest';
+import { listen } from '../support/browser';
+import { freshLoopback, LoopbackClient } from '../support/net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { errorMiddleware } from '../../server/errors';
 import { buildRouter } from '../../server/http/route-table';
@@ -66,9 +68,15 @@ describe('who may download a unit’s spec sheet', () => {
   });
 });
 
+/** The link a unit's spec sheet prints: serial plus the unit's own check code. */
+async function verifyPath(unit: { id: number; serial: string }) {
+  const { verify_code: code } = await t.knex('units').where({ id: unit.id }).first('verify_code');
+  return `/verify/${unit.serial}?c=${code}`;
+}
+
 describe('the public verification page', () => {
   it('confirms a real unit with model, option, build month and verdict, and nothing personal', async () => {
-    const res = await request(t.app).get(`/verify/${batch.units[0].serial}`).expect(200);
+    const res = await request(t.app).get(await verifyPath(batch.units[0])).expect(200);
     expect(res.headers['content-type']).toMatch(/text\/html/);
     expect(res.text).toContain(batch.units[0].serial);
     expect(res.text).toContain('Saltmarsh Drive');
@@ -79,7 +87,7 @@ describe('the public verification page', () => {
   });
 
   it('says a unit still being made is not yet tested', async () => {
-    const res = await request(t.app).get(`/verify/${batch.units[1].serial}`).expect(200);
+    const res = await request(t.app).get(await verifyPath(batch.units[1])).expect(200);
     expect(res.text).toContain('Built, bench test still to come');
   });
 
@@ -92,16 +100,22 @@ describe('the public verification page', () => {
   });
 
   it('is rate-limited per address', async () => {
-    // The same routes with a limit of 3 a minute, so the test needs only a few requests.
+    // The same routes with a limit of 3 a minute, so the test needs only a few requests; the client
+    // talks from a loopback address of its own, so no other test shares the count.
     const app = express();
-    app.set('trust proxy', 'loopback');
-    const routes = specSheetRoutes(t.knex, t.config, 3).filter((r) => r.path === '/verify/:serial');
+    const routes = specSheetRoutes(t.knex, { ...t.config, VERIFY_MAX_PER_MINUTE: 3 }).filter((r) => r.path === '/verify/:serial');
     app.use(buildRouter(routes, { routes: [] }));
     app.use(errorMiddleware);
-    const ip = '203.0.113.77'; // documentation range (RFC 5737), so no other test shares the count
-    for (let i = 0; i < 3; i++) await request(app).get('/verify/HM-B9999-999X').set('X-Forwarded-For', ip).expect(404);
-    const limited = await request(app).get('/verify/HM-B9999-999X').set('X-Forwarded-For', ip).expect(429);
-    expect(limited.text).toContain('Too many checks');
-    await t.knex('rate_limits').where('key', 'like', `verify:${ip}%`).delete();
+    const server = await listen(app);
+    try {
+      const client = new LoopbackClient(server.url, freshLoopback());
+      for (let i = 0; i < 3; i++) expect((await client.get('/verify/HM-B9999-999X')).status).toBe(404);
+      const limited = await client.get('/verify/HM-B9999-999X');
+      expect(limited.status).toBe(429);
+      expect(limited.text).toContain('Too many checks');
+      await t.knex('rate_limits').where('key', 'like', `verify%${client.from}%`).delete();
+    } finally {
+      await server.close();
+    }
   });
 });

@@ -110,7 +110,9 @@ describe('spec sheets in the browser', () => {
 
   it('anyone can check a serial on the verification page', async () => {
     const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
-    await page.goto(`${server.url}/verify/${batch.units[0].serial}`);
+    // The link the unit's spec sheet prints: serial and the unit's check code.
+    const { verify_code: code } = await t.knex('units').where({ id: batch.units[0].id }).first('verify_code');
+    await page.goto(`${server.url}/verify/${batch.units[0].serial}?c=${code}`);
     await page.getByRole('heading', { name: 'This is a genuine Hollowmere Effects unit' }).waitFor();
     expect(await page.getByText('Passed its bench test').count()).toBe(1);
     expect(await page.content()).not.toContain('Castellano');

@@ -34,10 +34,12 @@
  *   POST /_fake/sessions/:id/authenticate {approve}   finish the 3184 card's step
  */
 import type { AddressInfo } from 'node:net';
+import { createHash, timingSafeEqual } from 'node:crypto';
 import express from 'express';
 import { apiRouter } from './api.js';
 import type { FakeContext } from './context.js';
 import { controlRouter } from './control.js';
+import { ApiError } from './errors.js';
 import { PaymentFlow } from './flow.js';
 import { pageRouter } from './page.js';
 import { Store } from './store.js';
@@ -51,6 +53,8 @@ export interface PaymentsFakeOptions {
   host?: string; // loopback by default
   webhookUrl?: string | null;
   webhookSecret?: string;
+  // When set, the only API key accepted (the app's PAYMENTS_API_KEY); otherwise any test-mode key.
+  apiKey?: string;
   // Delays before each retry of a failed webhook delivery.
   retryDelaysMs?: number[];
 }
@@ -66,6 +70,17 @@ export interface PaymentsFake {
 export const DEFAULT_WEBHOOK_SECRET = 'whsec_kneepoint_local';
 const DEFAULT_RETRIES = [500, 1_000, 2_000, 4_000];
 
+// The key arrives as a bearer token (or Basic user name); the provider-shaped 401 names no secret.
+function onlyKey(expected: string): express.RequestHandler {
+  const want = createHash('sha256').update(expected).digest();
+  return (req, res, next) => {
+    const auth = req.get('authorization') ?? '';
+    const given = auth.startsWith('Bearer ') ? auth.slice(7).trim() : auth.startsWith('Basic ') ? Buffer.from(auth.slice(6), 'base64').toString('utf8').split(':')[0] : '';
+    if (timingSafeEqual(createHash('sha256').update(given).digest(), want)) return next();
+    res.status(401).json(new ApiError(401, 'Invalid API Key provided.', 'invalid_request_error').toJSON());
+  };
+}
+
 export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise<PaymentsFake> {
   const host = opts.host ?? '127.0.0.1';
   const store = new Store();
@@ -79,6 +94,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
 
   const app = express();
   app.disable('x-powered-by');
+  if (opts.apiKey) app.use('/v1', onlyKey(opts.apiKey));
   app.use('/v1', apiRouter(ctx));
   app.use('/pay', pageRouter(ctx));
   app.use('/_fake', controlRouter(ctx));

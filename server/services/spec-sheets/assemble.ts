@@ -14,9 +14,13 @@ type Db = Knex | Knex.Transaction;
 
 export const SHEET_STATES = ['passed', 'in_stock', 'shipped'] as const;
 
-/** Where the public verification page lives, e.g. http://127.0.0.1:3000/verify/HM-B0007-012K. */
-export function verifyUrl(publicUrl: string, serial: string) {
-  return `${publicUrl.replace(/\/$/, '')}/verify/${encodeURIComponent(serial)}`;
+/**
+ * Where the public verification page lives, e.g. http://127.0.0.1:3000/verify/HM-B0007-012K?c=…,
+ * with the unit's random code when it has one (units made before codes existed have none).
+ */
+export function verifyUrl(publicUrl: string, serial: string, code?: string | null) {
+  const url = `${publicUrl.replace(/\/$/, '')}/verify/${encodeURIComponent(serial)}`;
+  return code ? `${url}?c=${encodeURIComponent(code)}` : url;
 }
 
 /** The public address the server answers on: PUBLIC_URL, else loopback on PORT (as server/config.ts). */
@@ -118,7 +122,7 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
       verdict: test.outcome === 'pass' ? 'passed' : 'failed',
     } : null,
     power: { supplyV: revision.supply_v, currentMa: test ? test.current_draw_ma : null },
-    verifyUrl: verifyUrl(publicUrl, unit.serial),
+    verifyUrl: verifyUrl(publicUrl, unit.serial, unit.verify_code),
     // Fixed to the test (or the unit's creation), so the same unit renders the same document.
     issuedAt: testedAt ?? unit.created_at,
   };

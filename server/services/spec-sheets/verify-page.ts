@@ -45,8 +45,8 @@ export function verifiedPage(shop: string, unit: VerifiedUnit) {
 export function unknownSerialPage(shop: string, serial: string) {
   return page(`Serial not found — ${shop}`, shop, `
   <h2>Serial not found</h2>
-  <p>No unit with the serial number <span class="serial">${escape(serial.slice(0, 60))}</span> was made by ${escape(shop)}.</p>
-  <footer>Check the serial on the unit's base plate (letters and digits, e.g. HM-B0007-012K) and try again.</footer>`);
+  <p>${escape(shop)} cannot confirm a unit with the serial number <span class="serial">${escape(serial.slice(0, 60))}</span>.</p>
+  <footer>Open the link (or scan the code) printed on the unit's spec sheet: it carries the serial and the unit's check code.</footer>`);
 }
 
 export function tooManyChecksPage(shop: string) {

@@ -1,4 +1,5 @@
 // The public verification page: confirms a genuine unit and says nothing about who owns it.
+import { createHash, timingSafeEqual } from 'node:crypto';
 import type { Knex } from 'knex';
 import { getSettings } from '../settings';
 
@@ -22,12 +23,20 @@ const VERDICTS: Record<string, string> = {
   cancelled: 'Cancelled before completion: this unit was never sold',
 };
 
-/** Only public facts about a unit (no order, customer or staff), or null for an unknown serial. */
-export async function verifyUnit(knex: Knex, serial: string): Promise<VerifiedUnit | null> {
+const digest = (s: string) => createHash('sha256').update(s).digest();
+/** Compares in constant time, so the answer's timing says nothing about how much of a code was right. */
+const sameCode = (given: string, stored: string) => timingSafeEqual(digest(given), digest(stored));
+
+/**
+ * Only public facts about a unit (no order, customer or staff), or null for an unknown serial, or
+ * for a unit with a code when the code given is not its own (the same answer, so guessing serials
+ * learns nothing). Units made before codes existed are found by serial alone.
+ */
+export async function verifyUnit(knex: Knex, serial: string, code = ''): Promise<VerifiedUnit | null> {
   const row = await knex('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
     .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id')
-    .where('u.serial', serial).first('u.id', 'u.serial', 'u.state', 'm.name as model', 'c.name as option');
-  if (!row) return null;
+    .where('u.serial', serial).first('u.id', 'u.serial', 'u.state', 'u.verify_code', 'm.name as model', 'c.name as option');
+  if (!row || (row.verify_code && !sameCode(code, row.verify_code))) return null;
   const built = await knex('unit_events').where({ unit_id: row.id, kind: 'state-change', to_state: 'built' }).orderBy('created_at').first('created_at');
   const { time_zone: timeZone } = await getSettings(knex);
   return {

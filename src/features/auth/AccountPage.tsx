@@ -19,7 +19,7 @@ export default function AccountPage() {
     change.mutate(input, {
       onSuccess: () => {
         form.reset();
-        toast('Your password is changed');
+        toast('Your password is changed, and every other sign-in of yours has ended');
       },
       onError: (error) => {
         applyFieldErrors(error, form.setError);
@@ -39,7 +39,7 @@ export default function AccountPage() {
         <h2 className="mb-4 text-xl font-bold text-spruce-900">Change password</h2>
         <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
           <TextField label="Current password" type="password" autoComplete="current-password" error={errors.currentPassword?.message} {...form.register('currentPassword')} />
-          <TextField label="New password" type="password" autoComplete="new-password" hint="At least 10 characters" error={errors.newPassword?.message} {...form.register('newPassword')} />
+          <TextField label="New password" type="password" autoComplete="new-password" hint="At least 10 characters; not a well-known password or your e-mail" error={errors.newPassword?.message} {...form.register('newPassword')} />
           <Button type="submit" busy={change.isPending}>Change password</Button>
         </form>
       </section>

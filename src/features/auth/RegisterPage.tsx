@@ -27,7 +27,7 @@ export default function RegisterPage() {
         {register.isError ? <Notice tone="alarm">{register.error.message}</Notice> : null}
         <TextField label="Your name" autoComplete="name" error={errors.name?.message} {...form.register('name')} />
         <TextField label="E-mail" type="email" autoComplete="email" error={errors.email?.message} {...form.register('email')} />
-        <TextField label="Password" type="password" autoComplete="new-password" hint="At least 10 characters" error={errors.password?.message} {...form.register('password')} />
+        <TextField label="Password" type="password" autoComplete="new-password" hint="At least 10 characters; not a well-known password or your e-mail" error={errors.password?.message} {...form.register('password')} />
         <Button type="submit" busy={register.isPending}>Create account</Button>
       </form>
       <p className="mt-6 text-ink-soft">

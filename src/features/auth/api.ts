@@ -37,9 +37,19 @@ export function useLogin() {
   return useMutation({ mutationFn: (input: LoginInput) => api.post<SessionBody>('/api/auth/login', input), onSuccess: signedIn });
 }
 
+/**
+ * Registration answers the same whether or not the address already had an account, and never
+ * signs in; so the client signs in next with what was typed (a new account, or its owner's own).
+ */
 export function useRegister() {
   const signedIn = useSignedIn();
-  return useMutation({ mutationFn: (input: RegisterInput) => api.post<SessionBody>('/api/auth/register', input), onSuccess: signedIn });
+  return useMutation({
+    mutationFn: async (input: RegisterInput) => {
+      await api.post<{ message: string }>('/api/auth/register', input);
+      return api.post<SessionBody>('/api/auth/login', { email: input.email, password: input.password });
+    },
+    onSuccess: signedIn,
+  });
 }
 
 export function useLogout() {
