@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { checkSecrets } from './secrets';
+import { checkSecrets, PRODUCTION_SECRETS } from './secrets';
 
 const flag = z.enum(['true', 'false']);
 const count = (fallback: number) => z.coerce.number().int().min(1).default(fallback);
@@ -65,19 +65,21 @@ function trustProxy(value: string): false | number | string {
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const result = schema.safeParse(env);
-  const problems = result.success ? [] : result.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`);
+  const production = env.NODE_ENV === 'production';
+  // In production the secrets get their own, stricter check below, which names each one.
+  const problems = result.success ? [] : result.error.issues
+    .filter((i) => !(production && (PRODUCTION_SECRETS as readonly PropertyKey[]).includes(i.path[0])))
+    .map((i) => `${i.path.join('.')}: ${i.message}`);
+  if (production) problems.push(...checkSecrets(env));
   if (result.success) {
     const c = result.data;
     const publicUrl = c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`;
-    if (c.NODE_ENV === 'production') {
-      problems.push(...checkSecrets(env));
-      const host = new URL(publicUrl).hostname;
-      if (c.COOKIE_SECURE === 'false' && (!publicUrl.startsWith('http:') || !LOOPBACK_HOSTS.includes(host))) {
-        problems.push(`COOKIE_SECURE: plain cookies in production are only for plain http on loopback, and PUBLIC_URL is ${publicUrl}`);
-      }
+    const host = new URL(publicUrl).hostname;
+    if (production && c.COOKIE_SECURE === 'false' && (!publicUrl.startsWith('http:') || !LOOPBACK_HOSTS.includes(host))) {
+      problems.push(`COOKIE_SECURE: plain cookies in production are only for plain http on loopback, and PUBLIC_URL is ${publicUrl}`);
     }
     if (problems.length === 0) {
-      const cookieSecure = c.COOKIE_SECURE ? c.COOKIE_SECURE === 'true' : c.NODE_ENV === 'production';
+      const cookieSecure = c.COOKIE_SECURE ? c.COOKIE_SECURE === 'true' : production;
       return { ...c, publicUrl, cookieSecure, trustProxy: trustProxy(c.TRUST_PROXY) };
     }
   }

@@ -13,6 +13,7 @@ export const PUBLISHED_SECRETS = [
   'whsec_someone_else',
   'whsec_other',
   'sk_test_fake',
+  'sk_live_oops',
 ] as const;
 
 /** Anything starting with these is one of the repository's development or test values. */
