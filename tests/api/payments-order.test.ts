@@ -1,6 +1,8 @@
 // Provider events in every order of delivery, delivered more than once, end in the right state.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { signPayload } from '../../server/fakes/payments/index';
+import { cancelOrder } from '../../server/services/payments/cancel';
+import { createPaymentsClient } from '../../server/services/payments/client';
 import { DEMO, signedInAgent, type TestAgent } from '../support/app';
 import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
 import { API_KEY, eventually, fakeEvents, payWith, SUCCESS_CARD, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
@@ -136,5 +138,27 @@ describe('a customer’s cancellation of a paid order', () => {
     const refunds = (await fakeEvents(env.fake, 'refund.created')).filter((e) => e.event.data.object.payment_intent === row.payment_intent_id);
     expect(refunds).toHaveLength(1);
     expect(await env.t.knex('refund_requests').where({ order_id: order.id })).toMatchObject([{ reason: 'cancelled', status: 'done', refund_id: refunds[0].event.data.object.id, attempts: 0 }]);
+  });
+});
+
+describe('provider calls', () => {
+  it('run with no lock held on the order: another connection can lock it while the provider refunds', async () => {
+    const { order, sessionId } = await startPaying();
+    await payWith(env.fake, sessionId, SUCCESS_CARD);
+    await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
+    const stripe = createPaymentsClient(env.t.config);
+    const locks: string[] = [];
+    // The real SDK call, observed: just before it goes out, try to lock the order row without waiting.
+    const create = stripe.refunds.create.bind(stripe.refunds);
+    stripe.refunds.create = (async (...args: Parameters<typeof create>) => {
+      await env.t.knex.transaction(async (trx) => {
+        await trx.raw('SELECT id FROM orders WHERE id = ? FOR UPDATE NOWAIT', [order.id]);
+        locks.push('free');
+      });
+      return create(...args);
+    }) as typeof stripe.refunds.create;
+    const user = { id: (await orderRow(order.id)).customer_id, email: DEMO.customer, name: 'Dee', role: 'customer' as const };
+    expect(await cancelOrder(env.t.knex, { stripe, config: env.t.config }, user, order.id)).toEqual({ state: 'refunded' });
+    expect(locks).toEqual(['free']);
   });
 });
