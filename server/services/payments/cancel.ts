@@ -44,6 +44,10 @@ export async function cancelOrder(knex: Knex, deps: PaymentsDeps, user: SessionU
   });
   await settleRefunds(knex, deps, orderId);
   const after = await knex('orders').where({ id: orderId }).first('state', 'number');
-  if (after.state !== 'refunded') throw noLongerCancellable(after);
+  if (after.state !== 'refunded') {
+    const refunded = await knex('refund_requests').where({ idempotency_key: `refund-order-${orderId}`, status: 'done' }).first('id');
+    if (refunded) throw conflict(`Order ${after.number} was refunded, but it moved on while the refund was made: the shop has a note to look at it`);
+    throw noLongerCancellable(after);
+  }
   return { state: 'refunded' as const };
 }

@@ -108,7 +108,14 @@ async function executeRefund(knex: Knex, deps: PaymentsDeps, request: RefundRequ
         message: `Payment ${request.payment_intent_id} arrived after the order was cancelled; refunded at once (${refund.id})`,
       });
     }
-    await applyRefunds(trx, deps, request.order_id, { userId: request.user_id, message: request.message || `Cancelled and refunded (${refund.id})` });
+    const moved = await applyRefunds(trx, deps, request.order_id, { userId: request.user_id, message: request.message || `Cancelled and refunded (${refund.id})` });
+    if (!moved && request.reason === 'cancelled') {
+      // The order moved on (e.g. into production) while the provider answered: the money is back, so say so for staff.
+      const order = await trx('orders').where({ id: request.order_id }).first('state');
+      if (order.state !== 'refunded') {
+        await trx('order_events').insert({ order_id: request.order_id, kind: 'refund-needs-attention', message: `Refunded at the provider (${refund.id}) while the order became ${order.state}` });
+      }
+    }
   });
 }
 
