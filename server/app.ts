@@ -31,6 +31,7 @@ import { modelRoutes } from './routes/models';
 import { partRoutes } from './routes/parts';
 import { deviceRoutes } from './routes/devices';
 import { specSheetRoutes } from './routes/spec-sheets';
+import { closeComputePool, configureComputePool } from './compute/pool';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -53,6 +54,7 @@ export function createApp({ knex, config }: AppDeps) {
   const app = express();
   const registry: RouteRegistry = { routes: [] };
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5 });
+  configureComputePool(config.COMPUTE_THREADS);
 
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -84,7 +86,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...authRoutes(knex, passport, loginLimiter),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
-    ...profileRoutes(),
+    ...profileRoutes(knex, config),
     ...shopRoutes(knex),
     ...orderRoutes(knex, config),
     ...paymentRoutes(knex, config),
@@ -109,5 +111,5 @@ export function createApp({ knex, config }: AppDeps) {
   }
   app.use(errorMiddleware);
 
-  return { app, registry, close: () => sessionPool.end() };
+  return { app, registry, close: () => Promise.all([sessionPool.end(), closeComputePool()]).then(() => undefined) };
 }
