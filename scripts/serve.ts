@@ -2,6 +2,7 @@
 import { loadConfig } from '../server/config';
 import { createKnex } from '../server/db/knex';
 import { createApp } from '../server/app';
+import { startComputePool } from '../server/compute/pool';
 import { startJobs } from '../server/jobs/boss';
 import { kickOutbox, outboxJob } from '../server/jobs/outbox-worker';
 import { kickSpecSheets, specSheetJob } from '../server/jobs/spec-sheets';
@@ -11,6 +12,7 @@ import { kickReleases, releaseJob } from '../server/jobs/releases';
 const config = loadConfig();
 const knex = createKnex(config.DATABASE_URL);
 const { app, close } = createApp({ knex, config });
+startComputePool();
 // Background jobs (pg-boss on the same PostgreSQL): the mail outbox; other areas add theirs to this list.
 const jobs = await startJobs(config, [outboxJob(knex, config), specSheetJob(knex, config), stockCheckJob(knex), releaseJob(knex, config)]);
 await kickOutbox(jobs.boss);

@@ -60,10 +60,16 @@ export const compute = {
   sheetBand: (a: Arg<'sheetBand'>) => run('sheetBand', a),
   specSheetProfile: (a: Arg<'specSheetProfile'>) => run('specSheetProfile', a),
   specSheetPdf: async (data: Arg<'specSheetPdf'>) => bytes(await run('specSheetPdf', data)),
+  zipArchive: async (entries: Arg<'zipEntries'>) => bytes(await run('zipEntries', entries)),
   packingSlipPdf: async (input: Arg<'packingSlipPdf'>) => bytes(await run('packingSlipPdf', input)),
   wavCapture: (file: Arg<'wavCapture'>) => run('wavCapture', file),
   unitPrediction: (a: Arg<'unitPrediction'>) => run('unitPrediction', a),
 };
+
+/** Starts the pool's first thread now (a server at start-up), so the first request does not wait for it. */
+export function startComputePool() {
+  if (threads > 0) thePool();
+}
 
 /** What the pool is doing, for the benchmark and logs. */
 export function computePoolStats() {

@@ -9,6 +9,7 @@ import { renderSpecSheet } from '../pdf/spec-sheet';
 import type { SpecSheetData } from '../pdf/spec-sheet-data';
 import { computeContractProfile } from '../services/engine/profiles';
 import { analyseWav } from '../services/production/capture';
+import { zipArchive } from '../services/spec-sheets/zip';
 import { nominalBand, sheetProfile, type NominalBand } from '../services/spec-sheets/sheet-profile';
 
 /** A task's answer: its value, or a DomainError as data (a class does not survive the thread boundary). */
@@ -35,6 +36,10 @@ export const specSheetProfile = (a: { spec: CircuitSpec; measured: MeasuredForwa
 
 /** The spec sheet's PDF bytes. */
 export const specSheetPdf = (data: SpecSheetData) => outcome(async () => new Uint8Array(await renderSpecSheet(data)));
+
+/** A batch archive's zip bytes (entries' bytes arrive as plain Uint8Arrays). */
+export const zipEntries = (entries: { name: string; data: Uint8Array; date: Date }[]) =>
+  outcome(async () => new Uint8Array(await zipArchive(entries.map((e) => ({ ...e, data: Buffer.from(e.data.buffer, e.data.byteOffset, e.data.byteLength) })))));
 
 /** The packing slip's PDF bytes. */
 export const packingSlipPdf = (input: SlipInput) => outcome(async () => new Uint8Array(await renderPackingSlip(input)));
