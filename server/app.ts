@@ -30,6 +30,7 @@ import { modelRoutes } from './routes/models';
 import { partRoutes } from './routes/parts';
 import { deviceRoutes } from './routes/devices';
 import { specSheetRoutes } from './routes/spec-sheets';
+import { closeComputePool, configureComputePool } from './compute/pool';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -52,6 +53,7 @@ export function createApp({ knex, config }: AppDeps) {
   const app = express();
   const registry: RouteRegistry = { routes: [] };
   const sessionPool = new pg.Pool({ connectionString: config.DATABASE_URL, max: 5 });
+  configureComputePool(config.COMPUTE_THREADS);
 
   app.disable('x-powered-by');
   // Only the proxies named in TRUST_PROXY may say who the client is (req.ip, req.secure).
@@ -72,7 +74,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...authRoutes(knex, passport, authLimiters(knex, config)),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
-    ...profileRoutes(),
+    ...profileRoutes(knex, config),
     ...shopRoutes(knex),
     ...orderRoutes(knex, config),
     ...paymentRoutes(knex, config),
@@ -97,5 +99,5 @@ export function createApp({ knex, config }: AppDeps) {
   }
   app.use(errorMiddleware);
 
-  return { app, registry, close: () => sessionPool.end() };
+  return { app, registry, close: () => Promise.all([sessionPool.end(), closeComputePool()]).then(() => undefined) };
 }

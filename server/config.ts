@@ -46,6 +46,14 @@ const schema = z.object({
   OUTBOX_POLL_SECONDS: z.coerce.number().min(0.5).default(2),
   OUTBOX_RETRY_BASE_SECONDS: z.coerce.number().min(0).default(10),
   OUTBOX_MAX_ATTEMPTS: z.coerce.number().int().min(1).default(12),
+  // The compute pool's worker threads (server/compute/pool.ts); unset = cores − 1, at least 1; 0 = inline (measuring only).
+  COMPUTE_THREADS: z.coerce.number().int().min(0).max(64).optional(),
+  // POST /api/profiles per account: requests per window, and the largest cost estimate accepted (server/services/engine/profiles.ts).
+  PROFILE_RATE_LIMIT: z.coerce.number().int().min(1).default(60),
+  PROFILE_RATE_WINDOW_SECONDS: z.coerce.number().int().min(1).default(60),
+  PROFILE_MAX_COST: z.coerce.number().min(1).default(30),
+  // A release creates its units in a background job, this many per transaction (server/services/production/release-job.ts).
+  RELEASE_CHUNK_UNITS: z.coerce.number().int().min(1).max(5000).default(200),
 });
 
 export type Config = z.infer<typeof schema> & {

@@ -12,7 +12,7 @@ const FONTS = {
   mono: path.join(path.dirname(require.resolve('dejavu-fonts-ttf/package.json')), 'ttf', 'DejaVuSansMono.ttf'),
 };
 
-interface SlipInput {
+export interface SlipInput {
   settings: ShopSettings;
   order: { number: string; ship_name: string; ship_line1: string; ship_line2: string; ship_city: string; ship_postcode: string; ship_country: string };
   shipment: { carrier: string; tracking_number: string; shipped_at: Date | string };

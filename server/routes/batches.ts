@@ -12,7 +12,7 @@ import { kitBatch, reserveForBatch } from '../services/production/stock';
 
 const batchId = (req: Parameters<typeof pathId>[0]) => pathId(req, 'id', 'batch');
 
-export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
+export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl' | 'RELEASE_CHUNK_UNITS'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/batches', allow: PLANNING, handler: async (_req, res) => res.json({ batches: await listBatches(knex) }) },
     { method: 'get', path: '/api/batches/candidates', allow: PLANNING, handler: async (_req, res) => res.json(await planningCandidates(knex)) },
@@ -32,7 +32,9 @@ export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): Rout
       method: 'post', path: '/api/batches/:id/release', allow: PLANNING,
       handler: async (req, res) => {
         const id = batchId(req);
-        res.json(await releaseBatch(knex, currentUser(req).id, id, parseWith(releaseBatchSchema, req.body), config.publicUrl));
+        // A big batch is accepted (202) and its units are made by the release job; GET /api/batches/:id shows progress.
+        const result = await releaseBatch(knex, currentUser(req).id, id, parseWith(releaseBatchSchema, req.body), config.publicUrl, config.RELEASE_CHUNK_UNITS);
+        res.status(result.state === 'releasing' ? 202 : 200).json(result);
       },
     },
     {

@@ -1,10 +1,11 @@
 // Batch and unit states of Kneepoint's own, with the changes allowed between them. The server
 // enforces these (an illegal change is a 409); the client uses the labels.
-export const BATCH_STATES = ['draft', 'released', 'on_bench', 'closed', 'cancelled'] as const;
+export const BATCH_STATES = ['draft', 'releasing', 'released', 'on_bench', 'closed', 'cancelled'] as const;
 export type BatchState = (typeof BATCH_STATES)[number];
 
 export const BATCH_STATE_LABELS: Record<BatchState, string> = {
   draft: 'Being planned',
+  releasing: 'Creating its units',
   released: 'Released to the bench',
   on_bench: 'Builds under way',
   closed: 'Closed',
@@ -12,7 +13,9 @@ export const BATCH_STATE_LABELS: Record<BatchState, string> = {
 };
 
 export const BATCH_TRANSITIONS: Record<BatchState, readonly BatchState[]> = {
-  draft: ['released', 'cancelled'],
+  // A batch bigger than one chunk goes through 'releasing' while a job creates its units.
+  draft: ['releasing', 'released', 'cancelled'],
+  releasing: ['released'],
   released: ['on_bench', 'cancelled'],
   on_bench: ['closed'],
   closed: [],

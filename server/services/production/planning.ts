@@ -73,10 +73,10 @@ export function assertBatchTransition(batch: { number: number; state: BatchState
   }
 }
 
-/** Units per option still to build: the lines while planning, else the open units not yet kitted. */
+/** Units per option still to build: the lines while planning or releasing, else the open units not yet kitted. */
 function openQuantities(state: BatchState, lines: { option_id: number; quantity: number }[], units: { option_id: number; state: string; kitted_at: unknown }[]) {
   const counts = new Map<number, number>();
-  if (state === 'draft') for (const l of lines) counts.set(l.option_id, (counts.get(l.option_id) ?? 0) + l.quantity);
+  if (state === 'draft' || state === 'releasing') for (const l of lines) counts.set(l.option_id, (counts.get(l.option_id) ?? 0) + l.quantity);
   else for (const u of units) if (u.kitted_at === null && u.state !== 'cancelled') counts.set(u.option_id, (counts.get(u.option_id) ?? 0) + 1);
   return counts;
 }
@@ -102,6 +102,8 @@ export async function getBatch(db: Db, batchId: number) {
       modelId: batch.model_id, modelName: batch.model_name, revisionId: batch.revision_id, revisionNumber: batch.revision_number, revisionLabel: batch.revision_label,
       notes: batch.notes, shortageOverrideReason: batch.shortage_override_reason, releasedAt: batch.released_at, plannedStart: batch.planned_start, createdAt: batch.created_at,
     },
+    // Units made so far by a release (the release job's progress while the batch is 'releasing').
+    release: batch.release_total === null ? null : { total: batch.release_total as number, done: batch.release_done as number, error: (batch.release_error as string | null) ?? null },
     lines: lines.map((l) => ({ id: l.id, quantity: l.quantity, optionId: l.option_id, optionCode: l.code, optionName: l.option_name, orderNumber: l.order_number, dueAt: l.due_at })),
     units: units.map((u) => ({
       id: u.id, serial: u.serial, sequence: u.sequence, state: u.state, assemblerId: u.assembler_id, assemblerName: u.assembler_name,

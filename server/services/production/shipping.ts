@@ -6,7 +6,7 @@ import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
-import { renderPackingSlip } from '../../pdf/packing-slip';
+import { compute } from '../../compute/pool';
 import { lockUnit, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { closeBatchIfDone, orderFullyPassed } from './testing';
@@ -62,7 +62,7 @@ export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderI
       await transitionUnit(trx, unit, 'shipped', user.id, `shipped with ${input.carrier} ${input.trackingNumber}`, { shipment_id: shipment.id });
     }
     const settings = await getSettings(trx);
-    const pdf = await renderPackingSlip({ settings, order, shipment, units });
+    const pdf = await compute.packingSlipPdf({ settings, order, shipment, units });
     const [file] = await trx('files').insert({ purpose: 'packing-slip', filename: `packing-slip-${order.number}.pdf`, content_type: 'application/pdf', size_bytes: pdf.length, data: pdf, uploaded_by: user.id }).returning('id');
     await trx('shipments').where({ id: shipment.id }).update({ packing_slip_file_id: file.id });
     await transitionOrder(trx, order.id, 'shipped', { userId: user.id, message: `shipped with ${input.carrier}, tracking ${input.trackingNumber}` });

@@ -6,7 +6,7 @@ import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
-import { analyseWav } from './capture';
+import { compute } from '../../compute/pool';
 import { lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { predictUnit } from './unit-circuit';
@@ -36,7 +36,7 @@ export async function orderFullyPassed(trx: Db, orderId: number) {
  * the unit on (and its order to ready when every unit passed); fail sends it back to its assembler.
  */
 export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }, publicUrl = '') {
-  const analysis = capture ? analyseWav(capture) : null;
+  const analysis = capture ? await compute.wavCapture({ buffer: capture.buffer, size: capture.size, originalname: capture.originalname }) : null;
   return knex.transaction(async (trx) => {
     // Batch first: a pass may close the batch (closeBatchIfDone).
     const { unit } = await lockUnitWithBatch(trx, unitId);

@@ -1,8 +1,7 @@
 import type { Knex } from 'knex';
 import { optionCircuit } from '../../../shared/catalog/circuit';
-import { computeProfile, forwardVoltage, perUnitCircuit, type CircuitSpec, type DeviceModel } from '../../../shared/engine';
-import { EngineInputError } from '../../../shared/engine/errors';
-import { invalid } from '../../errors';
+import { forwardVoltage, type CircuitSpec, type DeviceModel } from '../../../shared/engine';
+import { compute } from '../../compute/pool';
 
 type Db = Knex | Knex.Transaction;
 
@@ -38,26 +37,14 @@ export const nominalVf = (model: DeviceModel, testCurrentMa: number) => forwardV
 
 /**
  * This unit's predicted profile: IS of each fitted device refitted from its measured Vf (N kept),
- * then the full profile recomputed. `measured` maps option_device id → volts; missing ones stay nominal.
+ * then the full profile recomputed in the compute pool. `measured` maps option_device id → volts;
+ * missing ones stay nominal.
  */
 export async function predictUnit(db: Db, revisionId: number, optionId: number, measured: Map<number, number>, testCurrentMa: number) {
   const { spec, devices } = await circuitFor(db, revisionId, optionId);
-  const testCurrentA = testCurrentMa / 1000;
-  const vf = (side: 'positive' | 'negative') => devices.filter((d) => d.side === side).map((d) => measured.get(d.id) ?? forwardVoltage(d.model, testCurrentA));
-  try {
-    const circuit = perUnitCircuit(spec, { positive: vf('positive'), negative: vf('negative'), testCurrentA });
-    const profile = computeProfile(circuit, { sweepPoints: 13, transferPoints: 2 });
-    const s = profile.reference.spectrum;
-    return {
-      thdPercent: s.thdF * 100,
-      referenceDrive: profile.reference.drive,
-      harmonics: s.harmonics.map((h) => ({ order: h.order, dbc: h.dbc })),
-      sweep: profile.sweep.map((p) => ({ drive: p.drive, thdPercent: p.thdF * 100 })),
-      fromMeasuredVf: measured.size > 0,
-      computedAt: new Date().toISOString(),
-    };
-  } catch (error) {
-    if (error instanceof EngineInputError) throw invalid(`The profile cannot be computed: ${error.message}`, { readings: error.message });
-    throw error;
-  }
+  const profile = await compute.unitPrediction({
+    spec, testCurrentA: testCurrentMa / 1000,
+    devices: devices.map((d) => ({ side: d.side, model: d.model, measuredVf: measured.get(d.id) ?? null })),
+  });
+  return { ...profile, fromMeasuredVf: measured.size > 0, computedAt: new Date().toISOString() };
 }

@@ -8,7 +8,7 @@ import type { SpecSheetData } from '../../pdf/spec-sheet-data';
 import { driveOf, loadStrings, type RevisionRow } from '../catalog/options-data';
 import { getSettings, type ShopSettings } from '../settings';
 import { cachedNominalBand } from './band-cache';
-import { sheetProfile } from './sheet-profile';
+import { compute } from '../../compute/pool';
 
 type Db = Knex | Knex.Transaction;
 
@@ -99,7 +99,7 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
     positive: devices.filter((d) => d.side === 'positive').map((d) => d.measuredVf ?? d.nominalVf),
     negative: devices.filter((d) => d.side === 'negative').map((d) => d.measuredVf ?? d.nominalVf),
   };
-  const profile = sheetProfile(spec, measured, await cachedNominalBand(db, spec));
+  const profile = await compute.specSheetProfile({ spec, measured, band: await cachedNominalBand(db, spec) });
   const reference = profile.points.find((p) => p.label === 'Reference') ?? profile.points[0];
   const testedAt: Date | null = test ? test.created_at : null;
 

@@ -3,7 +3,8 @@
 import { createHash } from 'node:crypto';
 import type { Knex } from 'knex';
 import type { CircuitSpec } from '../../../shared/engine';
-import { nominalBand, type NominalBand } from './sheet-profile';
+import { compute } from '../../compute/pool';
+import type { NominalBand } from './sheet-profile';
 
 type Db = Knex | Knex.Transaction;
 
@@ -30,7 +31,7 @@ export async function cachedNominalBand(db: Db, spec: CircuitSpec): Promise<Nomi
   const hash = circuitHash(spec);
   const hit = await db('sheet_band_cache').where({ circuit_hash: hash }).first('band');
   if (hit) return hit.band as NominalBand;
-  const band = nominalBand(spec, BAND_POINTS, BAND_DRAWS);
+  const band = await compute.sheetBand({ spec, points: BAND_POINTS, draws: BAND_DRAWS });
   await db('sheet_band_cache').insert({ circuit_hash: hash, band: JSON.stringify(band) }).onConflict('circuit_hash').ignore();
   return band;
 }

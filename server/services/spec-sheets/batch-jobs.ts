@@ -2,7 +2,6 @@
 // request's transaction); the pg-boss worker (server/jobs/spec-sheets.ts) claims it, writes its
 // progress back row by row, and stores the finished zip in `files`. So progress survives a page
 // reload, any server instance can report it, and a worker that dies mid-way is replaced.
-import { ZipArchive } from 'archiver';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import { batchLabel } from '../../../shared/production/serials';
@@ -10,6 +9,9 @@ import { conflict, notFound } from '../../errors';
 import type { SheetJobView } from '../../../shared/schemas/spec-sheets';
 import { defaultPublicUrl } from './assemble';
 import { renderUnitSheet, storeSheetForPassedUnit, storesSheet } from './sheets';
+import { compute } from '../../compute/pool';
+
+export { zipArchive } from './zip';
 
 /** A running job whose heartbeat is older than this is taken over by another worker. */
 export const STALE_AFTER_SECONDS = 120;
@@ -83,18 +85,6 @@ export async function claimSheetJob(knex: Knex) {
   return (rows[0] ?? null) as { id: number; batch_id: number } | null;
 }
 
-export function zipArchive(entries: { name: string; data: Buffer; date: Date }[]) {
-  return new Promise<Buffer>((resolve, reject) => {
-    const archive = new ZipArchive({ zlib: { level: 6 } });
-    const chunks: Buffer[] = [];
-    archive.on('data', (chunk: Buffer) => chunks.push(chunk));
-    archive.on('error', reject);
-    archive.on('end', () => resolve(Buffer.concat(chunks)));
-    for (const e of entries) archive.append(e.data, { name: e.name, date: e.date });
-    void archive.finalize().catch(reject);
-  });
-}
-
 /** One unit's PDF for the archive: its stored sheet, storing it first if it passed, else made on demand. */
 async function sheetFor(knex: Knex, unit: { id: number; state: string }, publicUrl: string) {
   if (storesSheet(unit.state)) {
@@ -125,7 +115,8 @@ export async function runSheetJob(knex: Knex, jobId: number, publicUrl = default
       const note = `These units of ${batchLabel(job.number)} have no sheet in this archive:\n${failed.map(([s, r]) => `${s}: ${r}`).join('\n')}\n`;
       entries.push({ name: 'units-without-a-sheet.txt', data: Buffer.from(note, 'utf8'), date: new Date() });
     }
-    const data = await zipArchive(entries);
+    // Zipping ~10 MB (deflate and CRCs) runs in the compute pool too, not on this event loop.
+    const data = await compute.zipArchive(entries);
     await knex.transaction(async (trx) => {
       const [file] = await trx('files').insert({
         purpose: 'archive', filename: `spec-sheets-${batchLabel(job.number)}.zip`, content_type: 'application/zip',

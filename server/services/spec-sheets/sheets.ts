@@ -2,7 +2,7 @@
 import type { Knex } from 'knex';
 import { STAFF, type SessionUser } from '../../../shared/roles';
 import { conflict, notFound } from '../../errors';
-import { renderSpecSheet } from '../../pdf/spec-sheet';
+import { compute } from '../../compute/pool';
 import { unitEvent } from '../production/history';
 import { defaultPublicUrl, sheetDataForUnit, SHEET_STATES, unitBySerial } from './assemble';
 
@@ -16,7 +16,7 @@ export const sheetFilename = (serial: string) => `spec-sheet-${serial}.pdf`;
 export const storesSheet = (state: string) => (SHEET_STATES as readonly string[]).includes(state);
 
 export async function renderUnitSheet(db: Db, unitId: number, publicUrl = defaultPublicUrl()) {
-  return renderSpecSheet(await sheetDataForUnit(db, unitId, publicUrl));
+  return compute.specSheetPdf(await sheetDataForUnit(db, unitId, publicUrl));
 }
 
 async function insertSheetFile(trx: Db, serial: string, pdf: Buffer, userId: number | null) {

@@ -35,13 +35,35 @@ function ReleasePanel({ detail }: { detail: BatchDetail }) {
         <Button
           busy={release.isPending}
           onClick={() => release.mutate({ startDate, overrideReason: reason || undefined }, {
-            onSuccess: (r) => { setProblem(null); toast(`Released: ${r.units} unit${r.units === 1 ? '' : 's'} created, ${r.orders} customer${r.orders === 1 ? '' : 's'} told their ship date`); },
+            onSuccess: (r) => {
+              setProblem(null);
+              toast(r.state === 'releasing'
+                ? `Releasing: ${r.units} units are being created in the background; customers are told their ship date once all exist`
+                : `Released: ${r.units} unit${r.units === 1 ? '' : 's'} created, ${r.orders} customer${r.orders === 1 ? '' : 's'} told their ship date`);
+            },
             onError: (e) => setProblem(e.message),
           })}
         >
           Release batch
         </Button>
       </div>
+    </section>
+  );
+}
+
+/** A big release's progress: the job makes the units chunk by chunk; the page polls while it runs. */
+function ReleaseProgress({ release }: { release: NonNullable<BatchDetail['release']> }) {
+  const percent = release.total > 0 ? Math.round((release.done / release.total) * 100) : 0;
+  const words = `${release.done} of ${release.total} units created`;
+  return (
+    <section aria-labelledby="releasing-heading" className="grid gap-2 rounded-lg bg-white p-6 shadow-sm">
+      <h2 id="releasing-heading" className="text-xl font-bold text-spruce-900">Creating the units</h2>
+      <div role="progressbar" aria-label="Units created" aria-valuemin={0} aria-valuemax={release.total} aria-valuenow={release.done} aria-valuetext={words}
+        className="h-4 overflow-hidden rounded-full bg-spruce-100 ring-1 ring-spruce-700/30">
+        <div className="h-full bg-copper-600 transition-[width] duration-300" style={{ width: `${percent}%` }} />
+      </div>
+      <p className="text-sm text-ink-soft">{words}. Kitting and assignment open once every unit exists.</p>
+      {release.error ? <Notice tone="alarm">The last attempt stopped: {release.error}. It is tried again within a minute.</Notice> : null}
     </section>
   );
 }
@@ -79,7 +101,7 @@ export default function BatchPage() {
   if (batch.isPending) return <Loading />;
   if (batch.isError) return <ErrorState error={batch.error} retry={() => batch.refetch()} />;
   const d = batch.data;
-  const released = d.batch.state !== 'draft' && d.batch.state !== 'cancelled';
+  const released = !['draft', 'releasing', 'cancelled'].includes(d.batch.state);
   return (
     <>
       <PageHeader title={`Batch ${d.batch.label}`}>
@@ -107,6 +129,7 @@ export default function BatchPage() {
           {d.requirements.length ? <RequirementsTable rows={d.requirements} released={released} /> : <p className="text-ink-soft">Every unit is kitted: nothing left to draw from stock.</p>}
         </section>
         {d.batch.state === 'draft' ? <ReleasePanel detail={d} /> : null}
+        {d.batch.state === 'releasing' && d.release ? <ReleaseProgress release={d.release} /> : null}
         {released ? <KittingPanel detail={d} /> : null}
         {released ? <AssignPanel detail={d} /> : null}
         {released ? <BatchSpecSheets batchId={id} label={d.batch.label} /> : null}

@@ -16,6 +16,8 @@ export interface BatchDetail {
   units: BatchUnit[];
   requirements: Requirement[];
   earliestStart: { date: string; waitingOn: string | null };
+  /** Units made by the release so far (a big release makes them in a background job). */
+  release: { total: number; done: number; error: string | null } | null;
 }
 export interface Candidates {
   revisions: { id: number; modelId: number; modelName: string; number: number; label: string; active: boolean; frozen: boolean; options: { id: number; code: string; name: string }[] }[];
@@ -31,7 +33,11 @@ const keys = {
 };
 
 export const batchesQuery = () => queryOptions({ queryKey: keys.list(), queryFn: () => api.get<{ batches: BatchRow[] }>('/api/batches').then((b) => b.batches) });
-export const batchQuery = (id: number) => queryOptions({ queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`) });
+export const batchQuery = (id: number) => queryOptions({
+  queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`),
+  // While the release job makes the units, follow its progress.
+  refetchInterval: (query) => (query.state.data?.batch.state === 'releasing' ? 1000 : false),
+});
 export const candidatesQuery = () => queryOptions({ queryKey: keys.candidates(), queryFn: () => api.get<Candidates>('/api/batches/candidates') });
 export const assemblersQuery = () => queryOptions({ queryKey: ['assemblers', 'list'], queryFn: () => api.get<{ assemblers: PlanAssembler[] }>('/api/assemblers').then((b) => b.assemblers) });
 
@@ -47,7 +53,7 @@ function useBatchMutation<I, O>(fn: (input: I) => Promise<O>) {
 }
 
 export const useCreateBatch = () => useBatchMutation((input: CreateBatchInput) => api.post<{ id: number; number: number }>('/api/batches', input));
-export const useReleaseBatch = (id: number) => useBatchMutation((input: ReleaseBatchInput) => api.post<{ units: number; orders: number }>(`/api/batches/${id}/release`, input));
+export const useReleaseBatch = (id: number) => useBatchMutation((input: ReleaseBatchInput) => api.post<{ state: 'released' | 'releasing'; units: number; done: number; orders: number }>(`/api/batches/${id}/release`, input));
 export const useCancelBatch = (id: number) => useBatchMutation((reason: string) => api.post(`/api/batches/${id}/cancel`, { reason }));
 export const useReserveStock = (id: number) => useBatchMutation(() => api.post<{ reserved: number; stillShort: number }>(`/api/batches/${id}/reserve`));
 export const useKitBatch = (id: number) => useBatchMutation(() => api.post<{ kitted: number; notKitted: number; firstProblem: string | null }>(`/api/batches/${id}/kit`));
