@@ -1,7 +1,7 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { startJobs } from '../../server/jobs/boss';
-import { kickOutbox, outboxJob } from '../../server/jobs/outbox-worker';
+import { outboxJob } from '../../server/jobs/outbox-worker';
 import { enqueueMail } from '../../server/services/mail/outbox';
 import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { anonymousAgent, DEMO, signedInAgent, startTestApp, uniqueEmail } from '../support/app';
@@ -81,7 +81,6 @@ describe('the mail outbox', () => {
     smtpDown = false;
     const jobs = await startJobs(t.config, [outboxJob(t.knex, t.config, mailer)]);
     try {
-      await kickOutbox(jobs.boss);
       const sent = await waitFor(async () => { const r = await outboxRow(key); return r.status === 'sent' && r; }, 'the worker to send');
       expect(sent.attempts).toBe(2);
       const messages = await waitFor(async () => { const m = await inboxFor(to); return m.length > 0 && m; }, 'the message in the inbox');
