@@ -2,7 +2,7 @@
 // API and the built client, `worker` runs the background jobs, `all` (the default) does both.
 import { loadConfig } from '../server/config';
 import { createKnex } from '../server/db/knex';
-import { startWeb, startWorker, type Running } from '../server/roles';
+import type { Running } from '../server/roles/web';
 
 const role = process.argv[2];
 const config = loadConfig(role ? { ...process.env, KP_ROLE: role } : process.env);
@@ -36,8 +36,13 @@ ${accounts}
 };
 
 try {
-  if (config.KP_ROLE !== 'worker') parts.push(await startWeb(config, knex, banner));
+  // Each role loads only its own modules (a worker never loads the HTTP app, a web process no job code).
+  if (config.KP_ROLE !== 'worker') {
+    const { startWeb } = await import('../server/roles/web');
+    parts.push(await startWeb(config, knex, banner));
+  }
   if (config.KP_ROLE !== 'web') {
+    const { startWorker } = await import('../server/roles/worker');
     parts.push(await startWorker(config, knex));
     if (config.KP_ROLE === 'worker') console.log(`[kneepoint] worker ${process.pid} is running the background jobs.`);
   }

@@ -1,12 +1,13 @@
-// The two process roles of one codebase. A web process answers HTTP and runs no jobs; a worker
-// process runs every background job (server/jobs/definitions.ts) and serves nothing. `npm start`
-// runs one of each under supervision; KP_ROLE=all runs both in one process.
+// The web role: answers HTTP and runs no jobs (it may send them: startJobSender). Kept apart from
+// the worker role so each process loads only what its role needs.
 import type { Server } from 'node:http';
 import type { Knex } from 'knex';
-import { createApp } from './app';
-import type { Config } from './config';
-import { startJobs } from './jobs/boss';
-import { jobDefinitions } from './jobs/definitions';
+import { createApp } from '../app';
+import type { Config } from '../config';
+
+export interface Running {
+  stop: () => Promise<void>;
+}
 
 /** How long in-flight requests get to finish once a web process is told to stop. */
 const DRAIN_MS = 10_000;
@@ -37,10 +38,4 @@ export async function startWeb(config: Config, knex: Knex, onListening?: () => v
       await close();
     })()),
   };
-}
-
-/** Starts every background job; stop() lets running work reach a safe point first. */
-export async function startWorker(config: Config, knex: Knex): Promise<Running> {
-  const jobs = await startJobs(config, jobDefinitions(knex, config));
-  return { stop: jobs.stop };
 }
