@@ -1,13 +1,16 @@
 // `npm run bench`: prints timing figures, section by section (never asserts timings).
 // Later sections (e.g. spec sheets) append themselves to this list.
 import { engineSection, type BenchSection } from './bench/engine';
+import { jobsSection } from './bench/jobs';
 import { specSheetSection } from './bench/spec-sheets';
 
-export const sections: BenchSection[] = [engineSection, specSheetSection];
+export const sections: BenchSection[] = [engineSection, specSheetSection, jobsSection];
 
 async function main(): Promise<void> {
   console.log(`Kneepoint benchmark — Node ${process.version}, ${new Date().toISOString()}`);
-  for (const section of sections) {
+  // `npm run bench -- jobs` runs only the sections whose names start with one of the arguments.
+  const only = process.argv.slice(2);
+  for (const section of sections.filter((s) => only.length === 0 || only.some((name) => s.name.startsWith(name)))) {
     await section.run();
   }
 }
