@@ -8,7 +8,10 @@ import type { Knex } from 'knex';
 import { loadConfig } from '../../server/config';
 import { createKnex } from '../../server/db/knex';
 import { startJobs } from '../../server/jobs/boss';
+import { outboxJob } from '../../server/jobs/outbox-worker';
 import { specSheetJob } from '../../server/jobs/spec-sheets';
+import { startMailFake } from '../../server/fakes/mail';
+import { enqueueMail } from '../../server/services/mail/outbox';
 import { wakeJob } from '../../server/jobs/wake';
 import { SHEET_JOBS_LOOP, STALE_AFTER_SECONDS } from '../../server/services/spec-sheets/batch-jobs';
 import { insertBatch } from '../../tests/api/spec-sheets-setup';
@@ -65,6 +68,22 @@ export const jobsSection: BenchSection = {
       console.log(`pickup, woken on commit: ${median(woken).toFixed(0)} ms median, ${Math.max(...woken).toFixed(0)} ms max (5 jobs)`);
       console.log(`pickup, timer only (a missed wake-up): ${median(timed).toFixed(0)} ms median (3 jobs)`);
       await jobs.stop();
+
+      // Mail: queued in a transaction, sent by a worker's outbox loop to a local mail fake.
+      const mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
+      const mailConfig = loadConfig({ ...env, SMTP_PORT: String(mail.smtpPort), OUTBOX_POLL_SECONDS: '2' });
+      jobs = await startJobs(mailConfig, [outboxJob(knex, mailConfig)]);
+      const sent: number[] = [];
+      for (let i = 0; i < 5; i++) {
+        const to = `bench-${process.pid}-${Date.now()}-${i}@bench.example`;
+        const t0 = performance.now();
+        await knex.transaction((trx) => enqueueMail(trx, { dedupeKey: `bench:${to}`, template: 'welcome', to, data: { name: 'Bench' } }));
+        await until(async () => (await knex('outbox').where({ to_address: to }).first('status')).status === 'sent', 30_000);
+        sent.push(performance.now() - t0);
+      }
+      console.log(`mail queued → sent over SMTP: ${median(sent).toFixed(0)} ms median (5 mails; the sweep timer alone is ${mailConfig.OUTBOX_POLL_SECONDS} s)`);
+      await jobs.stop();
+      await mail.close();
 
       // A worker process takes a 12-unit archive; it is killed after its first unit; this process carries on.
       const batch = await insertBatch(knex, Array.from({ length: 12 }, (_, i) => ({ vf: [1.78 + i * 0.005, 0.6] })));

@@ -3,8 +3,6 @@ import type { Config } from '../config';
 import { runQueuedSheetJobs, SHEET_JOBS_LOOP } from '../services/spec-sheets/batch-jobs';
 import type { JobDefinition } from './boss';
 
-export const SPEC_SHEET_QUEUE = SHEET_JOBS_LOOP;
-
 /**
  * Batch spec sheets as a loop in every worker. A request is a `sheet_jobs` row written by the API
  * in its own transaction, which also wakes this loop (so work starts as soon as it commits). Each
@@ -13,7 +11,7 @@ export const SPEC_SHEET_QUEUE = SHEET_JOBS_LOOP;
  */
 export function specSheetJob(knex: Knex, config: Config, pollSeconds = 2): JobDefinition {
   return {
-    name: SPEC_SHEET_QUEUE,
+    name: SHEET_JOBS_LOOP,
     loop: { everySeconds: pollSeconds },
     handler: async (_boss, { signal }) => {
       await runQueuedSheetJobs(knex, config.publicUrl, signal);
