@@ -1,8 +1,8 @@
 // A batch's sheets as one background job. The request is a sheet_jobs row (written here, in the
-// request's transaction, which wakes the workers); a worker loop (server/jobs/spec-sheets.ts) claims it, writes its
-// progress back row by row, and stores the finished zip in `files`. So progress survives a page
-// reload, any server instance can report it, and a worker that dies mid-way is replaced by another
-// that resumes at the next unit (leases: sheet-leases.ts).
+// request's transaction, which wakes the workers); a worker loop (server/jobs/spec-sheets.ts)
+// claims it, writes its progress back unit by unit, and stores the finished zip in `files`. So
+// progress survives a page reload, any server instance can report it, and a worker that dies
+// mid-way is replaced by another that resumes at the next unit (leases: sheet-leases.ts).
 import { ZipArchive } from 'archiver';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
@@ -104,7 +104,11 @@ export async function runSheetJob(knex: Knex, jobId: number, lease: string, publ
   try {
     for (const unit of units) {
       if (doneIds.has(unit.id)) continue;
-      if (signal?.aborted) return void (await releaseLease(knex, jobId, lease));
+      if (signal?.aborted) {
+        // The worker is stopping: give the job back with its progress so another worker carries on now.
+        await releaseLease(knex, jobId, lease);
+        return;
+      }
       let made: { fileId: number | null; pdf: Buffer | null; failure?: string };
       try {
         made = await sheetFor(knex, unit, publicUrl);
