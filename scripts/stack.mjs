@@ -45,7 +45,8 @@ export function startStack({ root, env, fakes, dev = false, workers = 1, mailFil
     Object.assign(fakeEnv, {
       PAYMENTS_FAKE_PORT: String(ports.payments),
       WEBHOOK_URL: `http://127.0.0.1:${ports.app}/api/payments/webhook`,
-      WEBHOOK_SECRET: env.PAYMENTS_WEBHOOK_SECRET ?? 'whsec_kneepoint_local',
+      // The fake signs webhooks with the app's secret (without one it uses its own default).
+      ...(env.PAYMENTS_WEBHOOK_SECRET ? { WEBHOOK_SECRET: env.PAYMENTS_WEBHOOK_SECRET } : {}),
       MAIL_FAKE_SMTP_PORT: String(ports.smtp),
       MAIL_FAKE_HTTP_PORT: String(ports.mailHttp),
       MAIL_FILE: mailFile ?? '',
