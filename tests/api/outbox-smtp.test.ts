@@ -51,7 +51,7 @@ describe('the mail outbox', () => {
     expect(await t.knex('outbox').where({ to_address: email })).toHaveLength(1);
   });
 
-  it('keeps mail while SMTP is down and sends it once, through the worker's outbox loop, when it returns', async () => {
+  it('keeps mail while SMTP is down and sends it once, through a worker loop, when it returns', async () => {
     const customer = await signedInAgent(t.app, DEMO.customer);
     const pedal = await insertPedal(t.knex);
     const { order } = await placeOrder(customer, pedal, 2, 'led');
