@@ -3,11 +3,12 @@
 // Node built-ins only: it installs what is missing, brings up a PostgreSQL
 // cluster under .data/ on a port of the project's own, then hands over to
 // scripts written in TypeScript (migrate, seed, serve, test).
-import { spawn, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync, statSync, chmodSync, rmSync } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { fakesWanted, startStack } from './stack.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const DATA = path.join(ROOT, '.data');
@@ -238,40 +239,25 @@ function serve(devServer) {
     log('building the client …');
     if (!run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
   }
-  const tsxBin = path.join(ROOT, 'node_modules', '.bin', 'tsx');
-  // The local stand-ins for the payments provider and the mail server: separate programs.
-  const fakes = {
-    PAYMENTS_FAKE_PORT: '3101',
-    WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/payments/webhook`,
-    WEBHOOK_SECRET: secrets.PAYMENTS_WEBHOOK_SECRET,
-    MAIL_FAKE_SMTP_PORT: '3125',
-    MAIL_FAKE_HTTP_PORT: '3126',
-    MAIL_FILE: path.join(DATA, 'mail-fake.json'),
-  };
-  const children = [
-    spawn(tsxBin, ['server/fakes/payments/main.ts'], { cwd: ROOT, env: { ...env, ...fakes }, stdio: 'inherit' }),
-    spawn(tsxBin, ['server/fakes/mail/main.ts'], { cwd: ROOT, env: { ...env, ...fakes }, stdio: 'inherit' }),
-    spawn(tsxBin, ['scripts/serve.ts'], { cwd: ROOT, env, stdio: 'inherit' }),
-  ];
-  if (devServer) {
-    children.push(spawn(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['--port', '5173', '--strictPort'], { cwd: ROOT, env, stdio: 'inherit' }));
-  }
+  // The local stand-ins for the payments provider and the mail server run unless this is a real
+  // production start (NODE_ENV=production in the shell, or KP_FAKES=0).
+  const fakes = fakesWanted(process.env);
+  if (!fakes) log('no local fakes: payments and mail go to PAYMENTS_HOST/PAYMENTS_PORT and SMTP_HOST/SMTP_PORT.');
+  const stack = startStack({ root: ROOT, env, fakes, dev: devServer, mailFile: path.join(DATA, 'mail-fake.json'), log });
   let stopping = false;
-  const stop = (code) => {
+  const stop = async () => {
     if (stopping) return;
     stopping = true;
     log('stopping …');
-    for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
-    setTimeout(() => {
-      stopPostgres(bin);
-      releaseLock();
-      log('stopped; data kept in .data/.');
-      process.exit(code);
-    }, 1500);
+    // Every program has exited (requests drained, queue stopped) before PostgreSQL goes.
+    await stack.stop();
+    stopPostgres(bin);
+    releaseLock();
+    log('stopped; data kept in .data/.');
+    process.exit(0);
   };
-  process.on('SIGINT', () => stop(0));
-  process.on('SIGTERM', () => stop(0));
-  for (const child of children) child.on('exit', (code) => stop(code ?? 1));
+  process.on('SIGINT', () => void stop());
+  process.on('SIGTERM', () => void stop());
 }
 
 // vitest's JSON report, read back for one plain closing line that any CI can count.

@@ -1,38 +1,57 @@
-// Serves the product: the API and the built client from one Express process.
+// Runs one Kneepoint process in the role KP_ROLE names (or the first argument): `web` serves the
+// API and the built client, `worker` runs the background jobs, `all` (the default) does both.
 import { loadConfig } from '../server/config';
 import { createKnex } from '../server/db/knex';
-import { createApp } from '../server/app';
-import { startComputePool } from '../server/compute/pool';
-import { startJobs } from '../server/jobs/boss';
-import { kickOutbox, outboxJob } from '../server/jobs/outbox-worker';
-import { kickSpecSheets, specSheetJob } from '../server/jobs/spec-sheets';
-import { stockCheckJob } from '../server/jobs/stock-check';
-import { kickReleases, releaseJob } from '../server/jobs/releases';
+import { closeComputePool, startComputePool } from '../server/compute/pool';
+import type { Running } from '../server/roles/web';
 
-const config = loadConfig();
+const role = process.argv[2];
+const config = loadConfig(role ? { ...process.env, KP_ROLE: role } : process.env);
 const knex = createKnex(config.DATABASE_URL);
-const { app, close } = createApp({ knex, config });
+const parts: Running[] = [];
+// Engine and PDF work runs in worker threads in both roles; start them now, not on the first request.
 startComputePool();
-// Background jobs (pg-boss on the same PostgreSQL): the mail outbox; other areas add theirs to this list.
-const jobs = await startJobs(config, [outboxJob(knex, config), specSheetJob(knex, config), stockCheckJob(knex), releaseJob(knex, config)]);
-await kickOutbox(jobs.boss);
-await kickSpecSheets(jobs.boss);
-await kickReleases(jobs.boss);
-const server = app.listen(config.PORT, config.HOST, () => {
+
+let stopping: Promise<void> | null = null;
+// Web first (no new requests, in-flight ones drained), then the jobs, then the database pool: each once.
+const stop = () => (stopping ??= (async () => {
+  for (const part of parts) await part.stop();
+  await closeComputePool();
+  await knex.destroy();
+})().then(() => process.exit(0), (error) => {
+  console.error('[kneepoint] stopping failed:', error);
+  process.exit(1);
+}));
+process.on('SIGTERM', () => void stop());
+process.on('SIGINT', () => void stop());
+// Under `npm start` the supervisor holds an IPC channel: if it goes away, so does this process.
+if (process.send) {
+  process.on('disconnect', () => void stop());
+  process.channel?.unref();
+}
+
+const banner = () => {
   const accounts = ['owner', 'planner', 'assembler', 'tester', 'customer'].map((r) => `    ${r}@shop.example`).join('\n');
   console.log(`
 [kneepoint] Kneepoint is up at ${config.publicUrl}
 [kneepoint] demo accounts (password: kneepoint-demo):
 ${accounts}
 [kneepoint] Ctrl-C stops everything; data stays in .data/.`);
-});
-server.on('error', (error: NodeJS.ErrnoException) => {
-  console.error(error.code === 'EADDRINUSE' ? `[kneepoint] port ${config.PORT} is taken (PORT overrides).` : error);
-  process.exit(1);
-});
-const shutdown = () => {
-  server.close(() => void jobs.stop().then(() => Promise.all([close(), knex.destroy()])).then(() => process.exit(0)));
-  setTimeout(() => process.exit(0), 3000).unref();
 };
-process.on('SIGTERM', shutdown);
-process.on('SIGINT', shutdown);
+
+try {
+  // Each role loads only its own modules (a worker never loads the HTTP app, a web process no job code).
+  if (config.KP_ROLE !== 'worker') {
+    const { startWeb } = await import('../server/roles/web');
+    parts.push(await startWeb(config, knex, banner));
+  }
+  if (config.KP_ROLE !== 'web') {
+    const { startWorker } = await import('../server/roles/worker');
+    parts.push(await startWorker(config, knex));
+    if (config.KP_ROLE === 'worker') console.log(`[kneepoint] worker ${process.pid} is running the background jobs.`);
+  }
+} catch (error) {
+  const e = error as NodeJS.ErrnoException;
+  console.error(e.code === 'EADDRINUSE' ? `[kneepoint] port ${config.PORT} is taken (PORT overrides).` : e);
+  process.exit(1);
+}

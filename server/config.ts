@@ -10,6 +10,8 @@ const schema = z.object({
   DATABASE_URL: z.string().url('DATABASE_URL must be a postgres:// URL'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   HOST: z.string().default('127.0.0.1'),
+  // What this process runs: web (HTTP only), worker (background jobs only) or all (both, one process).
+  KP_ROLE: z.enum(['web', 'worker', 'all']).default('all'),
   PUBLIC_URL: z.string().url().optional(),
   SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
   // Unset: Secure cookies in production, plain ones in development and tests.

@@ -1,33 +1,21 @@
 import type { Knex } from 'knex';
 import type { Config } from '../config';
+import { RELEASE_LOOP } from '../services/production/release';
 import { runPendingReleases } from '../services/production/release-job';
 import type { JobDefinition } from './boss';
 
-export const RELEASE_QUEUE = 'batch-releases';
-
 /**
- * Big releases as a pg-boss job. The request marks the batch 'releasing' (the row is the work
- * item); each run finishes every such batch chunk by chunk, then queues its next run a moment
- * later. 'stately' (one waiting, one running) plus a cron line each minute, as the sheet jobs.
+ * Big releases as a job loop. The request marks the batch 'releasing' (the row is the work item)
+ * and wakes this loop on commit; each run finishes every such batch chunk by chunk. Chunks are
+ * counted under the batch's row lock, so several workers never make a unit twice and a worker
+ * that dies leaves the rest to the next run (every few seconds in every worker).
  */
-export function releaseJob(knex: Knex, config: Pick<Config, 'RELEASE_CHUNK_UNITS'>, pollSeconds = 1): JobDefinition {
+export function releaseJob(knex: Knex, config: Pick<Config, 'RELEASE_CHUNK_UNITS'>, everySeconds = 5): JobDefinition {
   return {
-    name: RELEASE_QUEUE,
-    policy: 'stately',
-    cron: '* * * * *',
-    pollingIntervalSeconds: Math.max(0.5, pollSeconds),
-    retryLimit: 1,
-    handler: async (boss) => {
-      try {
-        await runPendingReleases(knex, config.RELEASE_CHUNK_UNITS);
-      } finally {
-        await boss.sendAfter(RELEASE_QUEUE, {}, {}, pollSeconds);
-      }
+    name: RELEASE_LOOP,
+    loop: { everySeconds },
+    handler: async () => {
+      await runPendingReleases(knex, config.RELEASE_CHUNK_UNITS);
     },
   };
-}
-
-/** Starts the chain right away instead of waiting for the first cron tick. */
-export async function kickReleases(boss: { send: (name: string, data: object) => Promise<string | null> }) {
-  await boss.send(RELEASE_QUEUE, {});
 }

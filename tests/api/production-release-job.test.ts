@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { startJobs } from '../../server/jobs/boss';
-import { kickReleases, releaseJob } from '../../server/jobs/releases';
+import { releaseJob } from '../../server/jobs/releases';
 import { releaseStep } from '../../server/services/production/release';
 import { runPendingReleases } from '../../server/services/production/release-job';
 import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
@@ -41,7 +41,6 @@ describe('a 2,000-unit release', () => {
 
     const jobs = await startJobs(t.config, [releaseJob(t.knex, t.config, 0.5)]);
     try {
-      await kickReleases(jobs.boss);
       const seen: { state: string; done: number }[] = [];
       let healthWhileReleasing = 0;
       for (let i = 0; i < 1200; i++) {

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { startJobs } from '../../server/jobs/boss';
-import { kickSpecSheets, specSheetJob } from '../../server/jobs/spec-sheets';
+import { specSheetJob } from '../../server/jobs/spec-sheets';
 import { DEMO, signedInAgent, startTestApp } from '../support/app';
 import { fetchBinary, insertBatch } from './spec-sheets-setup';
 
@@ -41,7 +41,6 @@ describe('a batch of spec sheets as a background job', () => {
     await planner.get(`/api/spec-sheet-jobs/${jobId}/archive.zip`).expect(409);
 
     jobs = await startJobs(t.config, [specSheetJob(t.knex, t.config, 0.5)]);
-    await kickSpecSheets(jobs.boss);
     const seen: { state: string; done: number }[] = [];
     const deadline = Date.now() + 60_000;
     let job = started.body.job;
@@ -73,7 +72,6 @@ describe('a batch of spec sheets as a background job', () => {
     if (!jobs) {
       jobs = await startJobs(t.config, [specSheetJob(t.knex, t.config, 0.5)]);
     }
-    await kickSpecSheets(jobs.boss);
     const deadline = Date.now() + 30_000;
     let row = await t.knex('sheet_jobs').where({ id: stale.id }).first();
     while (row.state !== 'finished' && Date.now() < deadline) {

@@ -51,7 +51,7 @@ describe('the stock ledger service', () => {
     const differences = await compareBalances(t.knex, Object.values(c.parts));
     expect(differences).toEqual([{ partId: c.parts.led, partNumber: `LED-${c.tag}`, balance: { onHand: 200, reserved: 0 }, ledger: { onHand: 204, reserved: 0 } }]);
     const lines: string[] = [];
-    await stockCheckJob(t.knex, (line) => lines.push(line)).handler({} as never);
+    await stockCheckJob(t.knex, (line) => lines.push(line)).handler({} as never, { data: null, signal: new AbortController().signal });
     expect(lines.filter((l) => l.includes(`LED-${c.tag}`))).toEqual([`[stock] balance differs from the ledger for LED-${c.tag}: balance 200/0, ledger 204/0 (on hand/reserved)`]);
     await rebuildBalances(t.knex);
     expect(await compareBalances(t.knex, Object.values(c.parts))).toEqual([]);

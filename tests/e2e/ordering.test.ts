@@ -6,7 +6,7 @@ import type { Browser, Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/index';
 import { startJobs } from '../../server/jobs/boss';
-import { kickOutbox, outboxJob } from '../../server/jobs/outbox-worker';
+import { outboxJob } from '../../server/jobs/outbox-worker';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, SCREENSHOTS } from '../support/browser';
 
@@ -43,7 +43,6 @@ beforeAll(async () => {
   await new Promise((r) => server.once('listening', r));
   payments.setWebhookUrl(`${url}/api/payments/webhook`);
   jobs = await startJobs(t.config, [outboxJob(t.knex, t.config)]);
-  await kickOutbox(jobs.boss);
   browser = await launchBrowser();
 });
 afterAll(async () => {

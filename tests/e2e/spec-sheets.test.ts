@@ -3,7 +3,7 @@ import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startJobs } from '../../server/jobs/boss';
-import { kickSpecSheets, specSheetJob } from '../../server/jobs/spec-sheets';
+import { specSheetJob } from '../../server/jobs/spec-sheets';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
 import { insertBatch, insertOrder, userId } from '../api/spec-sheets-setup';
@@ -26,7 +26,6 @@ beforeAll(async () => {
   server = await listen(t.app);
   browser = await launchBrowser();
   jobs = await startJobs(t.config, [specSheetJob(t.knex, t.config, 0.5)]);
-  await kickSpecSheets(jobs.boss);
 }, 60_000);
 afterAll(async () => {
   await jobs?.stop();

@@ -10,8 +10,16 @@ const fake = await startMailFake({
 });
 console.log(`mail fake: SMTP on 127.0.0.1:${fake.smtpPort}, messages at ${fake.httpUrl}/messages`);
 
+let stopping = false;
 const stop = () => {
+  if (stopping) return;
+  stopping = true;
   void fake.close().then(() => process.exit(0));
 };
 process.on('SIGINT', stop);
 process.on('SIGTERM', stop);
+// Under `npm start` the supervisor holds an IPC channel: if it goes away, so does this fake.
+if (process.send) {
+  process.on('disconnect', stop);
+  process.channel?.unref();
+}

@@ -14,8 +14,16 @@ const fake = await startPaymentsFake({
 });
 console.log(`payments fake listening on ${fake.url} (webhooks → ${process.env.WEBHOOK_URL || 'none'})`);
 
+let stopping = false;
 const stop = () => {
+  if (stopping) return;
+  stopping = true;
   void fake.close().then(() => process.exit(0));
 };
 process.on('SIGINT', stop);
 process.on('SIGTERM', stop);
+// Under `npm start` the supervisor holds an IPC channel: if it goes away, so does this fake.
+if (process.send) {
+  process.on('disconnect', stop);
+  process.channel?.unref();
+}

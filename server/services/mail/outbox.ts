@@ -1,4 +1,8 @@
 import type { Knex } from 'knex';
+import { wakeJob } from '../../jobs/wake';
+
+/** The worker loop that sends the outbox (server/jobs/outbox-worker.ts). */
+export const OUTBOX_LOOP = 'mail-outbox';
 
 export interface OutgoingMail {
   /** One mail per event: a second enqueue with the same key is ignored (e.g. `order-received:42`). */
@@ -29,5 +33,7 @@ export async function enqueueMail(trx: Knex | Knex.Transaction, mail: OutgoingMa
     .onConflict('dedupe_key')
     .ignore()
     .returning('id');
+  // Wakes a worker when the caller's transaction commits, so the mail leaves at once rather than at the next sweep.
+  if (rows.length > 0) await wakeJob(trx, OUTBOX_LOOP);
   return rows.length > 0;
 }

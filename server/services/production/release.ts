@@ -4,6 +4,7 @@ import type { BatchState } from '../../../shared/production/states';
 import { addWorkingDays, proposePlan, workingDayOnOrAfter } from '../../../shared/production/schedule';
 import { batchLabel, unitSerial } from '../../../shared/production/serials';
 import { conflict } from '../../errors';
+import { wakeJob } from '../../jobs/wake';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
@@ -26,6 +27,9 @@ export interface ReleaseInput { userId: number; startDate: string; publicUrl: st
  * checked and marked 'releasing' here, and the release job (release-job.ts) creates its units
  * chunk by chunk and finishes it, so no request or event loop waits for thousands of rows.
  */
+/** The job loop that creates a big release's units (server/jobs/releases.ts), woken on commit. */
+export const RELEASE_LOOP = 'batch-releases';
+
 export async function releaseBatch(knex: Knex, userId: number, batchId: number, input: ReleaseBatchInput, publicUrl = '', chunkUnits = 200) {
   return knex.transaction(async (trx) => {
     const batch = await lockBatch(trx, batchId);
@@ -56,7 +60,10 @@ export async function releaseBatch(knex: Knex, userId: number, batchId: number, 
       release_total: total, release_done: 0, release_input: JSON.stringify(release), release_error: null,
     });
     const counts = { id: batchId, units: total, orders: orders.length, shortagesOverridden: short.length };
-    if (big) return { ...counts, state: 'releasing' as const, done: 0 };
+    if (big) {
+      await wakeJob(trx, RELEASE_LOOP);
+      return { ...counts, state: 'releasing' as const, done: 0 };
+    }
     await createUnitChunk(trx, batch, lines, 0, total, userId);
     await finishRelease(trx, batch, lines, release);
     return { ...counts, state: 'released' as const, done: total };

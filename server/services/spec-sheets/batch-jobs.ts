@@ -1,20 +1,22 @@
 // A batch's sheets as one background job. The request is a sheet_jobs row (written here, in the
-// request's transaction); the pg-boss worker (server/jobs/spec-sheets.ts) claims it, writes its
-// progress back row by row, and stores the finished zip in `files`. So progress survives a page
-// reload, any server instance can report it, and a worker that dies mid-way is replaced.
+// request's transaction, which wakes the workers); a worker loop (server/jobs/spec-sheets.ts)
+// claims it, writes its progress back unit by unit, and stores the finished zip in `files`. So
+// progress survives a page reload, any server instance can report it, and a worker that dies
+// mid-way is replaced by another that resumes at the next unit (leases: sheet-leases.ts).
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import { batchLabel } from '../../../shared/production/serials';
 import { conflict, notFound } from '../../errors';
 import type { SheetJobView } from '../../../shared/schemas/spec-sheets';
 import { defaultPublicUrl } from './assemble';
+import { claimSheetJob, keepLease, releaseLease, SHEET_JOBS_LOOP, whileLeased } from './sheet-leases';
 import { renderUnitSheet, storeSheetForPassedUnit, storesSheet } from './sheets';
 import { compute } from '../../compute/pool';
+import { wakeJob } from '../../jobs/wake';
 
 export { zipArchive } from './zip';
 
-/** A running job whose heartbeat is older than this is taken over by another worker. */
-export const STALE_AFTER_SECONDS = 120;
+export { claimSheetJob, SHEET_JOBS_LOOP, STALE_AFTER_SECONDS } from './sheet-leases';
 
 export type { SheetJobView };
 
@@ -46,6 +48,7 @@ export async function requestBatchSheets(knex: Knex, user: SessionUser, batchId:
     const open = await trx('sheet_jobs').where({ batch_id: batchId }).whereIn('state', ['queued', 'running']).first();
     if (open) return { job: view(open), created: false };
     const [row] = await trx('sheet_jobs').insert({ batch_id: batchId, total, requested_by: user.id }).returning('*');
+    await wakeJob(trx, SHEET_JOBS_LOOP); // delivered on commit: a worker starts at once
     return { job: view(row), created: true };
   });
 }
@@ -72,69 +75,87 @@ export async function jobArchive(knex: Knex, jobId: number) {
   return { filename: `spec-sheets-${batchLabel(row.number)}.zip`, data: row.data as Buffer };
 }
 
-/** Takes the oldest queued job (or a stale running one) for this worker; null when there is none. */
-export async function claimSheetJob(knex: Knex) {
-  const { rows } = await knex.raw(
-    `UPDATE sheet_jobs SET state = 'running', done = 0, failures = '{}', started_at = now(), heartbeat_at = now()
-     WHERE id = (SELECT id FROM sheet_jobs
-                 WHERE state = 'queued' OR (state = 'running' AND heartbeat_at < now() - make_interval(secs => ?))
-                 ORDER BY id FOR UPDATE SKIP LOCKED LIMIT 1)
-     RETURNING *`,
-    [STALE_AFTER_SECONDS],
-  );
-  return (rows[0] ?? null) as { id: number; batch_id: number } | null;
-}
-
-/** One unit's PDF for the archive: its stored sheet, storing it first if it passed, else made on demand. */
+/** One unit's sheet for the archive: its stored sheet (storing it first if the unit passed), else one made on demand. */
 async function sheetFor(knex: Knex, unit: { id: number; state: string }, publicUrl: string) {
   if (storesSheet(unit.state)) {
-    const fileId = await knex.transaction((trx) => storeSheetForPassedUnit(trx, unit.id, null, publicUrl));
-    return (await knex('files').where({ id: fileId }).first('data')).data as Buffer;
+    return { fileId: await knex.transaction((trx) => storeSheetForPassedUnit(trx, unit.id, null, publicUrl)), pdf: null };
   }
-  return renderUnitSheet(knex, unit.id, publicUrl);
+  return { fileId: null, pdf: await renderUnitSheet(knex, unit.id, publicUrl) };
 }
 
-/** Works a claimed job to the end: every unit's sheet (a failure is noted by serial), then the zip. */
-export async function runSheetJob(knex: Knex, jobId: number, publicUrl = defaultPublicUrl()) {
+/** Works a job claimed with `lease` to the end, skipping units a previous worker already did; stops early when `signal` fires. */
+export async function runSheetJob(knex: Knex, jobId: number, lease: string, publicUrl = defaultPublicUrl(), signal?: AbortSignal) {
   const job = await knex('sheet_jobs as j').join('batches as b', 'b.id', 'j.batch_id').where('j.id', jobId).first('j.*', 'b.number');
   const units = await liveUnits(knex, job.batch_id).orderBy('sequence').select('id', 'serial', 'state', 'updated_at');
-  await knex('sheet_jobs').where({ id: jobId }).update({ total: units.length, heartbeat_at: knex.fn.now() });
-  const entries: { name: string; data: Buffer; date: Date }[] = [];
-  const failures: Record<string, string> = {};
+  const doneIds = new Set<number>((await knex('sheet_job_units').where({ job_id: jobId }).pluck('unit_id')) as number[]);
+  let done = units.filter((u) => doneIds.has(u.id)).length;
+  if (!(await whileLeased(knex, jobId, lease, (trx) => trx('sheet_jobs').where({ id: jobId }).update({ total: units.length, done })))) return;
+  const heartbeat = keepLease(knex, jobId, lease);
   try {
-    for (const [i, unit] of units.entries()) {
-      try {
-        entries.push({ name: `${unit.serial}.pdf`, data: await sheetFor(knex, unit, publicUrl), date: new Date(unit.updated_at) });
-      } catch (error) {
-        failures[unit.serial] = error instanceof Error ? error.message.slice(0, 300) : String(error);
+    for (const unit of units) {
+      if (doneIds.has(unit.id)) continue;
+      if (signal?.aborted) {
+        // The worker is stopping: give the job back with its progress so another worker carries on now.
+        await releaseLease(knex, jobId, lease);
+        return;
       }
-      await knex('sheet_jobs').where({ id: jobId }).update({ done: i + 1, failures: JSON.stringify(failures), heartbeat_at: knex.fn.now() });
+      let made: { fileId: number | null; pdf: Buffer | null; failure?: string };
+      try {
+        made = await sheetFor(knex, unit, publicUrl);
+      } catch (error) {
+        made = { fileId: null, pdf: null, failure: error instanceof Error ? error.message.slice(0, 300) : String(error) };
+      }
+      done++;
+      const kept = await whileLeased(knex, jobId, lease, async (trx) => {
+        await trx('sheet_job_units').insert({ job_id: jobId, unit_id: unit.id, file_id: made.fileId, pdf: made.pdf, failure: made.failure ?? null, lease_token: lease });
+        await trx('sheet_jobs').where({ id: jobId }).update({
+          done, heartbeat_at: trx.fn.now(),
+          failures: made.failure ? trx.raw('failures || ?::jsonb', [JSON.stringify({ [unit.serial]: made.failure })]) : undefined,
+        });
+      });
+      if (!kept) return; // another worker took the job over: it does the rest, this one stops
     }
-    const failed = Object.entries(failures);
-    if (failed.length > 0) {
-      const note = `These units of ${batchLabel(job.number)} have no sheet in this archive:\n${failed.map(([s, r]) => `${s}: ${r}`).join('\n')}\n`;
-      entries.push({ name: 'units-without-a-sheet.txt', data: Buffer.from(note, 'utf8'), date: new Date() });
-    }
-    // Zipping ~10 MB (deflate and CRCs) runs in the compute pool too, not on this event loop.
-    const data = await compute.zipArchive(entries);
-    await knex.transaction(async (trx) => {
-      const [file] = await trx('files').insert({
-        purpose: 'archive', filename: `spec-sheets-${batchLabel(job.number)}.zip`, content_type: 'application/zip',
-        size_bytes: data.length, data, uploaded_by: job.requested_by,
-      }).returning('id');
-      await trx('sheet_jobs').where({ id: jobId }).update({ state: 'finished', archive_file_id: file.id, finished_at: trx.fn.now(), heartbeat_at: trx.fn.now() });
-    });
+    await finishJob(knex, jobId, lease, job.number, job.requested_by);
   } catch (error) {
-    await knex('sheet_jobs').where({ id: jobId }).update({ state: 'failed', error: error instanceof Error ? error.message.slice(0, 500) : String(error), finished_at: knex.fn.now() });
+    await knex('sheet_jobs').where({ id: jobId, lease_token: lease })
+      .update({ state: 'failed', lease_token: null, error: error instanceof Error ? error.message.slice(0, 500) : String(error), finished_at: knex.fn.now() });
     throw error;
+  } finally {
+    clearInterval(heartbeat);
   }
 }
 
-/** Claims and works jobs until none is waiting; returns how many it ran. */
-export async function runQueuedSheetJobs(knex: Knex, publicUrl?: string) {
+/** Zips the units' sheets (in batch order) with a note naming those without one, and stores it. */
+async function finishJob(knex: Knex, jobId: number, lease: string, batchNumber: number, requestedBy: number | null) {
+  const rows = await knex('sheet_job_units as ju').join('units as u', 'u.id', 'ju.unit_id').leftJoin('files as f', 'f.id', 'ju.file_id')
+    .where('ju.job_id', jobId).orderBy('u.sequence').select('u.serial', 'u.updated_at', 'u.state', 'ju.failure', 'ju.pdf', 'f.data');
+  const entries = rows.filter((r) => !r.failure && r.state !== 'cancelled')
+    .map((r) => ({ name: `${r.serial}.pdf`, data: (r.data ?? r.pdf) as Buffer, date: new Date(r.updated_at) }));
+  const failed = rows.filter((r) => r.failure);
+  if (failed.length > 0) {
+    const note = `These units of ${batchLabel(batchNumber)} have no sheet in this archive:\n${failed.map((r) => `${r.serial}: ${r.failure}`).join('\n')}\n`;
+    entries.push({ name: 'units-without-a-sheet.txt', data: Buffer.from(note, 'utf8'), date: new Date() });
+  }
+  // Zipping ~10 MB (deflate and CRCs) runs in the compute pool, not on this event loop.
+  const data = await compute.zipArchive(entries);
+  await whileLeased(knex, jobId, lease, async (trx) => {
+    const [file] = await trx('files').insert({
+      purpose: 'archive', filename: `spec-sheets-${batchLabel(batchNumber)}.zip`, content_type: 'application/zip',
+      size_bytes: data.length, data, uploaded_by: requestedBy,
+    }).returning('id');
+    await trx('sheet_jobs').where({ id: jobId }).update({ state: 'finished', lease_token: null, archive_file_id: file.id, finished_at: trx.fn.now(), heartbeat_at: trx.fn.now() });
+    // The archive now holds the on-demand sheets; the rows stay as the record of who did which unit.
+    await trx('sheet_job_units').where({ job_id: jobId }).update({ pdf: null });
+  });
+}
+
+/** Claims and works jobs until none is waiting (or the worker stops); returns how many it ran. */
+export async function runQueuedSheetJobs(knex: Knex, publicUrl?: string, signal?: AbortSignal) {
   let ran = 0;
-  for (let job = await claimSheetJob(knex); job; job = await claimSheetJob(knex)) {
-    await runSheetJob(knex, job.id, publicUrl).catch((error) => console.error('[spec-sheets] job', job!.id, error));
+  while (!signal?.aborted) {
+    const job = await claimSheetJob(knex);
+    if (!job) break;
+    await runSheetJob(knex, job.id, job.lease, publicUrl, signal).catch((error) => console.error('[spec-sheets] job', job.id, error));
     ran++;
   }
   return ran;
