@@ -101,6 +101,7 @@ async function runApiBench() {
     const routes: Route[] = [
       { label: '/api/orders', path: '/api/orders', as: 'planner' },
       { label: '/api/shipping', path: '/api/shipping', as: 'planner' },
+      { label: '/api/shipments', path: '/api/shipments', as: 'planner' },
       { label: '/api/batches', path: '/api/batches', as: 'planner' },
       { label: `/api/batches/:id (${batch.n} units)`, path: `/api/batches/${batch.id}`, as: 'planner' },
       { label: '/api/board', path: '/api/board', as: 'planner' },
