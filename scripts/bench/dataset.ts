@@ -86,7 +86,7 @@ async function generate(trx: Knex.Transaction, scale: number) {
       ship_name, ship_line1, ship_city, ship_postcode, ship_country, paid_at, due_at, created_at, updated_at)
     SELECT c.prefix || '-' || nextval('order_number_seq'), cu.id, o.state, 'EUR', 0, 900, 0, 0, u.name,
       'Werkstraat ' || (1 + o.g % 180), (${sqlArray(CITIES.map((c) => c[0]))})[1 + o.g % ${CITIES.length}],
-      lpad(((o.g * 7919) % 90000 + 10000)::text, 5, '0'), (${sqlArray(CITIES.map((c) => c[1]))})[1 + o.g % ${CITIES.length}],
+      lpad(((o.g::bigint * 7919) % 90000 + 10000)::text, 5, '0'), (${sqlArray(CITIES.map((c) => c[1]))})[1 + o.g % ${CITIES.length}],
       CASE WHEN o.state IN ('awaiting_payment', 'cancelled') THEN NULL ELSE o.t + interval '1 hour' END,
       CASE WHEN o.state IN ('awaiting_payment', 'cancelled') THEN NULL ELSE o.t + interval '21 days' END, o.t, o.t + interval '3 days'
     FROM ds_orders o CROSS JOIN ds_const c
@@ -145,7 +145,7 @@ async function generate(trx: Knex.Transaction, scale: number) {
 
   // Shipments for shipped and delivered orders.
   await run(`INSERT INTO shipments (order_id, carrier, tracking_number, shipped_by, shipped_at, delivered_at)
-    SELECT o.id, (${sqlArray(CARRIERS)})[1 + o.g % ${CARRIERS.length}], 'TR ' || lpad(((o.g * 104729) % 99999999)::text, 8, '0'),
+    SELECT o.id, (${sqlArray(CARRIERS)})[1 + o.g % ${CARRIERS.length}], 'TR ' || lpad(((o.g::bigint * 104729) % 99999999)::text, 8, '0'),
       (SELECT id FROM users WHERE role = 'planner' ORDER BY id LIMIT 1), o.t + interval '18 days',
       CASE WHEN o.state = 'delivered' THEN o.t + interval '21 days' END
     FROM ds_order_ids o WHERE o.state IN ('shipped', 'delivered') ORDER BY o.id`);

@@ -118,7 +118,7 @@ export async function getBatch(db: Db, batchId: number) {
 export const toDate = (d: Date | string) => (typeof d === 'string' ? d.slice(0, 10) : new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 10));
 
 const BATCH_SORT: Record<BatchListQuery['sort'], string> = { number: 'b.number', state: 'b.state', createdAt: 'b.created_at', modelName: 'm.name' };
-interface BatchListRow { id: number; number: number; state: BatchState; released_at: Date | null; created_at: Date; model_name: string; revision_number: number; units: number }
+interface BatchListRow { id: number; number: number; state: BatchState; released_at: Date | null; created_at: Date; model_name: string; revision_number: number }
 
 /** Batches, one page at a time, newest first by default; filtered by state and a search (label or model). */
 export async function listBatches(db: Db, params: BatchListQuery) {
@@ -134,13 +134,18 @@ export async function listBatches(db: Db, params: BatchListQuery) {
     }
     return q;
   };
-  return paged(params, {
+  const page = await paged(params, {
     count: base(),
-    rows: base().select('b.id', 'b.number', 'b.state', 'b.released_at', 'b.created_at', 'm.name as model_name', 'r.number as revision_number')
-      .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM batch_lines WHERE batch_id = b.id) AS units')),
+    rows: base().select('b.id', 'b.number', 'b.state', 'b.released_at', 'b.created_at', 'm.name as model_name', 'r.number as revision_number'),
     sortColumns: BATCH_SORT, tieBreak: 'b.id',
-    map: (b: BatchListRow) => ({ id: b.id, number: b.number, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number, units: b.units, releasedAt: b.released_at, createdAt: b.created_at }),
+    map: (b: BatchListRow) => ({ id: b.id, number: b.number, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number, releasedAt: b.released_at, createdAt: b.created_at }),
   });
+  // Unit counts of this page's batches in one grouped query.
+  const sums = page.items.length
+    ? await db('batch_lines').whereIn('batch_id', page.items.map((b) => b.id)).groupBy('batch_id').select('batch_id', db.raw('SUM(quantity)::int AS units'))
+    : [];
+  const units = new Map(sums.map((r: { batch_id: number; units: number }) => [r.batch_id, r.units]));
+  return { ...page, items: page.items.map((b) => ({ ...b, units: units.get(b.id) ?? 0 })) };
 }
 
 /** What to buy for a batch's shortages, grouped by supplier, as CSV. */

@@ -18,7 +18,7 @@ type Db = Knex | Knex.Transaction;
 const SHIPPING_SORT: Record<ShippingListQuery['sort'], string> = { dueAt: 'o.due_at', number: 'o.id', state: 'o.state', customerName: 'u.name' };
 const SHIPMENT_SORT: Record<ShipmentListQuery['sort'], string> = { shippedAt: 's.shipped_at', number: 'o.id', carrier: 's.carrier', customerName: 'u.name' };
 interface Destination { ship_name: string; ship_city: string; ship_country: string }
-interface ShippingRow extends Destination { id: number; number: string; state: OrderState; due_at: Date | null; customer_name: string; units: number; passed: number; ordered: number }
+interface ShippingRow extends Destination { id: number; number: string; state: OrderState; due_at: Date | null; customer_name: string; units: number; passed: number }
 interface ShipmentRow extends Destination {
   id: number; order_id: number; number: string; state: OrderState; customer_name: string; carrier: string; tracking_number: string;
   shipped_at: Date; delivered_at: Date | null; packing_slip_file_id: number | null;
@@ -41,14 +41,18 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
     count: base(),
     rows: base().select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name')
       .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
-      .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed"))
-      .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines WHERE order_id = o.id) AS ordered')),
+      .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed")),
     sortColumns: SHIPPING_SORT, tieBreak: 'o.id',
     map: (o: ShippingRow) => ({
       id: o.id, number: o.number, state: o.state, dueAt: o.due_at, customerName: o.customer_name,
-      destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`, units: o.units, passed: o.passed, ordered: o.ordered,
+      destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`, units: o.units, passed: o.passed,
     }),
   });
+  // Ordered quantities of this page's orders in one grouped query.
+  const sums = orders.items.length
+    ? await db('order_lines').whereIn('order_id', orders.items.map((o) => o.id)).groupBy('order_id').select('order_id', db.raw('SUM(quantity)::int AS ordered'))
+    : [];
+  const ordered = new Map(sums.map((r: { order_id: number; ordered: number }) => [r.order_id, r.ordered]));
   const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
     .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
@@ -61,7 +65,7 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
         .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT)
     : [];
   return {
-    orders,
+    orders: { ...orders, items: orders.items.map((o) => ({ ...o, ordered: ordered.get(o.id) ?? 0 })) },
     fromStock: waiting.filter((l) => (stockByOption.get(l.option_id) ?? 0) >= l.quantity).map((l) => ({ orderLineId: l.id, orderNumber: l.number, quantity: l.quantity, description: l.description })),
     finishedStock: stock.map((u) => ({ id: u.id, serial: u.serial, state: u.state, modelName: u.model_name, optionName: u.option_name })),
   };
