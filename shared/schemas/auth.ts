@@ -1,11 +1,8 @@
 import { z } from 'zod';
 import { ROLES } from '../roles';
 import { str } from './common';
-<<<<<<< HEAD
 import { newPasswordSchema, refuseEmailAsPassword } from './password';
-=======
 import { boolParam, listQuery } from './list';
->>>>>>> 3fb224d (Production-size dataset generator and the API load benchmark; every big list paged, sorted and filtered on the server with one request schema and one page type)
 
 // One schema per request shape: the forms, the client types and the server's validation share them.
 const email = str().trim().toLowerCase().email('Enter a valid e-mail address').max(200);

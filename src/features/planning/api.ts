@@ -34,19 +34,14 @@ const keys = {
   candidates: () => [...keys.all, 'candidates'] as const,
 };
 
-<<<<<<< HEAD
-export const batchesQuery = () => queryOptions({ queryKey: keys.list(), queryFn: () => api.get<{ batches: BatchRow[] }>('/api/batches').then((b) => b.batches) });
+export type BatchListParams = Partial<BatchListQuery>;
+/** One page of batches, as the server sorts and filters them. */
+export const batchesQuery = (params: BatchListParams) => queryOptions({ queryKey: keys.list(params), queryFn: () => api.get<Page<BatchRow>>(`/api/batches${listSearch(params)}`), placeholderData: keepPreviousData });
 export const batchQuery = (id: number) => queryOptions({
   queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`),
   // While the release job makes the units, follow its progress.
   refetchInterval: (query) => (query.state.data?.batch.state === 'releasing' ? 1000 : false),
 });
-=======
-export type BatchListParams = Partial<BatchListQuery>;
-/** One page of batches, as the server sorts and filters them. */
-export const batchesQuery = (params: BatchListParams) => queryOptions({ queryKey: keys.list(params), queryFn: () => api.get<Page<BatchRow>>(`/api/batches${listSearch(params)}`), placeholderData: keepPreviousData });
-export const batchQuery = (id: number) => queryOptions({ queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`) });
->>>>>>> 3fb224d (Production-size dataset generator and the API load benchmark; every big list paged, sorted and filtered on the server with one request schema and one page type)
 export const candidatesQuery = () => queryOptions({ queryKey: keys.candidates(), queryFn: () => api.get<Candidates>('/api/batches/candidates') });
 export const assemblersQuery = () => queryOptions({ queryKey: ['assemblers', 'list'], queryFn: () => api.get<{ assemblers: PlanAssembler[] }>('/api/assemblers').then((b) => b.assemblers) });
 
