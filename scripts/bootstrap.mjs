@@ -307,7 +307,27 @@ function test() {
   process.exit(ok ? 0 : 1);
 }
 
+// The benchmark database (KP_BENCH_DB, default kneepoint_bench) on the same cluster: `npm run
+// dataset` fills it; `npm run bench` gets its URL (only the api section uses it). Postgres is left
+// running, as after `npm test` with another user of the cluster.
+function bench(script) {
+  const database = process.env.KP_BENCH_DB ?? 'kneepoint_bench';
+  if (!/^[a-z_][a-z0-9_]*$/.test(database)) fail('KP_BENCH_DB must be a plain lower-case identifier.');
+  const args = process.argv.slice(3);
+  ensureNodeModules();
+  const env = { ...process.env };
+  if (script === 'scripts/bench/dataset.ts' || args.includes('api')) {
+    const bin = ensurePostgresInstalled();
+    ensureCluster(bin);
+    startPostgres(bin);
+    env.BENCH_DATABASE_URL = ensureDatabase(bin, database, { recreate: false });
+  }
+  process.exit(tsx(script, args, env) ? 0 : 1);
+}
+
 if (mode === 'start') serve(false);
+else if (mode === 'dataset') bench('scripts/bench/dataset.ts');
+else if (mode === 'bench') bench('scripts/bench.ts');
 else if (mode === 'dev') serve(true);
 else if (mode === 'test') test();
 else fail(`unknown mode ${mode}: use start, dev or test`);

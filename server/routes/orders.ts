@@ -29,7 +29,7 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
         res.status(201).json(await orders.orderDetail(knex, currentUser(req), order.id));
       },
     },
-    { method: 'get', path: '/api/orders', allow: PLANNING, handler: async (req, res) => res.json({ orders: await orders.listOrders(knex, parseWith(orderFilterSchema, req.query)) }) },
+    { method: 'get', path: '/api/orders', allow: PLANNING, handler: async (req, res) => res.json(await orders.listOrders(knex, parseWith(orderFilterSchema, req.query))) },
     // Customers reach only their own orders (someone else's answers 404); order staff reach all.
     { method: 'get', path: '/api/orders/:id', allow: 'signed-in', handler: async (req, res) => res.json(await orders.orderDetail(knex, currentUser(req), orderId(req))) },
     { method: 'post', path: '/api/orders/:id/checkout', allow: CUSTOMERS, handler: async (req, res) => res.json(await startCheckout(knex, payments, currentUser(req), orderId(req))) },

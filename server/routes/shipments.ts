@@ -1,15 +1,16 @@
 import type { Knex } from 'knex';
 import type { Config } from '../config';
-import { shipOrderSchema } from '../../shared/schemas/production';
+import { shipmentListSchema, shippingListSchema, shipOrderSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
-import { fulfilFromStock, markDelivered, moveToFinishedStock, packingSlip, shipOrder, shippingQueue } from '../services/production/shipping';
+import { fulfilFromStock, markDelivered, moveToFinishedStock, packingSlip, shipmentList, shipOrder, shippingQueue } from '../services/production/shipping';
 import { PLANNING } from '../../shared/roles';
 import { pathId } from '../http/params';
 
 export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
-    { method: 'get', path: '/api/shipping', allow: PLANNING, handler: async (_req, res) => res.json(await shippingQueue(knex)) },
+    { method: 'get', path: '/api/shipping', allow: PLANNING, handler: async (req, res) => res.json(await shippingQueue(knex, parseWith(shippingListSchema, req.query))) },
+    { method: 'get', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.json(await shipmentList(knex, parseWith(shipmentListSchema, req.query))) },
     { method: 'post', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body), config.publicUrl)) },
     {
       method: 'get', path: '/api/shipments/:id/packing-slip.pdf', allow: PLANNING,

@@ -1,5 +1,5 @@
 import type { Knex } from 'knex';
-import { createUserSchema, updateUserSchema } from '../../shared/schemas/auth';
+import { createUserSchema, updateUserSchema, userListSchema } from '../../shared/schemas/auth';
 import { OWNER_ONLY } from '../../shared/roles';
 import { parseWith } from '../errors';
 import { pathId } from '../http/params';
@@ -8,7 +8,7 @@ import * as users from '../services/users';
 
 export function userRoutes(knex: Knex): RouteDef[] {
   return [
-    { method: 'get', path: '/api/users', allow: OWNER_ONLY, handler: async (_req, res) => res.json({ users: await users.listUsers(knex) }) },
+    { method: 'get', path: '/api/users', allow: OWNER_ONLY, handler: async (req, res) => res.json(await users.listUsers(knex, parseWith(userListSchema, req.query))) },
     {
       method: 'post', path: '/api/users', allow: OWNER_ONLY,
       handler: async (req, res) => res.status(201).json({ user: await users.createUser(knex, parseWith(createUserSchema, req.body)) }),

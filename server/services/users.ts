@@ -1,7 +1,8 @@
 import bcrypt from 'bcryptjs';
 import type { Knex } from 'knex';
 import type { Role, SessionUser } from '../../shared/roles';
-import type { CreateUserInput, RegisterInput, UpdateUserInput } from '../../shared/schemas/auth';
+import type { CreateUserInput, RegisterInput, UpdateUserInput, UserListQuery } from '../../shared/schemas/auth';
+import { containsPattern, paged } from '../http/paged';
 import { conflict, invalid, isUniqueViolation, notFound } from '../errors';
 import { passwordProblem } from '../../shared/schemas/password';
 import { enqueueMail } from './mail/outbox';
@@ -78,10 +79,22 @@ export async function registerCustomer(knex: Knex, input: RegisterInput): Promis
 }
 export const createUser = (knex: Knex, input: CreateUserInput) => insertUser(knex, input);
 
-export async function listUsers(knex: Knex) {
-  return knex<UserRow>('users')
-    .select('id', 'email', 'name', 'role', 'active', 'created_at')
-    .orderBy([{ column: 'active', order: 'desc' }, { column: 'role' }, { column: 'name' }]);
+const USER_SORT: Record<UserListQuery['sort'], string> = { name: 'name', email: 'email', role: 'role', createdAt: 'created_at' };
+
+/** People who can sign in, one page at a time: active first is left to the filters; staff or customers. */
+export async function listUsers(knex: Knex, params: UserListQuery) {
+  const base = () => {
+    const q = knex<UserRow>('users');
+    if (params.role) q.where('role', params.role);
+    if (params.staff === true) q.whereNot('role', 'customer');
+    if (params.staff === false) q.where('role', 'customer');
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('name', like).orWhereILike('email', like)); }
+    return q;
+  };
+  return paged(params, {
+    count: base(), rows: base().select('id', 'email', 'name', 'role', 'active', 'created_at'),
+    sortColumns: USER_SORT, tieBreak: 'id', map: (u: Pick<UserRow, 'id' | 'email' | 'name' | 'role' | 'active' | 'created_at'>) => u,
+  });
 }
 
 export async function updateUser(knex: Knex, actorId: number, id: number, input: UpdateUserInput) {

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { ROLES } from '../roles';
 import { str } from './common';
 import { newPasswordSchema, refuseEmailAsPassword } from './password';
+import { boolParam, listQuery } from './list';
 
 // One schema per request shape: the forms, the client types and the server's validation share them.
 const email = str().trim().toLowerCase().email('Enter a valid e-mail address').max(200);
@@ -42,3 +43,10 @@ export const updateUserSchema = z
   })
   .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change' });
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;
+
+/** The owner's list of people: staff by default (`staff=false` lists customers), sortable, searchable. */
+export const userListSchema = listQuery(['name', 'email', 'role', 'createdAt'] as const, { sort: 'name', dir: 'asc' }, {
+  role: z.enum(ROLES, { message: 'Choose a role from the list' }).optional(),
+  staff: boolParam.optional(),
+});
+export type UserListQuery = z.infer<typeof userListSchema>;

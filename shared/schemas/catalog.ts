@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { id, str, text } from './common';
+import { boolParam, listQuery } from './list';
 
 // Request shapes of the catalog: parts and stock, devices, models, revisions, BOM, steps, options.
 // The same schemas validate the forms (react-hook-form + zodResolver) and the server (parseWith).
@@ -37,14 +38,9 @@ export const partSchema = z.object({
 export type PartInput = z.infer<typeof partSchema>;
 export const partUpdateSchema = patchOf(partSchema);
 
-export const partListQuerySchema = z.object({
-  search: str().trim().max(80).default(''),
-  category: z.enum(PART_CATEGORIES).optional().or(z.literal('').transform(() => undefined)),
-  lowStock: z.enum(['true', 'false']).optional().transform((v) => v === 'true'),
-  sort: z.enum(['partNumber', 'category', 'value', 'unitCostCents', 'onHand', 'available', 'reorderPoint', 'binLocation']).default('partNumber'),
-  dir: z.enum(['asc', 'desc']).default('asc'),
-  page: z.coerce.number().int().min(1).default(1),
-  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+export const partListQuerySchema = listQuery(['partNumber', 'category', 'value', 'unitCostCents', 'onHand', 'available', 'reorderPoint', 'binLocation'] as const, { sort: 'partNumber', dir: 'asc' }, {
+  category: z.enum(PART_CATEGORIES, { message: 'Choose a category from the list' }).optional().or(z.literal('').transform(() => undefined)),
+  lowStock: boolParam.optional(),
 });
 export type PartListQuery = z.infer<typeof partListQuerySchema>;
 

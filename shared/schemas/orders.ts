@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { dateSchema, id, str } from './common';
 import { ORDER_STATES } from '../order-states';
+import { listQuery } from './list';
 
 // One schema per request shape for ordering: the cart and checkout forms and the server share them.
 // Prices are deliberately absent: the server computes every amount from the catalog and settings.
@@ -32,12 +33,13 @@ export type QuoteInput = z.infer<typeof quoteSchema>;
 export const placeOrderSchema = quoteSchema.extend({ shipping: shippingAddressSchema });
 export type PlaceOrderInput = z.infer<typeof placeOrderSchema>;
 
-export const orderFilterSchema = z.object({
-  state: z.enum(ORDER_STATES).optional(),
+/** The order desk's list: sortable columns and filters (paging and `q` come from listQuery). */
+export const ORDER_SORT_KEYS = ['createdAt', 'number', 'state', 'totalCents', 'customerName'] as const;
+export const orderFilterSchema = listQuery(ORDER_SORT_KEYS, { sort: 'createdAt', dir: 'desc' }, {
+  state: z.enum(ORDER_STATES, { message: 'Choose a status from the list' }).optional(),
   optionId: id('Not a valid option id').optional(),
   from: dateSchema('2026-12-01').optional(),
   to: dateSchema('2026-12-01').optional(),
-  q: str().trim().max(100).optional(),
 });
 export type OrderFilter = z.infer<typeof orderFilterSchema>;
 

@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { dateSchema, id as idOf, str } from './common';
+import { boolParam, listQuery } from './list';
+import { BATCH_STATES } from '../production/states';
 
 // One schema per request shape of the production area (planning, kitting, assigning, building,
 // testing, shipping); forms and the server share them.
@@ -78,3 +80,26 @@ export const CAPTURE_LIMITS = {
   maxSeconds: 10,
   sampleRates: [44100, 48000, 96000] as readonly number[],
 };
+
+// Server-paged lists of production (paging, sort and q from listQuery).
+export const batchListSchema = listQuery(['number', 'state', 'createdAt', 'modelName'] as const, { sort: 'number', dir: 'desc' }, {
+  state: z.enum(BATCH_STATES, { message: 'Choose a batch state from the list' }).optional(),
+});
+export type BatchListQuery = z.infer<typeof batchListSchema>;
+
+/** Orders on their way to the customer: scheduled, in production or ready to ship. */
+export const SHIPPING_STATES = ['scheduled', 'in_production', 'ready'] as const;
+export const shippingListSchema = listQuery(['dueAt', 'number', 'state', 'customerName'] as const, { sort: 'dueAt', dir: 'asc' }, {
+  state: z.enum(SHIPPING_STATES, { message: 'Choose scheduled, in production or ready' }).optional(),
+});
+export type ShippingListQuery = z.infer<typeof shippingListSchema>;
+
+/** Shipments, newest first by default; `delivered=false` leaves those still on their way. */
+export const shipmentListSchema = listQuery(['shippedAt', 'number', 'carrier', 'customerName'] as const, { sort: 'shippedAt', dir: 'desc' }, {
+  delivered: boolParam.optional(),
+});
+export type ShipmentListQuery = z.infer<typeof shipmentListSchema>;
+
+/** Units built and waiting for their bench test. */
+export const benchListSchema = listQuery(['serial', 'builtAt', 'modelName'] as const, { sort: 'builtAt', dir: 'asc' });
+export type BenchListQuery = z.infer<typeof benchListSchema>;

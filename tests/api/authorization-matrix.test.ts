@@ -96,6 +96,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/units/:id/cancel': CATALOG_EDITORS,
   'POST /api/units/:id/tests': ['tester'],
   'GET /api/shipping': CATALOG_EDITORS,
+  'GET /api/shipments': CATALOG_EDITORS,
   'POST /api/shipments': CATALOG_EDITORS,
   'GET /api/shipments/:id/packing-slip.pdf': CATALOG_EDITORS,
   'POST /api/shipments/:id/delivered': CATALOG_EDITORS,

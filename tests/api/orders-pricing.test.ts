@@ -107,20 +107,20 @@ describe('who sees which order', () => {
     const led = await placeOrder(customer, pedal, 1, 'led');
     const si = await placeOrder(other, pedal, 1, 'silicon');
     const byOption = await planner.get(`/api/orders?optionId=${pedal.options.silicon}`).expect(200);
-    const ids = byOption.body.orders.map((o: { id: number }) => o.id);
+    const ids = byOption.body.items.map((o: { id: number }) => o.id);
     expect(ids).toContain(si.order.id);
     expect(ids).not.toContain(led.order.id);
     const bySearch = await planner.get(`/api/orders?q=${encodeURIComponent(si.order.number)}`).expect(200);
-    expect(bySearch.body.orders.map((o: { id: number }) => o.id)).toEqual([si.order.id]);
+    expect(bySearch.body.items.map((o: { id: number }) => o.id)).toEqual([si.order.id]);
     const byName = await planner.get('/api/orders?q=whitlow').expect(200);
-    expect(byName.body.orders.every((o: { customer_name: string }) => o.customer_name === 'Sam Whitlow')).toBe(true);
+    expect(byName.body.items.every((o: { customer_name: string }) => o.customer_name === 'Sam Whitlow')).toBe(true);
     const paid = await planner.get('/api/orders?state=paid').expect(200);
-    expect(paid.body.orders.map((o: { id: number }) => o.id)).not.toContain(led.order.id);
+    expect(paid.body.items.map((o: { id: number }) => o.id)).not.toContain(led.order.id);
     const today = new Date().toISOString().slice(0, 10);
     const future = await planner.get('/api/orders?from=2999-01-01').expect(200);
-    expect(future.body.orders).toEqual([]);
+    expect(future.body.items).toEqual([]);
     const since = await planner.get(`/api/orders?from=${today.slice(0, 8)}01`).expect(200);
-    expect(since.body.orders.map((o: { id: number }) => o.id)).toContain(led.order.id);
+    expect(since.body.items.map((o: { id: number }) => o.id)).toContain(led.order.id);
     await planner.get('/api/orders?state=lost').expect(400);
   });
 

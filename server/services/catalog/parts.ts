@@ -3,6 +3,7 @@ import type { Knex } from 'knex';
 import { stringify } from 'csv-stringify/sync';
 import type { PartInput, PartListQuery } from '../../../shared/schemas/catalog';
 import { conflict, invalid, isUniqueViolation, notFound } from '../../errors';
+import { containsPattern } from '../../http/paged';
 import { movementHistory } from './stock';
 
 const SORT_COLUMNS: Record<PartListQuery['sort'], string> = {
@@ -10,11 +11,11 @@ const SORT_COLUMNS: Record<PartListQuery['sort'], string> = {
   onHand: 's.on_hand', available: 's.available', reorderPoint: 'p.reorder_point', binLocation: 'p.bin_location',
 };
 
-function baseQuery(knex: Knex, q: Pick<PartListQuery, 'search' | 'category' | 'lowStock'>) {
+function baseQuery(knex: Knex, q: Pick<PartListQuery, 'q' | 'category' | 'lowStock'>) {
   return knex('parts as p').join('part_stock as s', 's.part_id', 'p.id').leftJoin('suppliers as sup', 'sup.id', 'p.supplier_id')
     .modify((b) => {
-      if (q.search) {
-        const like = `%${q.search.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+      if (q.q) {
+        const like = containsPattern(q.q);
         b.where((w) => w.whereILike('p.part_number', like).orWhereILike('p.value', like).orWhereILike('p.manufacturer_part_number', like).orWhereILike('p.bin_location', like));
       }
       if (q.category) b.where('p.category', q.category);
@@ -44,15 +45,15 @@ function view(r: any): PartView {
 /** GET /api/parts: one page, the total count, and how many are below their reorder point overall. */
 export async function listParts(knex: Knex, q: PartListQuery) {
   const [{ count }] = await baseQuery(knex, q).count<{ count: number }[]>('* as count');
-  const [{ low }] = await baseQuery(knex, { search: '', category: undefined, lowStock: true }).count<{ low: number }[]>('* as low');
+  const [{ low }] = await baseQuery(knex, { category: undefined, lowStock: true }).count<{ low: number }[]>('* as low');
   const rows = await baseQuery(knex, q).select(COLUMNS)
     .orderBy([{ column: SORT_COLUMNS[q.sort], order: q.dir }, { column: 'p.id', order: 'asc' }])
     .limit(q.pageSize).offset((q.page - 1) * q.pageSize);
-  return { parts: rows.map(view), total: Number(count), lowStockTotal: Number(low), page: q.page, pageSize: q.pageSize };
+  return { items: rows.map(view), total: Number(count), lowStockTotal: Number(low), page: q.page, pageSize: q.pageSize };
 }
 
 export async function getPart(knex: Knex, id: number) {
-  const row = await baseQuery(knex, { search: '', category: undefined, lowStock: false }).where('p.id', id).first(COLUMNS);
+  const row = await baseQuery(knex, { category: undefined, lowStock: false }).where('p.id', id).first(COLUMNS);
   if (!row) throw notFound('No such part');
   return { ...view(row), movements: await movementHistory(knex, id, 200) };
 }

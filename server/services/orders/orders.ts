@@ -4,6 +4,7 @@ import type { SessionUser } from '../../../shared/roles';
 import type { OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
 import type { OrderState } from '../../../shared/order-states';
 import { notFound } from '../../errors';
+import { containsPattern, paged } from '../../http/paged';
 import { getSettings } from '../settings';
 import { priceCart } from './pricing';
 import { transitionOrder } from './transitions';
@@ -127,24 +128,44 @@ export async function myOrders(knex: Knex, user: SessionUser) {
   return orders.map((o) => ({ ...publicOrder(o), lines: lines.filter((l) => l.order_id === o.id) }));
 }
 
-/** Every order for staff, filtered on the server by state, option, placed date (shop time zone) and a search. */
+const ORDER_SORT: Record<OrderFilter['sort'], string> = {
+  createdAt: 'o.created_at', number: 'o.id', state: 'o.state', totalCents: 'o.total_cents', customerName: 'u.name',
+};
+
+/** Orders for staff, one page at a time: filtered by state, option, placed date (shop time zone) and a search. */
 export async function listOrders(knex: Knex, filter: OrderFilter) {
   const settings = await getSettings(knex);
-  const query = knex('orders as o').join('users as u', 'u.id', 'o.customer_id')
-    .select('o.id', 'o.number', 'o.state', 'o.currency', 'o.total_cents', 'o.created_at', 'o.paid_at', 'u.name as customer_name', 'u.email as customer_email',
-      knex.raw("(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines l WHERE l.order_id = o.id) AS units"),
-      knex.raw("(SELECT string_agg(l.description, '; ' ORDER BY l.id) FROM order_lines l WHERE l.order_id = o.id) AS summary"))
-    .orderBy('o.created_at', 'desc').orderBy('o.id', 'desc').limit(500);
-  if (filter.state) query.where('o.state', filter.state);
-  if (filter.optionId) query.whereExists(knex('order_lines as l').whereRaw('l.order_id = o.id').andWhere('l.option_id', filter.optionId));
-  // Dates are the shop's calendar days, so "from 1 Dec" means midnight in the shop's zone.
-  if (filter.from) query.whereRaw('o.created_at >= (?::date)::timestamp AT TIME ZONE ?', [filter.from, settings.time_zone]);
-  if (filter.to) query.whereRaw("o.created_at < ((?::date + 1)::timestamp AT TIME ZONE ?)", [filter.to, settings.time_zone]);
-  if (filter.q) {
-    const like = `%${filter.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    query.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('u.email', like).orWhereILike('o.ship_name', like));
-  }
-  return query;
+  const base = () => {
+    const query = knex('orders as o').join('users as u', 'u.id', 'o.customer_id');
+    if (filter.state) query.where('o.state', filter.state);
+    if (filter.optionId) query.whereExists(knex('order_lines as l').whereRaw('l.order_id = o.id').andWhere('l.option_id', filter.optionId));
+    // Dates are the shop's calendar days, so "from 1 Dec" means midnight in the shop's zone.
+    if (filter.from) query.whereRaw('o.created_at >= (?::date)::timestamp AT TIME ZONE ?', [filter.from, settings.time_zone]);
+    if (filter.to) query.whereRaw("o.created_at < ((?::date + 1)::timestamp AT TIME ZONE ?)", [filter.to, settings.time_zone]);
+    if (filter.q) {
+      const like = containsPattern(filter.q);
+      query.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('u.email', like).orWhereILike('o.ship_name', like));
+    }
+    return query;
+  };
+  const page = await paged(filter, {
+    count: base(),
+    rows: base().select('o.id', 'o.number', 'o.state', 'o.currency', 'o.total_cents', 'o.created_at', 'o.paid_at', 'u.name as customer_name', 'u.email as customer_email'),
+    sortColumns: ORDER_SORT, tieBreak: 'o.id', map: (row: Omit<OrderListRow, 'units' | 'summary'>) => row,
+  });
+  // The lines of this page's orders in one grouped query, not two subqueries per row.
+  const sums = page.items.length
+    ? await knex('order_lines').whereIn('order_id', page.items.map((o) => o.id)).groupBy('order_id')
+        .select('order_id', knex.raw('SUM(quantity)::int AS units'), knex.raw("string_agg(description, '; ' ORDER BY id) AS summary"))
+    : [];
+  const byOrder = new Map(sums.map((r: { order_id: number; units: number; summary: string }) => [r.order_id, r]));
+  return { ...page, items: page.items.map((o): OrderListRow => ({ ...o, units: byOrder.get(o.id)?.units ?? 0, summary: byOrder.get(o.id)?.summary ?? '' })) };
+}
+
+/** A row of the order desk's list. */
+export interface OrderListRow {
+  id: number; number: string; state: OrderState; currency: string; total_cents: number; created_at: Date; paid_at: Date | null;
+  customer_name: string; customer_email: string; units: number; summary: string;
 }
 
 /** A staff note goes into the history (with who wrote it) and onto the order's notes. */

@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
 import { stringify } from 'csv-stringify/sync';
-import type { CreateBatchInput } from '../../../shared/schemas/production';
+import type { BatchListQuery, CreateBatchInput } from '../../../shared/schemas/production';
+import { containsPattern, paged } from '../../http/paged';
 import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../../shared/production/states';
 import { batchLabel } from '../../../shared/production/serials';
 import { conflict, invalid, notFound } from '../../errors';
@@ -116,12 +117,35 @@ export async function getBatch(db: Db, batchId: number) {
 
 export const toDate = (d: Date | string) => (typeof d === 'string' ? d.slice(0, 10) : new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 10));
 
-export async function listBatches(db: Db) {
-  const rows = await db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
-    .select('b.id', 'b.number', 'b.state', 'b.released_at', 'b.created_at', 'm.name as model_name', 'r.number as revision_number')
-    .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM batch_lines WHERE batch_id = b.id) AS units'))
-    .orderBy('b.number', 'desc');
-  return rows.map((b) => ({ id: b.id, number: b.number, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number, units: b.units, releasedAt: b.released_at, createdAt: b.created_at }));
+const BATCH_SORT: Record<BatchListQuery['sort'], string> = { number: 'b.number', state: 'b.state', createdAt: 'b.created_at', modelName: 'm.name' };
+interface BatchListRow { id: number; number: number; state: BatchState; released_at: Date | null; created_at: Date; model_name: string; revision_number: number }
+
+/** Batches, one page at a time, newest first by default; filtered by state and a search (label or model). */
+export async function listBatches(db: Db, params: BatchListQuery) {
+  const base = () => {
+    const q = db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id');
+    if (params.state) q.where('b.state', params.state);
+    if (params.q) {
+      const digits = params.q.replace(/^b/i, '');
+      q.where((w) => {
+        w.whereILike('m.name', containsPattern(params.q!));
+        if (/^\d{1,9}$/.test(digits)) w.orWhere('b.number', Number(digits));
+      });
+    }
+    return q;
+  };
+  const page = await paged(params, {
+    count: base(),
+    rows: base().select('b.id', 'b.number', 'b.state', 'b.released_at', 'b.created_at', 'm.name as model_name', 'r.number as revision_number'),
+    sortColumns: BATCH_SORT, tieBreak: 'b.id',
+    map: (b: BatchListRow) => ({ id: b.id, number: b.number, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number, releasedAt: b.released_at, createdAt: b.created_at }),
+  });
+  // Unit counts of this page's batches in one grouped query.
+  const sums = page.items.length
+    ? await db('batch_lines').whereIn('batch_id', page.items.map((b) => b.id)).groupBy('batch_id').select('batch_id', db.raw('SUM(quantity)::int AS units'))
+    : [];
+  const units = new Map(sums.map((r: { batch_id: number; units: number }) => [r.batch_id, r.units]));
+  return { ...page, items: page.items.map((b) => ({ ...b, units: units.get(b.id) ?? 0 })) };
 }
 
 /** What to buy for a batch's shortages, grouped by supplier, as CSV. */

@@ -1,6 +1,8 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
-import type { ShipOrderInput } from '../../../shared/schemas/production';
+import { SHIPPING_STATES, type ShipmentListQuery, type ShippingListQuery, type ShipOrderInput } from '../../../shared/schemas/production';
+import { containsPattern, paged } from '../../http/paged';
+import type { OrderState } from '../../../shared/order-states';
 import { conflict, notFound } from '../../errors';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
@@ -13,33 +15,83 @@ import { closeBatchIfDone, orderFullyPassed } from './testing';
 
 type Db = Knex | Knex.Transaction;
 
-/** Orders with units in production or ready to pack, and shipped orders awaiting delivery. */
-export async function shippingQueue(db: Db) {
-  const orders = await db('orders as o').join('users as u', 'u.id', 'o.customer_id')
-    .whereIn('o.state', ['scheduled', 'in_production', 'ready', 'shipped'])
-    .leftJoin('shipments as s', 's.order_id', 'o.id')
-    .select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name', 's.id as shipment_id', 's.carrier', 's.tracking_number', 's.shipped_at')
-    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
-    .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed"))
-    .select(db.raw('(SELECT COALESCE(SUM(quantity), 0)::int FROM order_lines WHERE order_id = o.id) AS ordered'))
-    .orderBy([{ column: 'o.due_at', order: 'asc', nulls: 'last' }, 'o.id']);
+const SHIPPING_SORT: Record<ShippingListQuery['sort'], string> = { dueAt: 'o.due_at', number: 'o.id', state: 'o.state', customerName: 'u.name' };
+const SHIPMENT_SORT: Record<ShipmentListQuery['sort'], string> = { shippedAt: 's.shipped_at', number: 'o.id', carrier: 's.carrier', customerName: 'u.name' };
+interface Destination { ship_name: string; ship_city: string; ship_country: string }
+interface ShippingRow extends Destination { id: number; number: string; state: OrderState; due_at: Date | null; customer_name: string; units: number; passed: number }
+interface ShipmentRow extends Destination {
+  id: number; order_id: number; number: string; state: OrderState; customer_name: string; carrier: string; tracking_number: string;
+  shipped_at: Date; delivered_at: Date | null; packing_slip_file_id: number | null;
+}
+/** At most this many stock lines and stock builds come with the shipping page. */
+const STOCK_LIST_LIMIT = 100;
+
+/**
+ * The shipping desk: one page of orders on their way (scheduled, in production, ready to ship),
+ * the paid orders finished stock can fulfil, and the stock builds that passed. Shipped orders are
+ * in `shipmentList`, so this never grows with the shop's history.
+ */
+export async function shippingQueue(db: Db, params: ShippingListQuery) {
+  const base = () => {
+    const q = db('orders as o').join('users as u', 'u.id', 'o.customer_id').whereIn('o.state', params.state ? [params.state] : [...SHIPPING_STATES]);
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('o.ship_name', like)); }
+    return q;
+  };
+  const orders = await paged(params, {
+    count: base(),
+    rows: base().select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name')
+      .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
+      .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed")),
+    sortColumns: SHIPPING_SORT, tieBreak: 'o.id',
+    map: (o: ShippingRow) => ({
+      id: o.id, number: o.number, state: o.state, dueAt: o.due_at, customerName: o.customer_name,
+      destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`, units: o.units, passed: o.passed,
+    }),
+  });
+  // Ordered quantities of this page's orders in one grouped query.
+  const sums = orders.items.length
+    ? await db('order_lines').whereIn('order_id', orders.items.map((o) => o.id)).groupBy('order_id').select('order_id', db.raw('SUM(quantity)::int AS ordered'))
+    : [];
+  const ordered = new Map(sums.map((r: { order_id: number; ordered: number }) => [r.order_id, r.ordered]));
   const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
-    .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name').orderBy('u.serial');
+    .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
+    // Passed builds first (they wait for someone), then the newest stock.
+    .orderByRaw("u.state = 'passed' DESC, u.id DESC").limit(STOCK_LIST_LIMIT);
   const stockByOption = new Map<number, number>();
-  for (const u of await db('units').where({ state: 'in_stock' }).whereNull('order_id').select('option_id')) stockByOption.set(u.option_id, (stockByOption.get(u.option_id) ?? 0) + 1);
+  for (const u of await db('units').where({ state: 'in_stock' }).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
   const waiting = stockByOption.size
     ? await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').where('o.state', 'paid').whereNull('l.batch_id').whereIn('l.option_id', [...stockByOption.keys()])
-        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id')
+        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT)
     : [];
   return {
+    orders: { ...orders, items: orders.items.map((o) => ({ ...o, ordered: ordered.get(o.id) ?? 0 })) },
     fromStock: waiting.filter((l) => (stockByOption.get(l.option_id) ?? 0) >= l.quantity).map((l) => ({ orderLineId: l.id, orderNumber: l.number, quantity: l.quantity, description: l.description })),
-    orders: orders.map((o) => ({
-      id: o.id, number: o.number, state: o.state, dueAt: o.due_at, customerName: o.customer_name, destination: `${o.ship_name}, ${o.ship_city} (${o.ship_country})`,
-      units: o.units, passed: o.passed, ordered: o.ordered, shipment: o.shipment_id ? { id: o.shipment_id, carrier: o.carrier, trackingNumber: o.tracking_number, shippedAt: o.shipped_at, packingSlipUrl: `/api/shipments/${o.shipment_id}/packing-slip.pdf` } : null,
-    })),
     finishedStock: stock.map((u) => ({ id: u.id, serial: u.serial, state: u.state, modelName: u.model_name, optionName: u.option_name })),
   };
+}
+
+/** Shipments, one page at a time: newest first unless asked otherwise; `delivered` filters. */
+export async function shipmentList(db: Db, params: ShipmentListQuery) {
+  const base = () => {
+    const q = db('shipments as s').join('orders as o', 'o.id', 's.order_id').join('users as u', 'u.id', 'o.customer_id');
+    if (params.delivered === true) q.whereNotNull('s.delivered_at');
+    if (params.delivered === false) q.whereNull('s.delivered_at');
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('s.tracking_number', like)); }
+    return q;
+  };
+  return paged(params, {
+    count: base(),
+    rows: base().select('s.id', 's.carrier', 's.tracking_number', 's.shipped_at', 's.delivered_at', 's.packing_slip_file_id', 'o.id as order_id', 'o.number', 'o.state', 'u.name as customer_name',
+      'o.ship_name', 'o.ship_city', 'o.ship_country'),
+    sortColumns: SHIPMENT_SORT, tieBreak: 's.id',
+    map: (s: ShipmentRow) => ({
+      id: s.id, orderId: s.order_id, orderNumber: s.number, orderState: s.state, customerName: s.customer_name,
+      destination: `${s.ship_name}, ${s.ship_city} (${s.ship_country})`, carrier: s.carrier, trackingNumber: s.tracking_number,
+      shippedAt: s.shipped_at, deliveredAt: s.delivered_at,
+      packingSlipUrl: s.packing_slip_file_id ? `/api/shipments/${s.id}/packing-slip.pdf` : null,
+    }),
+  });
 }
 
 /** Ships an order: only when every unit has passed; records carrier and tracking, prints the packing slip, queues the mail. */

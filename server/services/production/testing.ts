@@ -1,6 +1,7 @@
 import type { Knex } from 'knex';
+import { containsPattern, paged } from '../../http/paged';
 import type { SessionUser } from '../../../shared/roles';
-import type { BenchTestInput } from '../../../shared/schemas/production';
+import type { BenchListQuery, BenchTestInput } from '../../../shared/schemas/production';
 import { conflict, invalid } from '../../errors';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
@@ -15,12 +16,23 @@ import { sheetFilename, storeSheetForPassedUnit } from '../spec-sheets/sheets';
 type Db = Knex | Knex.Transaction;
 
 /** Units built and waiting for their bench test, oldest first. */
-export async function benchQueue(db: Db) {
-  const rows = await db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
-    .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id').leftJoin('users as a', 'a.id', 'u.assembler_id')
-    .where('u.state', 'built').select('u.id', 'u.serial', 'u.planned_date', 'u.updated_at', 'm.name as model_name', 'c.name as option_name', 'a.name as assembler_name')
-    .orderBy('u.updated_at');
-  return rows.map((r) => ({ id: r.id, serial: r.serial, modelName: r.model_name, optionName: r.option_name, assemblerName: r.assembler_name, builtAt: r.updated_at, plannedDate: r.planned_date ? toDate(r.planned_date) : null }));
+const BENCH_SORT: Record<BenchListQuery['sort'], string> = { serial: 'u.serial', builtAt: 'u.updated_at', modelName: 'm.name' };
+interface BenchListRow { id: number; serial: string; planned_date: Date | null; updated_at: Date; model_name: string; option_name: string; assembler_name: string | null }
+
+export async function benchQueue(db: Db, params: BenchListQuery) {
+  const base = () => {
+    const q = db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id').leftJoin('users as a', 'a.id', 'u.assembler_id')
+      .where('u.state', 'built');
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('u.serial', like).orWhereILike('m.name', like)); }
+    return q;
+  };
+  return paged(params, {
+    count: base(),
+    rows: base().select('u.id', 'u.serial', 'u.planned_date', 'u.updated_at', 'm.name as model_name', 'c.name as option_name', 'a.name as assembler_name'),
+    sortColumns: BENCH_SORT, tieBreak: 'u.id',
+    map: (r: BenchListRow) => ({ id: r.id, serial: r.serial, modelName: r.model_name, optionName: r.option_name, assemblerName: r.assembler_name, builtAt: r.updated_at, plannedDate: r.planned_date ? toDate(r.planned_date) : null }),
+  });
 }
 
 /** All of an order's units exist and have passed (cancelled ones do not count). */

@@ -1,4 +1,6 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { listSearch, type Page } from '../../../shared/schemas/list';
+import type { BenchListQuery } from '../../../shared/schemas/production';
 import type { UnitState } from '../../../shared/production/states';
 import type { CaptureAnalysis } from '../../../shared/production/wav-analysis';
 import { api } from '../../lib/api';
@@ -12,11 +14,13 @@ export interface TestUnit {
   tests: TestRecord[];
 }
 
-const keys = { all: ['bench'] as const, queue: () => ['bench', 'queue'] as const, unit: (id: number) => ['bench', 'unit', id] as const };
+export type BenchParams = Partial<BenchListQuery>;
+const keys = { all: ['bench'] as const, queues: () => ['bench', 'queue'] as const, queue: (params: BenchParams) => ['bench', 'queue', params] as const, unit: (id: number) => ['bench', 'unit', id] as const };
 
-export const benchQueueQuery = () => queryOptions({ queryKey: keys.queue(), queryFn: () => api.get<{ units: BenchRow[] }>('/api/bench').then((b) => b.units) });
+/** One page of units waiting for their bench test, oldest build first by default. */
+export const benchQueueQuery = (params: BenchParams) => queryOptions({ queryKey: keys.queue(params), queryFn: () => api.get<Page<BenchRow>>(`/api/bench${listSearch(params)}`), placeholderData: keepPreviousData });
 export const testUnitQuery = (id: number) => queryOptions({ queryKey: keys.unit(id), queryFn: () => api.get<TestUnit>(`/api/units/${id}`) });
-export const useBenchQueue = () => useQuery(benchQueueQuery());
+export const useBenchQueue = (params: BenchParams) => useQuery(benchQueueQuery(params));
 export const useTestUnit = (id: number) => useQuery(testUnitQuery(id));
 
 export function useRecordTest(unitId: number) {

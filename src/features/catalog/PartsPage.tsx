@@ -17,7 +17,7 @@ export default function PartsPage() {
   const [lowStock, setLowStock] = useState(false);
   const [sorting, setSorting] = useState<SortingState>([{ id: 'partNumber', desc: false }]);
   const [page, setPage] = useState(1);
-  const q: PartsQuery = { search, category, lowStock, sort: sorting[0]?.id ?? 'partNumber', dir: sorting[0]?.desc ? 'desc' : 'asc', page, pageSize: PAGE_SIZE };
+  const q: PartsQuery = { q: search, category, lowStock, sort: sorting[0]?.id ?? 'partNumber', dir: sorting[0]?.desc ? 'desc' : 'asc', page, pageSize: PAGE_SIZE };
   const parts = usePartsPage(q);
   const { money } = useFormatters();
   const role = useSession().data?.role;
@@ -35,11 +35,11 @@ export default function PartsPage() {
   // Sorting and paging happen on the server: the table only renders the page it is given.
   // eslint-disable-next-line react-hooks/incompatible-library
   const table = useReactTable({
-    data: parts.data?.parts ?? [], columns, state: { sorting }, manualSorting: true, manualPagination: true, enableSortingRemoval: false,
+    data: parts.data?.items ?? [], columns, state: { sorting }, manualSorting: true, manualPagination: true, enableSortingRemoval: false,
     onSortingChange: (s) => { setSorting(s); setPage(1); }, getCoreRowModel: getCoreRowModel(),
   });
   const pages = parts.data ? Math.max(1, Math.ceil(parts.data.total / PAGE_SIZE)) : 1;
-  const exportQs = new URLSearchParams({ search, category, lowStock: String(lowStock), sort: q.sort, dir: q.dir }).toString();
+  const exportQs = new URLSearchParams({ q: search.trim(), category, lowStock: String(lowStock), sort: q.sort, dir: q.dir }).toString();
   return (
     <>
       <PageHeader title="Parts & stock">

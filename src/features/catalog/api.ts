@@ -1,4 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { listSearch, PAGE_SIZE_MAX, type Page } from '../../../shared/schemas/list';
 import type { CircuitSpec } from '../../../shared/engine/index';
 import type { ContractJson, DriveStageValues, NetworkValues } from '../../../shared/catalog/circuit';
 import type {
@@ -13,8 +14,8 @@ export interface PartRow {
   binLocation: string; notes: string; onHand: number; reserved: number; available: number; lowStock: boolean;
 }
 export interface Movement { id: number; created_at: string; part_number: string; kind: string; quantity: number; on_hand_delta: number; reserved_delta: number; reason: string; reference: string; user_name: string | null }
-export interface PartsPage { parts: PartRow[]; total: number; lowStockTotal: number; page: number; pageSize: number }
-export interface PartsQuery { search: string; category: string; lowStock: boolean; sort: string; dir: 'asc' | 'desc'; page: number; pageSize: number }
+export interface PartsPage extends Page<PartRow> { lowStockTotal: number }
+export interface PartsQuery { q: string; category: string; lowStock: boolean; sort: string; dir: 'asc' | 'desc'; page: number; pageSize: number }
 export interface Supplier { id: number; name: string }
 export interface StringDevice { deviceId: number; name: string; kind: string; presetKey: string | null; is: number; n: number; rs: number; eg: number; xti: number; vfAt1mA: number; vfAt10mA: number; partId?: number | null }
 export interface Device extends StringDevice { provenance: string; fitPoints: { vf: number; current: number }[] | null; partNumber: string | null; available: number | null }
@@ -44,7 +45,7 @@ export interface Revision {
 }
 export interface CsvPreview { rows: { row: number; partNumber: string; quantity: number | null; designators: string[]; problems: string[] }[]; total: number; bad: number; ok: boolean }
 
-const qs = (q: PartsQuery) => new URLSearchParams({ search: q.search, category: q.category, lowStock: String(q.lowStock), sort: q.sort, dir: q.dir, page: String(q.page), pageSize: String(q.pageSize) }).toString();
+const qs = (q: PartsQuery) => listSearch({ ...q, q: q.q.trim(), lowStock: q.lowStock || undefined });
 
 // Hierarchical keys: invalidating ['catalog'] refreshes the whole area; narrower keys refresh one part.
 export const catalogKeys = {
@@ -59,10 +60,19 @@ export const catalogKeys = {
   revision: (id: number) => [...catalogKeys.models(), 'revision', id] as const,
 };
 
-export const partsQuery = (q: PartsQuery) => queryOptions({ queryKey: catalogKeys.partList(q), queryFn: () => api.get<PartsPage>(`/api/parts?${qs(q)}`), placeholderData: keepPreviousData });
+export const partsQuery = (q: PartsQuery) => queryOptions({ queryKey: catalogKeys.partList(q), queryFn: () => api.get<PartsPage>(`/api/parts${qs(q)}`), placeholderData: keepPreviousData });
 export const partQuery = (id: number) => queryOptions({ queryKey: catalogKeys.part(id), queryFn: () => api.get<{ part: PartRow & { movements: Movement[] } }>(`/api/parts/${id}`).then((b) => b.part) });
 export const suppliersQuery = () => queryOptions({ queryKey: catalogKeys.suppliers(), queryFn: () => api.get<{ suppliers: Supplier[] }>('/api/suppliers').then((b) => b.suppliers), staleTime: 60_000 });
-export const allPartsQuery = () => queryOptions({ queryKey: [...catalogKeys.parts(), 'picker'], queryFn: () => api.get<PartsPage>('/api/parts?pageSize=200').then((b) => b.parts), staleTime: 30_000 });
+/** Every part, for pickers: page after page of the largest size the server gives. */
+async function allParts(): Promise<PartRow[]> {
+  const rows: PartRow[] = [];
+  for (let page = 1; ; page++) {
+    const b = await api.get<PartsPage>(`/api/parts${listSearch({ page, pageSize: PAGE_SIZE_MAX })}`);
+    rows.push(...b.items);
+    if (rows.length >= b.total || b.items.length === 0) return rows;
+  }
+}
+export const allPartsQuery = () => queryOptions({ queryKey: [...catalogKeys.parts(), 'picker'], queryFn: allParts, staleTime: 30_000 });
 export const devicesQuery = () => queryOptions({ queryKey: catalogKeys.devices(), queryFn: () => api.get<{ devices: Device[] }>('/api/devices').then((b) => b.devices) });
 export const modelsQuery = () => queryOptions({ queryKey: catalogKeys.models(), queryFn: () => api.get<{ models: ModelListRow[] }>('/api/models').then((b) => b.models) });
 export const modelQuery = (id: number) => queryOptions({ queryKey: catalogKeys.model(id), queryFn: () => api.get<{ model: ModelDetail }>(`/api/models/${id}`).then((b) => b.model) });

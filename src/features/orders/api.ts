@@ -1,6 +1,10 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { OrderState } from '../../../shared/order-states';
 import type { OrderFilter } from '../../../shared/schemas/orders';
+import { listSearch, type Page } from '../../../shared/schemas/list';
+
+/** What the order desk asks for: filters, sort and page (the server's defaults fill the rest). */
+export type OrderListParams = Partial<OrderFilter>;
 import { api } from '../../lib/api';
 
 export interface OrderLine {
@@ -69,19 +73,15 @@ export const orderKeys = {
   all: ['orders'] as const,
   mine: () => [...orderKeys.all, 'mine'] as const,
   lists: () => [...orderKeys.all, 'list'] as const,
-  list: (filter: OrderFilter) => [...orderKeys.lists(), filter] as const,
+  list: (filter: OrderListParams) => [...orderKeys.lists(), filter] as const,
   detail: (id: number) => [...orderKeys.all, 'detail', id] as const,
 };
 
-const query = (filter: OrderFilter) => {
-  const params = new URLSearchParams();
-  for (const [k, v] of Object.entries(filter)) if (v !== undefined && v !== '') params.set(k, String(v));
-  return params.toString();
-};
 
 export const myOrdersQuery = () => queryOptions({ queryKey: orderKeys.mine(), queryFn: () => api.get<{ orders: (Order & { lines: OrderLine[] })[] }>('/api/orders/mine').then((b) => b.orders) });
-export const ordersQuery = (filter: OrderFilter) =>
-  queryOptions({ queryKey: orderKeys.list(filter), queryFn: () => api.get<{ orders: OrderListRow[] }>(`/api/orders?${query(filter)}`).then((b) => b.orders), placeholderData: keepPreviousData });
+/** One page of the order desk, as the server filters, sorts and pages it. */
+export const ordersQuery = (filter: OrderListParams) =>
+  queryOptions({ queryKey: orderKeys.list(filter), queryFn: () => api.get<Page<OrderListRow>>(`/api/orders${listSearch(filter)}`), placeholderData: keepPreviousData });
 /** How the customer came back from the payment page: paid there, left it, or neither. */
 export type PaymentReturn = 'paid' | 'left' | null;
 
@@ -100,7 +100,7 @@ export const orderQuery = (id: number, back: PaymentReturn = null, since = Date.
   queryOptions({ queryKey: orderKeys.detail(id), queryFn: () => api.get<OrderDetail>(`/api/orders/${id}`), refetchInterval: pollWhileConfirming(back, since) });
 
 export const useMyOrders = () => useQuery(myOrdersQuery());
-export const useOrders = (filter: OrderFilter) => useQuery(ordersQuery(filter));
+export const useOrders = (filter: OrderListParams) => useQuery(ordersQuery(filter));
 export const useOrder = (id: number, back: PaymentReturn = null, since?: number) => useQuery(orderQuery(id, back, since));
 
 function useOrderMutation<I>(fn: (input: I) => Promise<OrderDetail>) {

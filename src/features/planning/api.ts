@@ -1,5 +1,6 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ApplyAssignmentsInput, AssemblerProfileInput, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import { listSearch, type Page } from '../../../shared/schemas/list';
 import type { BatchState, UnitState } from '../../../shared/production/states';
 import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
 import { api } from '../../lib/api';
@@ -27,12 +28,15 @@ export interface PlanProposal { startDate: string; jobs: PlanJob[]; assemblers: 
 
 const keys = {
   all: ['batches'] as const,
-  list: () => [...keys.all, 'list'] as const,
+  lists: () => [...keys.all, 'list'] as const,
+  list: (params: BatchListParams) => [...keys.lists(), params] as const,
   detail: (id: number) => [...keys.all, 'detail', id] as const,
   candidates: () => [...keys.all, 'candidates'] as const,
 };
 
-export const batchesQuery = () => queryOptions({ queryKey: keys.list(), queryFn: () => api.get<{ batches: BatchRow[] }>('/api/batches').then((b) => b.batches) });
+export type BatchListParams = Partial<BatchListQuery>;
+/** One page of batches, as the server sorts and filters them. */
+export const batchesQuery = (params: BatchListParams) => queryOptions({ queryKey: keys.list(params), queryFn: () => api.get<Page<BatchRow>>(`/api/batches${listSearch(params)}`), placeholderData: keepPreviousData });
 export const batchQuery = (id: number) => queryOptions({
   queryKey: keys.detail(id), queryFn: () => api.get<BatchDetail>(`/api/batches/${id}`),
   // While the release job makes the units, follow its progress.
@@ -41,7 +45,7 @@ export const batchQuery = (id: number) => queryOptions({
 export const candidatesQuery = () => queryOptions({ queryKey: keys.candidates(), queryFn: () => api.get<Candidates>('/api/batches/candidates') });
 export const assemblersQuery = () => queryOptions({ queryKey: ['assemblers', 'list'], queryFn: () => api.get<{ assemblers: PlanAssembler[] }>('/api/assemblers').then((b) => b.assemblers) });
 
-export const useBatches = () => useQuery(batchesQuery());
+export const useBatches = (params: BatchListParams) => useQuery(batchesQuery(params));
 export const useBatch = (id: number) => useQuery(batchQuery(id));
 export const useCandidates = () => useQuery(candidatesQuery());
 export const useAssemblers = () => useQuery(assemblersQuery());

@@ -13,10 +13,12 @@ export function ShipForm({ order }: { order: ShippingOrder }) {
   const form = useForm<ShipOrderInput>({ resolver: zodResolver(shipOrderSchema) as never, defaultValues: { orderId: order.id, carrier: '', trackingNumber: '' } });
   const errors = form.formState.errors;
   return (
-    <form noValidate className="flex flex-wrap items-end gap-3" onSubmit={form.handleSubmit((input) => ship.mutate(input, {
-      onSuccess: () => toast(`Order ${order.number} shipped; the customer is e-mailed the tracking number`),
-      onError: (e) => { applyFieldErrors(e, form.setError); toast(e.message, 'alarm'); },
-    }))}>
+    // mutateAsync, not mutate's callbacks: a shipped order leaves the list (and this form unmounts)
+    // when the lists refresh, and the confirmation must still be said.
+    <form noValidate className="flex flex-wrap items-end gap-3" onSubmit={form.handleSubmit((input) => ship.mutateAsync(input).then(
+      () => toast(`Order ${order.number} shipped; the customer is e-mailed the tracking number`),
+      (e: Error) => { applyFieldErrors(e, form.setError); toast(e.message, 'alarm'); },
+    ))}>
       <input type="hidden" {...form.register('orderId')} />
       <TextField label={`Carrier for ${order.number}`} error={errors.carrier?.message} {...form.register('carrier')} />
       <TextField label="Tracking number" error={errors.trackingNumber?.message} {...form.register('trackingNumber')} />

@@ -1,9 +1,10 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { ColumnDef } from '@tanstack/react-table';
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
+import type { SortDirection } from '../../../shared/schemas/list';
 import { useForm } from 'react-hook-form';
 import { ROLE_LABELS, ROLES, type Role } from '../../../shared/roles';
-import { createUserSchema, type CreateUserInput } from '../../../shared/schemas/auth';
+import { createUserSchema, type CreateUserInput, type UserListQuery } from '../../../shared/schemas/auth';
 import { Button } from '../../components/ui/Button';
 import { ConfirmButton } from '../../components/ui/ConfirmButton';
 import { DataTable } from '../../components/ui/DataTable';
@@ -49,15 +50,18 @@ function CreateUserForm() {
 }
 
 export default function UsersPage() {
-  const users = useUsers();
+  const [who, setWho] = useState<'staff' | 'customers' | 'everyone'>('staff');
+  const [search, setSearch] = useState('');
+  const [view, setView] = useState<{ sort: UserListQuery['sort']; dir: SortDirection; page: number }>({ sort: 'name', dir: 'asc', page: 1 });
+  const users = useUsers({ ...view, pageSize: 25, q: search.trim() || undefined, staff: who === 'everyone' ? undefined : who === 'staff' });
   const update = useUpdateUser();
   const toast = useToast();
   const me = useSession().data;
   const columns = useMemo<ColumnDef<UserRow, unknown>[]>(() => [
-    { accessorKey: 'name', header: 'Name', cell: (c) => <span className="font-semibold">{String(c.getValue())}</span> },
-    { accessorKey: 'email', header: 'E-mail' },
+    { id: 'name', accessorKey: 'name', header: 'Name', cell: (c) => <span className="font-semibold">{String(c.getValue())}</span> },
+    { id: 'email', accessorKey: 'email', header: 'E-mail' },
     {
-      accessorKey: 'role', header: 'Role',
+      id: 'role', accessorKey: 'role', header: 'Role',
       cell: ({ row }) => (
         <select
           aria-label={`Role of ${row.original.name}`}
@@ -75,7 +79,7 @@ export default function UsersPage() {
         </select>
       ),
     },
-    { accessorKey: 'active', header: 'Status', cell: ({ row }) => (row.original.active ? 'Active' : 'Deactivated') },
+    { accessorKey: 'active', header: 'Status', enableSorting: false, cell: ({ row }) => (row.original.active ? 'Active' : 'Deactivated') },
     {
       id: 'actions', header: () => <span className="sr-only">Actions</span>, enableSorting: false,
       cell: ({ row }) =>
@@ -98,10 +102,23 @@ export default function UsersPage() {
     <>
       <PageHeader title="People & roles" />
       <div className="flex flex-col gap-8">
-        {users.isPending ? <Loading /> : users.isError ? <ErrorState error={users.error} retry={() => users.refetch()} /> : users.data.length === 0 ? (
-          <EmptyState title="Nobody here yet" />
+        <div className="flex flex-wrap items-end gap-4">
+          <label className="flex flex-col gap-1 font-semibold">Show
+            <select value={who} onChange={(e) => { setWho(e.target.value as typeof who); setView((v) => ({ ...v, page: 1 })); }} className="min-h-11 rounded-md border border-spruce-700/40 bg-white px-2 font-normal">
+              <option value="staff">Staff</option><option value="customers">Customers</option><option value="everyone">Everyone</option>
+            </select>
+          </label>
+          <label className="flex flex-col gap-1 font-semibold">Search
+            <input type="search" value={search} placeholder="Name or e-mail" onChange={(e) => { setSearch(e.target.value); setView((v) => ({ ...v, page: 1 })); }} className="min-h-11 rounded-md border border-spruce-700/40 px-3 font-normal" />
+          </label>
+        </div>
+        {users.isPending ? <Loading /> : users.isError ? <ErrorState error={users.error} retry={() => users.refetch()} /> : users.data.total === 0 ? (
+          <EmptyState title={search ? 'Nobody matches' : 'Nobody here yet'} />
         ) : (
-          <DataTable data={users.data} columns={columns} caption="People who can sign in" rowClassName={(u) => (u.active ? '' : 'text-ink-soft')} />
+          <DataTable data={users.data.items} columns={columns} caption="People who can sign in" rowClassName={(u) => (u.active ? '' : 'text-ink-soft')} server={{
+            sort: view.sort, dir: view.dir, page: users.data, noun: ['person', 'people'],
+            onSort: (sort, dir) => setView({ sort: sort as UserListQuery['sort'], dir, page: 1 }), onPage: (page) => setView((v) => ({ ...v, page })),
+          }} />
         )}
         <CreateUserForm />
       </div>

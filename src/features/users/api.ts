@@ -1,6 +1,7 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '../../../shared/roles';
-import type { CreateUserInput, UpdateUserInput } from '../../../shared/schemas/auth';
+import type { CreateUserInput, UpdateUserInput, UserListQuery } from '../../../shared/schemas/auth';
+import { listSearch, type Page } from '../../../shared/schemas/list';
 import { api } from '../../lib/api';
 
 export interface UserRow {
@@ -12,16 +13,20 @@ export interface UserRow {
   created_at: string;
 }
 
-export const usersQuery = () =>
-  queryOptions({ queryKey: ['users', 'list'], queryFn: () => api.get<{ users: UserRow[] }>('/api/users').then((b) => b.users) });
+export type UserListParams = Partial<UserListQuery>;
+export const userKeys = { all: ['users'] as const, lists: () => ['users', 'list'] as const, list: (params: UserListParams) => ['users', 'list', params] as const };
 
-export const useUsers = () => useQuery(usersQuery());
+/** One page of people, as the server filters, sorts and pages them. */
+export const usersQuery = (params: UserListParams) =>
+  queryOptions({ queryKey: userKeys.list(params), queryFn: () => api.get<Page<UserRow>>(`/api/users${listSearch(params)}`), placeholderData: keepPreviousData });
+
+export const useUsers = (params: UserListParams) => useQuery(usersQuery(params));
 
 export function useCreateUser() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (input: CreateUserInput) => api.post<{ user: UserRow }>('/api/users', input),
-    onSuccess: () => client.invalidateQueries({ queryKey: usersQuery().queryKey }),
+    onSuccess: () => client.invalidateQueries({ queryKey: userKeys.lists() }),
   });
 }
 
@@ -29,6 +34,6 @@ export function useUpdateUser() {
   const client = useQueryClient();
   return useMutation({
     mutationFn: ({ id, ...input }: UpdateUserInput & { id: number }) => api.patch<{ user: UserRow }>(`/api/users/${id}`, input),
-    onSuccess: () => client.invalidateQueries({ queryKey: usersQuery().queryKey }),
+    onSuccess: () => client.invalidateQueries({ queryKey: userKeys.lists() }),
   });
 }

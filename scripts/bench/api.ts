@@ -1,0 +1,145 @@
+// `npm run bench -- api [--scale 5]`: HTTP load on every list route over a production-size
+// dataset, against a bare Express + pg baseline measured in the same run. Only 127.0.0.1, 50
+// connections, 10 s a route (KP_BENCH_SECONDS overrides, KP_BENCH_ROUTES picks routes by
+// substring). Prints figures and targets; asserts nothing.
+import autocannon from 'autocannon';
+import { spawn, type ChildProcess } from 'node:child_process';
+import http from 'node:http';
+import path from 'node:path';
+import { createInterface } from 'node:readline';
+import { fileURLToPath } from 'node:url';
+import { gzipSync } from 'node:zlib';
+import { createKnex } from '../../server/db/knex';
+import { benchDatabaseUrl, ensureDataset, scaleFromArgs } from './dataset';
+import type { BenchSection } from './engine';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+const CONNECTIONS = 50;
+const SECONDS = Number(process.env.KP_BENCH_SECONDS ?? 10);
+const TARGET_RATIO = 3;
+const TARGET_PAGE_GZIP = 64 * 1024;
+const PASSWORD = 'kneepoint-demo';
+
+interface Route { label: string; path: string; as: 'planner' | 'owner' | 'assembler' | 'customer' }
+
+/** Starts one of the two servers in its own process and waits for its port. */
+async function startServer(role: 'app' | 'baseline', env: NodeJS.ProcessEnv): Promise<{ child: ChildProcess; base: string }> {
+  const child = spawn(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['scripts/bench/api-servers.ts', role], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'inherit'] });
+  const lines = createInterface({ input: child.stdout! });
+  const port = await new Promise<number>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`${role} server did not start in 60 s`)), 60_000);
+    child.once('exit', (code) => reject(new Error(`${role} server exited with ${code}`)));
+    lines.once('line', (line) => { clearTimeout(timer); resolve(JSON.parse(line).port); });
+  });
+  return { child, base: `http://127.0.0.1:${port}` };
+}
+
+/** Raw GET with the benchmark's headers: status, bytes on the wire and their encoding. */
+function fetchRaw(url: string, headers: Record<string, string>): Promise<{ status: number; body: Buffer; encoding: string }> {
+  return new Promise((resolve, reject) => {
+    http.get(url, { headers }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, body: Buffer.concat(chunks), encoding: String(res.headers['content-encoding'] ?? 'identity') }));
+    }).on('error', reject);
+  });
+}
+
+/** Signs in through the API as a browser would and returns the session cookie. */
+async function signIn(base: string, email: string): Promise<string> {
+  const csrf = await fetch(`${base}/api/auth/csrf`);
+  const cookie = (csrf.headers.getSetCookie()[0] ?? '').split(';')[0];
+  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+  const res = await fetch(`${base}/api/auth/login`, {
+    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
+    body: JSON.stringify({ email, password: PASSWORD }),
+  });
+  if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`);
+  return (res.headers.getSetCookie()[0] ?? cookie).split(';')[0];
+}
+
+const quantile = (sorted: number[], q: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] : NaN);
+
+/** 50 connections for SECONDS against one URL; latencies from every finished response. */
+async function load(url: string, headers: Record<string, string>) {
+  const times: number[] = [];
+  const result = await new Promise<autocannon.Result>((resolve, reject) => {
+    const instance = autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, timeout: SECONDS + 5 }, (error, r) => (error ? reject(error) : resolve(r)));
+    instance.on('response', (_client, _status, _bytes, responseTime) => times.push(responseTime));
+  });
+  times.sort((a, b) => a - b);
+  return {
+    p50: quantile(times, 0.5), p95: quantile(times, 0.95), rps: times.length / SECONDS,
+    non2xx: result.non2xx, errors: result.errors, timeouts: result.timeouts,
+  };
+}
+
+const kib = (bytes: number) => `${(bytes / 1024).toFixed(1)} KiB`;
+const ms = (x: number) => (Number.isNaN(x) ? 'none finished' : x < 10 ? x.toFixed(1) : x.toFixed(0));
+
+async function runApiBench() {
+  const argv = process.argv.slice(2);
+  const scale = scaleFromArgs(argv);
+  const url = benchDatabaseUrl();
+  console.log(`\n## API under load (${CONNECTIONS} connections, ${SECONDS} s a route, scale ${scale})`);
+  const dataset = await ensureDataset(url, scale);
+  const knex = createKnex(url, 1);
+  // A batch of about 50 units for the detail page, and a customer with orders for "my orders".
+  const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
+  await knex.destroy();
+
+  const env = { ...process.env, DATABASE_URL: url, NODE_ENV: 'production', SESSION_SECRET: 'bench-session-secret-not-for-use', PORT: '0' };
+  const app = await startServer('app', env);
+  const baseline = await startServer('baseline', env);
+  try {
+    const cookies = {
+      planner: await signIn(app.base, 'planner@shop.example'),
+      owner: await signIn(app.base, 'owner@shop.example'),
+      assembler: await signIn(app.base, 'assembler@shop.example'),
+      customer: await signIn(app.base, 'customer@shop.example'),
+    };
+    const routes: Route[] = [
+      { label: '/api/orders', path: '/api/orders', as: 'planner' },
+      { label: '/api/shipping', path: '/api/shipping', as: 'planner' },
+      { label: '/api/shipments', path: '/api/shipments', as: 'planner' },
+      { label: '/api/batches', path: '/api/batches', as: 'planner' },
+      { label: `/api/batches/:id (${batch.n} units)`, path: `/api/batches/${batch.id}`, as: 'planner' },
+      { label: '/api/board', path: '/api/board', as: 'planner' },
+      { label: '/api/parts', path: '/api/parts', as: 'planner' },
+      { label: '/api/models', path: '/api/models', as: 'planner' },
+      { label: '/api/bench', path: '/api/bench', as: 'planner' },
+      { label: '/api/batches/candidates', path: '/api/batches/candidates', as: 'planner' },
+      { label: '/api/devices', path: '/api/devices', as: 'planner' },
+      { label: '/api/suppliers', path: '/api/suppliers', as: 'planner' },
+      { label: '/api/assemblers', path: '/api/assemblers', as: 'planner' },
+      { label: '/api/users', path: '/api/users', as: 'owner' },
+      { label: '/api/builds', path: '/api/builds', as: 'assembler' },
+      { label: '/api/orders/mine', path: '/api/orders/mine', as: 'customer' },
+    ].filter((r) => !process.env.KP_BENCH_ROUTES || process.env.KP_BENCH_ROUTES.split(',').some((s) => r.label.includes(s))) as Route[];
+
+    const base = await load(`${baseline.base}/order`, {});
+    console.log(`api baseline (bare Express + pg, one primary-key lookup) p50 ${ms(base.p50)} p95 ${ms(base.p95)} ms, ${base.rps.toFixed(0)} req/s`);
+    let worst = { ratio: 0, label: '' };
+    for (const route of routes) {
+      const headers = { cookie: cookies[route.as], 'accept-encoding': 'gzip' };
+      const one = await fetchRaw(app.base + route.path, headers);
+      const raw = one.encoding === 'gzip' ? (await import('node:zlib')).gunzipSync(one.body).length : one.body.length;
+      const gzip = one.encoding === 'gzip' ? one.body.length : gzipSync(one.body).length;
+      const r = await load(app.base + route.path, headers);
+      // A route where no request finished counts as the whole run plus the timeout.
+      const ratio = (Number.isNaN(r.p95) ? (SECONDS + 5) * 1000 : r.p95) / base.p95;
+      if (!(ratio <= worst.ratio)) worst = { ratio, label: route.label };
+      const trouble = [r.non2xx ? `${r.non2xx} non-2xx` : '', r.errors ? `${r.errors} errors` : '', r.timeouts ? `${r.timeouts} timeouts` : '', one.status !== 200 ? `status ${one.status}` : ''].filter(Boolean).join(', ');
+      console.log(`api ${route.label} p50 ${ms(r.p50)} p95 ${ms(r.p95)} ms, ${r.rps.toFixed(1)} req/s, ratio ${ratio.toFixed(1)}` +
+        ` | size raw ${kib(raw)}, gzip ${kib(gzip)} (${one.encoding === 'gzip' ? 'sent gzip' : 'sent uncompressed'})` +
+        `${gzip > TARGET_PAGE_GZIP ? ' OVER 64 KiB' : ''}${trouble ? ` | ${trouble}` : ''}`);
+    }
+    console.log(`api: worst p95 ratio ${worst.ratio.toFixed(1)} (${worst.label}) at ${CONNECTIONS} connections, ${dataset.units} units` +
+      ` — target ≤ ${TARGET_RATIO} for every route, no page over 64 KiB gzip`);
+  } finally {
+    app.child.kill('SIGTERM');
+    baseline.child.kill('SIGTERM');
+  }
+}
+
+export const apiSection: BenchSection = { name: 'api', run: runApiBench };
