@@ -14,6 +14,7 @@ export const PUBLISHED_SECRETS = [
   'whsec_other',
   'sk_test_fake',
   'sk_live_oops',
+  'top-secret-value',
 ] as const;
 
 /** Anything starting with these is one of the repository's development or test values. */

@@ -1,5 +1,6 @@
 // A production server must run on its own secrets: never missing, never one published here.
 import { spawnSync } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { loadConfig } from '../../server/config';
@@ -9,9 +10,9 @@ import { secretsInRepository } from '../support/repo-secrets';
 const ROOT = path.resolve(import.meta.dirname, '..', '..');
 // An install's own values, as `npm start` makes them (random, never written in the repository).
 const OWN = {
-  SESSION_SECRET: 'f3a9c0d27b5e4168a4c1e9d0b7f2a635',
-  PAYMENTS_API_KEY: 'sk_test_5c8e1b2a9d7f4036b1e2c3d4a5f60718',
-  PAYMENTS_WEBHOOK_SECRET: 'whsec_7d2e9a1c4b6f8035e2d1c0b9a8f7e6d5',
+  SESSION_SECRET: randomBytes(16).toString('hex'),
+  PAYMENTS_API_KEY: `sk_test_${randomBytes(16).toString('hex')}`,
+  PAYMENTS_WEBHOOK_SECRET: `whsec_${randomBytes(16).toString('hex')}`,
 };
 const base = { DATABASE_URL: 'postgres://u:p@127.0.0.1:1/db', NODE_ENV: 'production', COOKIE_SECURE: 'false' };
 const production = (env: Record<string, string | undefined>) => () => loadConfig({ ...base, ...OWN, ...env } as NodeJS.ProcessEnv);
