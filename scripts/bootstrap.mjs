@@ -308,8 +308,37 @@ function test() {
   process.exit(ok ? 0 : 1);
 }
 
+// npm run bench [-- SECTION…]: figures, never assertions. The client section gets the built client and its
+// own seeded database (kneepoint_bench); the others need neither.
+function bench() {
+  const sections = process.argv.slice(3);
+  if (!existsSync('/usr/bin/ngspice') && (sections.length === 0 || sections.includes('engine'))) aptInstall(['ngspice']);
+  let env = { ...process.env };
+  let stop = () => {};
+  if (sections.length === 0 || sections.includes('client')) {
+    if (!existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
+    mkdirSync(DATA, { recursive: true });
+    // Counts as a user of the cluster, like a test run, so a parallel test run does not stop it under us.
+    const marker = path.join(DATA, `test-run-${process.pid}`);
+    writeFileSync(marker, String(process.pid));
+    const prepared = prepare('kneepoint_bench', false);
+    env = { ...prepared.env, SESSION_SECRET: 'bench-secret-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
+    if (!run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
+    stop = () => {
+      rmSync(marker, { force: true });
+      if (!otherUsersOfCluster()) stopPostgres(prepared.bin);
+    };
+  } else {
+    ensureNodeModules();
+  }
+  const ok = tsx('scripts/bench.ts', sections, env);
+  stop();
+  process.exit(ok ? 0 : 1);
+}
+
 if (mode === 'start') serve(false);
+else if (mode === 'bench') bench();
 else if (mode === 'dev') serve(true);
 else if (mode === 'test') test();
-else fail(`unknown mode ${mode}: use start, dev or test`);
+else fail(`unknown mode ${mode}: use start, dev, test or bench`);
 
