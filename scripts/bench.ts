@@ -1,19 +1,26 @@
 // `npm run bench [-- SECTION …]`: prints timing figures, section by section (never asserts timings).
-// A word given runs the sections whose name contains it (engine, sheets, loop, jobs, api); none given runs
+// Words given run the sections with that key (engine, sheets, loop, jobs, client, api); none given runs
 // all but `api` (HTTP load over the production-size dataset, a few minutes): `npm run bench -- api [--scale 5]`.
 import { apiSection } from './bench/api';
+import { clientSection } from './bench/client';
 import { engineSection, type BenchSection } from './bench/engine';
 import { jobsSection } from './bench/jobs';
 import { specSheetSection } from './bench/spec-sheets';
 import { loopSection } from './bench/loop';
 
-export const sections: BenchSection[] = [engineSection, specSheetSection, loopSection, jobsSection, apiSection];
+export const sections: BenchSection[] = [engineSection, specSheetSection, loopSection, jobsSection, clientSection, apiSection];
 
 async function main(): Promise<void> {
-  const wanted = process.argv.slice(2).filter((a, i, all) => !a.startsWith('--') && all[i - 1] !== '--scale');
+  const args = process.argv.slice(2);
+  const wanted = args.filter((a, i) => !a.startsWith('--') && args[i - 1] !== '--scale');
+  const unknown = wanted.filter((w) => !sections.some((s) => s.key === w));
+  if (unknown.length > 0) {
+    console.error(`unknown bench section(s): ${unknown.join(', ')}; known: ${sections.map((s) => s.key).join(', ')}`);
+    process.exit(2);
+  }
   console.log(`Kneepoint benchmark — Node ${process.version}, ${new Date().toISOString()}`);
   for (const section of sections) {
-    if (wanted.length ? !wanted.some((w) => section.name.includes(w)) : section === apiSection) continue;
+    if (wanted.length ? !wanted.includes(section.key) : section === apiSection) continue;
     await section.run();
   }
 }

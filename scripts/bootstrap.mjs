@@ -307,22 +307,43 @@ function test() {
   process.exit(ok ? 0 : 1);
 }
 
-// The benchmark database (KP_BENCH_DB, default kneepoint_bench) on the same cluster: `npm run
-// dataset` fills it; `npm run bench` gets its URL (only the api section uses it). Postgres is left
-// running, as after `npm test` with another user of the cluster.
+// npm run bench [-- SECTION…] and npm run dataset: figures, never assertions. Sections that need a
+// database get a small seeded one of their own (kneepoint_bench_demo: client, loop, jobs); the api
+// section and the dataset generator get the production-size one (KP_BENCH_DB, default
+// kneepoint_bench), which `scripts/bench/dataset.ts` fills once. The client section gets a built client.
 function bench(script) {
-  const database = process.env.KP_BENCH_DB ?? 'kneepoint_bench';
-  if (!/^[a-z_][a-z0-9_]*$/.test(database)) fail('KP_BENCH_DB must be a plain lower-case identifier.');
   const args = process.argv.slice(3);
+  const sections = args.filter((a, i) => !a.startsWith('--') && args[i - 1] !== '--scale');
+  const wants = (name) => sections.length === 0 || sections.includes(name);
+  const isDataset = script === 'scripts/bench/dataset.ts';
+  if (!isDataset && wants('engine') && !existsSync('/usr/bin/ngspice')) aptInstall(['ngspice']);
+  if (!isDataset && wants('client') && !existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
+  const needsDemo = !isDataset && ['client', 'loop', 'jobs'].some(wants);
+  const needsLarge = isDataset || sections.includes('api');
+  let env = { ...process.env };
+  let stop = () => {};
   ensureNodeModules();
-  const env = { ...process.env };
-  if (script === 'scripts/bench/dataset.ts' || args.includes('api')) {
+  if (needsDemo || needsLarge) {
+    const bigName = process.env.KP_BENCH_DB ?? 'kneepoint_bench';
+    if (!/^[a-z_][a-z0-9_]*$/.test(bigName)) fail('KP_BENCH_DB must be a plain lower-case identifier.');
+    mkdirSync(DATA, { recursive: true });
+    // Counts as a user of the cluster, like a test run, so a parallel test run does not stop it under us.
+    const marker = path.join(DATA, `test-run-${process.pid}`);
+    writeFileSync(marker, String(process.pid));
     const bin = ensurePostgresInstalled();
     ensureCluster(bin);
     startPostgres(bin);
-    env.BENCH_DATABASE_URL = ensureDatabase(bin, database, { recreate: false });
+    if (needsDemo) env = { ...prepare('kneepoint_bench_demo', false).env, SESSION_SECRET: 'bench-secret-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
+    if (needsLarge) env.BENCH_DATABASE_URL = ensureDatabase(bin, bigName, { recreate: false });
+    if (!isDataset && wants('client') && !run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
+    stop = () => {
+      rmSync(marker, { force: true });
+      if (!otherUsersOfCluster()) stopPostgres(bin);
+    };
   }
-  process.exit(tsx(script, args, env) ? 0 : 1);
+  const ok = tsx(script, args, env);
+  stop();
+  process.exit(ok ? 0 : 1);
 }
 
 if (mode === 'start') serve(false);
@@ -330,5 +351,5 @@ else if (mode === 'dataset') bench('scripts/bench/dataset.ts');
 else if (mode === 'bench') bench('scripts/bench.ts');
 else if (mode === 'dev') serve(true);
 else if (mode === 'test') test();
-else fail(`unknown mode ${mode}: use start, dev or test`);
+else fail(`unknown mode ${mode}: use start, dev, test, bench or dataset`);
 

@@ -142,4 +142,4 @@ async function runApiBench() {
   }
 }
 
-export const apiSection: BenchSection = { name: 'api', run: runApiBench };
+export const apiSection: BenchSection = { key: 'api', name: 'api', run: runApiBench };

@@ -47,6 +47,7 @@ async function pickup(knex: Knex, batchId: number, wake: boolean) {
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
 export const jobsSection: BenchSection = {
+  key: 'jobs',
   name: 'jobs',
   run: async () => {
     console.log('\n## Jobs (sheet archive pickup; takeover after a worker is killed)');

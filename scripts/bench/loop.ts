@@ -115,4 +115,4 @@ async function runLoopBench() {
   }
 }
 
-export const loopSection: BenchSection = { name: 'loop', run: runLoopBench };
+export const loopSection: BenchSection = { key: 'loop', name: 'loop', run: runLoopBench };

@@ -17,6 +17,7 @@ function median(xs: number[]) {
 }
 
 export const specSheetSection: BenchSection = {
+  key: 'sheets',
   name: 'spec sheets',
   run: async () => {
     console.log('\n## Spec sheets (engine recompute from measured Vf + PDF render; band cached)');

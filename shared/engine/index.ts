@@ -11,6 +11,7 @@
  *   computeProfile(spec, options?): HarmonicProfile   reference spectrum, 25-point sweep, onset, transfer, bands
  *   driveSweep(spec, points?), clippingOnset(sweep), transferCurve(spec, {drive, points, rangeV}?)
  *   monteCarlo(spec, {draws, seed, vfSigmaV, emissionSigma, resistorTolerance, capacitorTolerance}?): ToleranceBands
+ *   monteCarloDraws(spec, options?): the seeded circuits it runs; DRAW_SAMPLING the draws' sampling where error allows
  *   perUnitDevices(network, measured), perUnitCircuit(spec, measured)   IS refit from measured Vf, N kept
  *   resolveCircuit(spec): Circuit, setupAtDrive(circuit, drive): StageSetup
  * Devices:

@@ -13,6 +13,8 @@ const TOLERANCE = SOLVE_RELATIVE_TOLERANCE;
 // Newton converges quadratically near the root (the law is analytic in y, with y″/y′ of order one), so a
 // step below √tolerance leaves an error of order tolerance once taken: accept it without re-evaluating.
 const ACCEPT_STEP = Math.sqrt(SOLVE_RELATIVE_TOLERANCE);
+/** Largest log-current the node solve's cheap upper bound may stand at (e^y stays far from overflow). */
+const LOOSE_BOUND = 300;
 
 /** Sampling of one period: points (a power of two) and substeps per point when a capacitor is present. */
 export interface SamplingOptions {
@@ -73,8 +75,13 @@ function solveNode(law: NodeLaw, alpha: number, beta: number, guess: number): nu
   if (forward.empty) return solveNodeInVolts(law, alpha, beta, guess);
   const b = sign * beta;
   let lo = 0;
-  let hi = Math.min(Math.log1p(b / forward.isMin), b / (alpha * forward.nvtMin));
-  if (forward.rs > 0) hi = Math.min(hi, Math.log1p(b / (alpha * forward.isMin * forward.rs)));
+  // Upper bound: V(y) ≥ N·Vt·y, so α·V alone reaches β there. It costs no logarithm; only when it is
+  // too loose to keep e^y finite are the tighter bounds I(y) ≤ β and I·RS ≤ β/α taken.
+  let hi = b / (alpha * forward.nvtMin);
+  if (!(hi <= LOOSE_BOUND)) {
+    hi = Math.min(hi, Math.log1p(b / forward.isMin));
+    if (forward.rs > 0) hi = Math.min(hi, Math.log1p(b / (alpha * forward.isMin * forward.rs)));
+  }
   // Predictor: extrapolate the last two forward solutions linearly in time.
   let y = forward.yLast + law.stepRatio * (forward.yLast - forward.yBefore);
   if (!(y > lo && y < hi)) y = forward.yLast;

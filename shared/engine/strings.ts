@@ -9,6 +9,9 @@ import type { Celsius } from './units';
 const EXPONENT_CAP = 700;
 const MAX_ITERATIONS = 200;
 const TOLERANCE = SOLVE_RELATIVE_TOLERANCE;
+// V(y) is analytic in the log-current y with V″/V′ of order one, so Newton converges quadratically: a step
+// below √tolerance leaves an error of order tolerance once taken, and is accepted without evaluating again.
+const ACCEPT_STEP = Math.sqrt(SOLVE_RELATIVE_TOLERANCE);
 
 /**
  * A string prepared for repeated solves at one temperature: identical devices are merged
@@ -31,6 +34,9 @@ export interface PreparedString {
   capConductance: number;
   /** Warm start in the log-current variable y, with I = isMin·expm1(y). */
   y: number;
+  /** Voltage of the last solve and dy/dV there: the next solve starts one Newton step ahead of it. */
+  vLast: number;
+  dydv: number;
   /** Conductance dI/dV at the last solve. */
   conductance: number;
   /** The node solver's last two forward solutions in y, for a predictor (NaN when unknown). */
@@ -53,7 +59,7 @@ export function prepareString(devices: readonly DeviceModel[], temperatureC: Cel
     nvt: new Float64Array(groups.map((g) => g.count * g.n * vt)),
     excess: new Float64Array(groups.length),
     isMin: Infinity, nvtMin: 0, rs: groups.reduce((a, g) => a + g.rs, 0),
-    capVolts: Infinity, capCurrent: 0, capConductance: 0, y: 0, conductance: 0, yLast: NaN, yBefore: NaN,
+    capVolts: Infinity, capCurrent: 0, capConductance: 0, y: 0, vLast: 0, dydv: 0, conductance: 0, yLast: NaN, yBefore: NaN,
   };
   groups.forEach((g, i) => {
     if (g.is < s.isMin) { s.isMin = g.is; s.nvtMin = s.nvt[i]; }
@@ -74,7 +80,7 @@ export function prepareString(devices: readonly DeviceModel[], temperatureC: Cel
   return s;
 }
 
-/** Residual f(y) = V(I(y)) − v and its slope; writes the slope into scratch[0] and dV/dI into scratch[1]. */
+/** Residual f(y) = V(I(y)) − v and its slope; writes the slope into scratch[0], dV/dI into scratch[1], I into scratch[2]. */
 function residual(s: PreparedString, y: number, v: number, scratch: Float64Array): number {
   // e^y and e^y − 1 each to full relative precision, with one transcendental call.
   let em: number;
@@ -92,10 +98,11 @@ function residual(s: PreparedString, y: number, v: number, scratch: Float64Array
   }
   scratch[0] = isMinEy * dvdi;
   scratch[1] = dvdi;
+  scratch[2] = i;
   return f;
 }
 
-const scratch = new Float64Array(2);
+const scratch = new Float64Array(3);
 
 /**
  * Current through the string at voltage v (positive = forward), e.g. ≈1e-3 A for a 1N4148-like
@@ -142,29 +149,39 @@ export function stringCurrent(s: PreparedString, v: number): number {
       return i0 + s.isMin * ey * dy;
     }
   }
-  // In reverse bias the RS drop is at most IS·RS, so y ≈ v/(N·Vt) for a single group is all but exact.
-  let guess = v < 0 && s.is.length === 1 ? (v - s.isMin * s.rs * Math.expm1(v / s.nvtMin)) / s.nvtMin : s.y;
+  // Start one Newton step ahead of the last solve (free: its slope is kept), which is all but exact when v
+  // moved little, as between the iterations of a node solve. A lone group in reverse bias has a closer guess:
+  // the RS drop is at most IS·RS there, so y ≈ v/(N·Vt).
+  let guess = v < 0 && s.is.length === 1
+    ? (v - s.isMin * s.rs * Math.expm1(v / s.nvtMin)) / s.nvtMin
+    : s.y + (v - s.vLast) * s.dydv;
   if (!(guess > lo && guess < hi)) guess = s.y;
   let y = guess > lo && guess < hi ? guess : 0.5 * (lo + hi);
   for (let iter = 0; iter < MAX_ITERATIONS; iter++) {
     const f = residual(s, y, v, scratch);
-    let done = f === 0;
-    if (!done) {
-      if (f > 0) hi = y; else lo = y;
-      const step = f / scratch[0];
-      const tol = TOLERANCE * Math.max(1, Math.abs(y));
-      let next = y - step;
-      if (Math.abs(step) <= tol) done = true;
-      else if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-      done = done || hi - lo <= tol;
-      y = next;
-    }
-    if (done) {
-      residual(s, y, v, scratch);
-      s.y = y;
+    const step = f / scratch[0];
+    const scale = Math.max(1, Math.abs(y));
+    if (f === 0 || Math.abs(step) <= ACCEPT_STEP * scale) {
+      // Converged: take the last Newton step without evaluating again (its error is of order step²).
+      s.y = y - step;
       s.conductance = 1 / scratch[1];
-      return s.isMin * Math.expm1(y);
+      s.vLast = v;
+      s.dydv = 1 / scratch[0];
+      // I(y − step) to first order, dI/dy = IS·e^y = slope / (dV/dI).
+      return scratch[2] - step * (scratch[0] / scratch[1]);
     }
+    if (f > 0) hi = y; else lo = y;
+    let next = y - step;
+    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+    if (hi - lo <= TOLERANCE * scale) {
+      residual(s, next, v, scratch);
+      s.y = next;
+      s.conductance = 1 / scratch[1];
+      s.vLast = v;
+      s.dydv = 1 / scratch[0];
+      return s.isMin * Math.expm1(next);
+    }
+    y = next;
   }
   throw new SolverError(`device string did not converge at ${v} V after ${MAX_ITERATIONS} iterations`);
 }
@@ -176,7 +193,7 @@ export function stringCurrent(s: PreparedString, v: number): number {
 export function stringVoltageAt(s: PreparedString, y: number, out: Float64Array): number {
   const f = residual(s, y, 0, scratch);
   out[0] = scratch[1];
-  out[1] = s.isMin * Math.expm1(y);
+  out[1] = scratch[2];
   // dI/dy = IS·e^y
   out[2] = scratch[0] / scratch[1];
   return f;

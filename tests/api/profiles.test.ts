@@ -1,10 +1,8 @@
-import { execFileSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { validateContractInput } from '../../shared/engine';
 import { DEMO, signedInAgent, startTestApp } from '../support/app';
 import { profileCost } from '../../server/services/engine/profiles';
+import { ngspiceSpectrum, requireNgspice } from '../support/ngspice';
 
 const t = startTestApp();
 afterAll(() => t.stop());
@@ -19,15 +17,24 @@ const INPUT = {
 };
 
 describe('POST /api/profiles', () => {
-  // The answer comes from the compute pool's worker thread; the CLI is a separate process.
-  it('answers from the compute pool exactly what the engine CLI prints for the same JSON', async () => {
+  beforeAll(() => requireNgspice());
+  // The answer comes from the compute pool's worker thread; ngspice is the outside check.
+  it('answers the contract with harmonics that agree with ngspice for the same JSON', async () => {
     const agent = await signedInAgent(t.app, DEMO.planner);
     const res = await agent.post('/api/profiles').set('X-CSRF-Token', agent.csrf).send(INPUT).expect(200);
-    const file = path.join(mkdtempSync(path.join(tmpdir(), 'kneepoint-profile-')), 'in.json');
-    writeFileSync(file, JSON.stringify(INPUT));
-    const cli = JSON.parse(execFileSync('npm', ['run', '--silent', 'profile', '--', file], { encoding: 'utf8' }));
-    expect(res.body).toEqual(cli);
+    expect(Object.keys(res.body).sort()).toEqual(['dcV', 'fundamentalPeakV', 'harmonics', 'thdF', 'thdR']);
     expect(res.body.harmonics).toHaveLength(10);
+    // Outside check: ngspice (Debian package) simulates the same circuit; engine.md's tolerances.
+    const spice = ngspiceSpectrum(validateContractInput(INPUT));
+    expect(Math.abs(20 * Math.log10(res.body.fundamentalPeakV / spice.fundamentalPeakV))).toBeLessThan(0.3);
+    let compared = 0;
+    for (let k = 2; k <= 10; k++) {
+      const ref = spice.harmonics[k - 1].dbc;
+      if (ref > -40) { expect(Math.abs(res.body.harmonics[k - 1].dbc - ref), `H${k}`).toBeLessThan(0.3); compared++; }
+      else if (ref > -60) { expect(Math.abs(res.body.harmonics[k - 1].dbc - ref), `H${k}`).toBeLessThan(1); compared++; }
+    }
+    expect(compared).toBeGreaterThan(2);
+    expect(Math.abs(res.body.thdF / spice.thdF - 1)).toBeLessThan(0.02);
     expect(res.body.harmonics[1].dbc).toBeGreaterThan(res.body.harmonics[2].dbc); // asymmetric: H2 above H3
   });
 

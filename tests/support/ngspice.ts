@@ -4,7 +4,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { ContractInput, DeviceModel } from '../../shared/engine/index';
+import { analyse, type ContractInput, type DeviceModel, type Spectrum } from '../../shared/engine/index';
 
 export const NGSPICE = process.env.NGSPICE ?? 'ngspice';
 
@@ -133,6 +133,33 @@ export function runNgspice(input: ContractInput, options: NgspiceOptions = {}): 
       throw new Error(`ngspice output has ${values.length} points, expected ≥ ${n}`);
     }
     return { samples: Float64Array.from(values.slice(0, n)), elapsedMs };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** Harmonic spectrum of ngspice's steady-state period for a contract input (the outside expectation). */
+export function ngspiceSpectrum(input: ContractInput, samples = 1024): Spectrum {
+  return analyse(runNgspice(input, { samples }).samples, input.harmonics);
+}
+
+/** Forward voltage of one device at a DC current and temperature, from ngspice's operating point. */
+export function ngspiceForwardVoltage(d: DeviceModel, currentA: number, temperatureC = 27): number {
+  const dir = mkdtempSync(join(tmpdir(), 'kneepoint-spice-'));
+  try {
+    const cir = join(dir, 'vf.cir');
+    writeFileSync(cir, [
+      '* kneepoint forward voltage check',
+      `.options TEMP=${num(temperatureC)} TNOM=27 RELTOL=1e-9 ABSTOL=1e-15 VNTOL=1e-12`,
+      `I1 0 a DC ${num(currentA)}`,
+      'D1 a 0 DM',
+      model('DM', d),
+      '.control', 'op', 'print v(a)', 'quit', '.endc', '.end', '',
+    ].join('\n'));
+    const r = spawnSync(NGSPICE, ['-b', cir], { encoding: 'utf8', timeout: 60_000 });
+    const m = /v\(a\)\s*=\s*([-+0-9.eE]+)/.exec(r.stdout ?? '');
+    if (!m) throw new Error(`ngspice printed no v(a) (exit ${r.status}):\n${r.stdout}\n${r.stderr}`);
+    return Number(m[1]);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

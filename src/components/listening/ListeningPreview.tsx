@@ -2,8 +2,8 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import type { CircuitSpec } from '../../../shared/engine';
 import { Button } from '../ui/Button';
 import { PreviewPlayer } from './player';
-import { matchedGains, shaperCurve, withoutCapacitors } from './shaper';
-import { synthesizePhrase } from './synth';
+import type { CurvesRequest, CurvesResponse } from './preview.worker';
+import { withoutCapacitors } from './shaper';
 
 export interface PreviewOption {
   id: number;
@@ -19,7 +19,31 @@ interface Props {
   onDriveChange: (drive: number) => void;
 }
 
-const LEVEL_PHRASE = synthesizePhrase(24000);
+/**
+ * The options' curves and matched gains at a drive, from a worker of the component's own (only the newest
+ * answer is kept while the drive moves); null until the first answer.
+ */
+function usePreviewCurves(options: PreviewOption[], drive: number) {
+  const worker = useRef<Worker | null>(null);
+  const asked = useRef(0);
+  const [result, setResult] = useState<{ curves: Float32Array[]; gains: number[] } | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  useEffect(() => {
+    const w = new Worker(new URL('./preview.worker.ts', import.meta.url), { type: 'module' });
+    w.onmessage = (e: MessageEvent<CurvesResponse>) => {
+      if (e.data.id !== asked.current) return;
+      if ('error' in e.data) setError(e.data.error);
+      else setResult({ curves: e.data.curves, gains: e.data.gains });
+    };
+    worker.current = w;
+    return () => { w.terminate(); worker.current = null; };
+  }, []);
+  useEffect(() => {
+    const id = ++asked.current;
+    worker.current?.postMessage({ id, circuits: options.map((o) => o.circuit), drive } satisfies CurvesRequest);
+  }, [options, drive]);
+  return { result, error };
+}
 
 /**
  * Plays a plucked-string phrase through the options' clipping curves (from the engine), with an
@@ -34,14 +58,13 @@ export function ListeningPreview({ options, drive, onDriveChange }: Props) {
   const [error, setError] = useState<string | null>(null);
   const [peakSeen, setPeakSeen] = useState(0);
 
-  const curves = useMemo(() => options.map((o) => shaperCurve(o.circuit, drive)), [options, drive]);
-  const gains = useMemo(() => matchedGains(curves, LEVEL_PHRASE), [curves]);
-  const smoothed = options.some((o) => withoutCapacitors(o.circuit).dropped);
+  const { result: shaped, error: curveError } = usePreviewCurves(options, drive);
+  const smoothed = useMemo(() => options.some((o) => withoutCapacitors(o.circuit).dropped), [options]);
   const heard = pair[side];
 
   useEffect(() => {
-    if (playing) player.current?.update(curves, gains);
-  }, [curves, gains, playing]);
+    if (playing && shaped) player.current?.update(shaped.curves, shaped.gains);
+  }, [shaped, playing]);
   useEffect(() => {
     if (playing) player.current?.select(heard);
   }, [heard, playing]);
@@ -68,8 +91,9 @@ export function ListeningPreview({ options, drive, onDriveChange }: Props) {
         setLevel(0);
         return;
       }
+      if (!shaped) return;
       player.current ??= new PreviewPlayer();
-      await player.current.start(curves, gains, heard);
+      await player.current.start(shaped.curves, shaped.gains, heard);
       setPlaying(true);
     } catch {
       setError('This browser could not start audio. Check that sound is allowed for this page.');
@@ -100,7 +124,7 @@ export function ListeningPreview({ options, drive, onDriveChange }: Props) {
         ))}
       </div>
       <div className="mt-4 flex flex-wrap items-center gap-3">
-        <Button type="button" onClick={toggle} aria-pressed={playing}>{playing ? 'Stop' : 'Play'}</Button>
+        <Button type="button" onClick={toggle} aria-pressed={playing} disabled={!shaped && !playing}>{playing ? 'Stop' : 'Play'}</Button>
         <div role="radiogroup" aria-label="Option heard" className="inline-flex overflow-hidden rounded-md border border-spruce-700/40">
           {[0, 1].map((s) => (
             <button
@@ -131,7 +155,7 @@ export function ListeningPreview({ options, drive, onDriveChange }: Props) {
           the charts but not heard here.
         </p>
       ) : null}
-      {error ? <p role="alert" className="mt-3 font-semibold text-alarm-700">{error}</p> : null}
+      {error ?? curveError ? <p role="alert" className="mt-3 font-semibold text-alarm-700">{error ?? `The preview could not be computed: ${curveError}`}</p> : null}
     </section>
   );
 }

@@ -10,6 +10,7 @@ function handle(req: ProfileRequest): ProfileResponse {
     const threeDrives = [0.25, circuit.referenceDrive, 1].map((drive) => ({ drive, gain: gainAtDrive(circuit.drive, drive), spectrum: analyse(periodicOutput(setupAtDrive(circuit, drive)), 10) }));
     return { id: req.id, kind: 'profile', profile, threeDrives, contract: req.contract ? runContract(req.contract) : null };
   }
+  if (req.kind === 'summary') return { id: req.id, kind: 'summary', profile: computeProfile(circuit, req.options) };
   const spectrum = analyse(periodicOutput(setupAtDrive(circuit, req.drive)), 10);
   const hasCap = circuit.network.shuntFarads > 0 || circuit.network.feedbackFarads > 0;
   return { id: req.id, kind: 'at', drive: req.drive, gain: gainAtDrive(circuit.drive, req.drive), spectrum, transfer: hasCap ? null : transferCurve(circuit, { drive: req.drive, points: 81 }) };

@@ -1,4 +1,5 @@
 import { useEffect, useRef, useState } from 'react';
+import type { HarmonicProfile, ProfileOptions } from '../../../shared/engine/index';
 import type { ProfileRequest, ProfileResponse } from './profile-messages';
 
 type Profile = Extract<ProfileResponse, { kind: 'profile' }>;
@@ -86,4 +87,34 @@ export function useProfiles(circuits: { key: string; circuit: unknown }[]) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [key, worker]);
   return profiles;
+}
+
+/** Outcome of one circuit's profile: computing (undefined in the record), done, or the engine's message. */
+export type SummaryResult = { profile: HarmonicProfile; error: null } | { profile: null; error: string };
+
+/**
+ * Profiles of several circuits with the same options, computed in the page's worker one after another so the
+ * main thread never runs the engine. Keyed by the caller's stable keys; a circuit is asked for again only
+ * when its key changes (so pass a key that changes with the circuit, e.g. its JSON).
+ */
+export function useProfileSummaries(circuits: { key: string; circuit: unknown }[], options: ProfileOptions) {
+  const worker = useWorker();
+  const [results, setResults] = useState<Record<string, SummaryResult>>({});
+  const key = circuits.map((c) => c.key).join('\n');
+  const optionsKey = JSON.stringify(options);
+  useEffect(() => {
+    const w = worker.current;
+    if (!w) return;
+    let live = true;
+    for (const c of circuits) {
+      ask(w, { kind: 'summary', circuit: c.circuit, options }).then((r) => {
+        if (!live) return;
+        if (r.kind === 'summary') setResults((p) => ({ ...p, [c.key]: { profile: r.profile, error: null } }));
+        else if (r.kind === 'error') setResults((p) => ({ ...p, [c.key]: { profile: null, error: r.message } }));
+      });
+    }
+    return () => { live = false; };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [key, optionsKey, worker]);
+  return results;
 }

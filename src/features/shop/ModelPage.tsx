@@ -6,12 +6,13 @@ import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui
 import { useToast } from '../../components/ui/toast';
 import { useFormatters } from '../../lib/format';
 import { paths } from '../../lib/navigation';
-import { useShopModel } from './api';
+import { useShopModel, type ShopOption } from './api';
 import { cart, MAX_PER_LINE } from './cart';
 import { HarmonicBars, Legend, OPTION_COLOURS, ThdCurves } from './charts';
 import { HarmonicsExplainer } from './HarmonicsExplainer';
-import { dbcOf, describeProfile, profilesOf } from './profiles';
+import { dbcOf, describeProfile, useOptionProfiles } from './profiles';
 
+const NO_OPTIONS: ShopOption[] = [];
 const percent = (ratio: number) => `${(ratio * 100).toFixed(ratio < 0.1 ? 1 : 0)} %`;
 const dbc = (v: number | null) => (v === null ? 'none (below −100 dBc)' : `${v.toFixed(1)} dBc`);
 
@@ -23,7 +24,13 @@ export default function ModelPage() {
   const [chosen, setChosen] = useState<number | null>(null);
   const [quantity, setQuantity] = useState(1);
   const [drive, setDrive] = useState<number | null>(null);
-  const profiles = useMemo(() => (model.data ? profilesOf(model.data.options) : []), [model.data]);
+  const options = model.data?.options ?? NO_OPTIONS;
+  const profiles = useOptionProfiles(options);
+  // Built once per model, so the preview's memoised curves are not recomputed on every click or keystroke.
+  const previewOptions = useMemo(
+    () => options.flatMap((o) => (o.engineInput ? [{ id: o.id, name: o.name, circuit: o.engineInput.circuit }] : [])),
+    [options],
+  );
 
   if (model.isPending) return <Loading label="Loading the pedal…" />;
   if (model.isError) return <ErrorState error={model.error} retry={() => model.refetch()} />;
@@ -31,7 +38,6 @@ export default function ModelPage() {
   const reference = m.activeRevision?.drive.referenceDrive ?? 0.5;
   const shownDrive = drive ?? reference;
   const selected = m.options.find((o) => o.id === chosen) ?? null;
-  const previewOptions = m.options.flatMap((o) => (o.engineInput ? [{ id: o.id, name: o.name, circuit: o.engineInput.circuit }] : []));
 
   const addToCart = () => {
     if (!selected) return;
@@ -76,7 +82,7 @@ export default function ModelPage() {
                     </dl>
                     <span className="text-sm">{describeProfile(profile)}</span>
                   </>
-                ) : <span className="text-sm text-ink-soft">{error}</span>}
+                ) : <span className="text-sm text-ink-soft">{error ?? 'Computing this option’s harmonics…'}</span>}
               </label>
             ))}
           </fieldset>

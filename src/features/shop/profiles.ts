@@ -1,22 +1,33 @@
-import { computeProfile, type HarmonicProfile } from '../../../shared/engine';
+import { useMemo } from 'react';
+import type { HarmonicProfile, ProfileOptions } from '../../../shared/engine';
+import { useProfileSummaries } from '../catalog/useProfile';
 import type { ShopOption } from './api';
 
 export interface OptionProfile {
   option: ShopOption;
   profile: HarmonicProfile | null;
+  /** Why there is no profile; null while it is still being computed. */
   error: string | null;
 }
 
-/** The engine's profile of each option, computed in the browser from the catalog's engine input. */
-export function profilesOf(options: ShopOption[]): OptionProfile[] {
-  return options.map((option) => {
+/** What the storefront shows of each option: a 13-point sweep and H1…H7, no tolerance bands. */
+const STOREFRONT_PROFILE: ProfileOptions = { sweepPoints: 13, harmonics: 7 };
+
+/**
+ * The engine's profile of each option, computed in the catalog's Web Worker from the engine input (a full
+ * profile is tens of ms per option, too long for the main thread). Options without one say so at once.
+ */
+export function useOptionProfiles(options: ShopOption[]): OptionProfile[] {
+  const circuits = useMemo(
+    () => options.flatMap((o) => (o.engineInput ? [{ key: JSON.stringify(o.engineInput.circuit), circuit: o.engineInput.circuit }] : [])),
+    [options],
+  );
+  const results = useProfileSummaries(circuits, STOREFRONT_PROFILE);
+  return useMemo(() => options.map((option) => {
     if (!option.engineInput) return { option, profile: null, error: 'No circuit data for this option yet' };
-    try {
-      return { option, profile: computeProfile(option.engineInput.circuit, { sweepPoints: 13, harmonics: 7 }), error: null };
-    } catch (e) {
-      return { option, profile: null, error: e instanceof Error ? e.message : 'The profile could not be computed' };
-    }
-  });
+    const r = results[JSON.stringify(option.engineInput.circuit)];
+    return { option, profile: r?.profile ?? null, error: r?.error ?? null };
+  }), [options, results]);
 }
 
 /** Below this a harmonic is numerical noise, not sound: a symmetric clip has no even orders at all. */
