@@ -4,8 +4,9 @@ import { engineSection, type BenchSection } from './bench/engine';
 import { jobsSection } from './bench/jobs';
 import { specSheetSection } from './bench/spec-sheets';
 import { loopSection } from './bench/loop';
+import { wireSection } from './bench/wire';
 
-export const sections: BenchSection[] = [engineSection, specSheetSection, loopSection, jobsSection];
+export const sections: BenchSection[] = [engineSection, specSheetSection, loopSection, jobsSection, wireSection];
 
 async function main(): Promise<void> {
   console.log(`Kneepoint benchmark — Node ${process.version}, ${new Date().toISOString()}`);
