@@ -4,9 +4,10 @@
 // The database is DATABASE_URL, else the `kneepoint` database of `npm start` on KP_PG_PORT.
 import { spawnSync } from 'node:child_process';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
+import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import path from 'node:path';
-import { brotliCompressSync, constants, gzipSync } from 'node:zlib';
+import { brotliCompressSync, brotliDecompressSync, constants, gunzipSync, gzipSync } from 'node:zlib';
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { createKnex } from '../../server/db/knex';
@@ -40,6 +41,30 @@ function clientSizes() {
   for (const font of files.filter((f) => /\.(ttf|woff2?)$/.test(f))) {
     console.log(`font ${font}: ${kib(statSync(path.join(ASSETS, font)).size)}`);
   }
+}
+
+/** Bytes a response puts on the wire (Content-Length, or the body as sent when there is none). */
+function wireBytes(url: string) {
+  return new Promise<{ bytes: number; body: Buffer; encoding?: string }>((resolve, reject) => {
+    http.get(url, { headers: { 'accept-encoding': 'br, gzip' } }, (res) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => {
+        const body = Buffer.concat(chunks);
+        resolve({ bytes: body.length, body, encoding: res.headers['content-encoding'] });
+      });
+    }).on('error', reject);
+  });
+}
+
+async function firstVisitBytes(base: string) {
+  const index = await wireBytes(`${base}/`);
+  const html = (index.encoding === 'br' ? brotliDecompressSync(index.body) : index.encoding === 'gzip' ? gunzipSync(index.body) : index.body).toString('utf8');
+  const linked = [...html.matchAll(/(?:src|href)="(\/assets\/[^"]+\.(?:js|css))"/g)].map((m) => m[1]);
+  let total = index.bytes;
+  for (const asset of linked) total += (await wireBytes(`${base}${asset}`)).bytes;
+  for (const font of readdirSync(ASSETS).filter((f) => f.endsWith('.woff2') || f.endsWith('.ttf'))) total += (await wireBytes(`${base}/assets/${font}`)).bytes;
+  return total;
 }
 
 const percentile = (xs: number[], p: number) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(xs.length * p))];
@@ -77,6 +102,7 @@ async function latency() {
       if (res.status !== 200) throw new Error(`${url}: ${res.status}`);
       return performance.now() - t;
     };
+    console.log(`first visit, bytes on the wire with Accept-Encoding "br, gzip": ${kib(await firstVisitBytes(base))} (index.html, entry JS, CSS, fonts; other chunks load per page)`);
     const health: number[] = [];
     const me: number[] = [];
     const ROUNDS = 1500;

@@ -111,7 +111,7 @@ describe('the webhook endpoint', () => {
   it('does not un-pay an order when an older failure arrives after the success', async () => {
     const order = await paidOrder();
     const row = await orderRow(order.id);
-    const late = { id: `evt_late_failure_${order.id}`, object: 'event', type: 'payment_intent.payment_failed', created: 1, data: { object: { id: row.payment_intent_id, object: 'payment_intent', metadata: { order_id: String(order.id) }, last_payment_error: { message: 'Your card was declined.' } } } };
+    const late = { id: `evt_late_failure_${order.id}`, object: 'event', type: 'payment_intent.payment_failed', created: 1, data: { object: { id: row.payment_intent_id, object: 'payment_intent', metadata: { order_id: String(order.id) }, last_payment_error: { code: 'card_declined', message: 'Declined in a test.' } } } };
     const body = JSON.stringify(late);
     expect((await post(body, signPayload(body, WEBHOOK_SECRET))).status).toBe(200);
     const after = await orderRow(order.id);
