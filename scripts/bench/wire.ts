@@ -44,9 +44,9 @@ function clientSizes() {
 }
 
 /** Bytes a response puts on the wire (Content-Length, or the body as sent when there is none). */
-function wireBytes(url: string) {
+function wireBytes(url: string, headers: Record<string, string> = {}) {
   return new Promise<{ bytes: number; body: Buffer; encoding?: string }>((resolve, reject) => {
-    http.get(url, { headers: { 'accept-encoding': 'br, gzip' } }, (res) => {
+    http.get(url, { headers: { 'accept-encoding': 'br, gzip', ...headers } }, (res) => {
       const chunks: Buffer[] = [];
       res.on('data', (c: Buffer) => chunks.push(c));
       res.on('end', () => {
@@ -103,6 +103,11 @@ async function latency() {
       return performance.now() - t;
     };
     console.log(`first visit, bytes on the wire with Accept-Encoding "br, gzip": ${kib(await firstVisitBytes(base))} (index.html, entry JS, CSS, fonts; other chunks load per page)`);
+    for (const list of ['/api/parts', '/api/orders']) {
+      const plain = await wireBytes(`${base}${list}`, { cookie, 'accept-encoding': 'identity' });
+      const packed = await wireBytes(`${base}${list}`, { cookie });
+      console.log(`${list} (planner): ${kib(plain.bytes)} plain, ${kib(packed.bytes)} on the wire (${packed.encoding ?? 'not compressed'})`);
+    }
     const health: number[] = [];
     const me: number[] = [];
     const ROUNDS = 1500;
