@@ -64,6 +64,16 @@ describe('API responses', () => {
     const small = await raw('/api/health', { 'accept-encoding': 'gzip' });
     expect(small.headers['content-encoding']).toBeUndefined();
   });
+
+  it('leave PDFs as they are: they are compressed already', async () => {
+    const cookie = await signInCookie(DEMO.planner);
+    const unit = await t.knex('units').whereNotNull('serial').orderBy('id').first('serial');
+    const pdf = await raw(`/api/units/${unit.serial}/spec-sheet.pdf`, { cookie, 'accept-encoding': 'gzip, br' });
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers['content-type']).toBe('application/pdf');
+    expect(pdf.headers['content-encoding']).toBeUndefined();
+    expect(pdf.body.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+  }, 30_000);
 });
 
 const dist = path.resolve(import.meta.dirname, '../../dist');
