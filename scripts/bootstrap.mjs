@@ -318,7 +318,7 @@ function bench(script) {
   const isDataset = script === 'scripts/bench/dataset.ts';
   if (!isDataset && wants('engine') && !existsSync('/usr/bin/ngspice')) aptInstall(['ngspice']);
   if (!isDataset && wants('client') && !existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
-  const needsDemo = !isDataset && ['client', 'loop', 'jobs'].some(wants);
+  const needsDemo = !isDataset && ['client', 'loop', 'jobs', 'wire'].some(wants);
   const needsLarge = isDataset || sections.includes('api');
   let env = { ...process.env };
   let stop = () => {};

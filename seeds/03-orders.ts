@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { priceCart } from '../server/services/orders/pricing';
+import { PAYMENT_FAILURE_SENTENCES } from '../server/services/payments/shopper-messages';
 
 // A few demo orders of the invented customers, in several states, so the order desk, "My orders"
 // and batch planning have something to show. Idempotent: it adds nothing once demo orders exist,
@@ -10,7 +11,7 @@ type Step = { to: string; daysAgo: number; message: string };
 const DEMO_ORDERS: { email: string; pick: [modelIndex: number, optionIndex: number, quantity: number][]; daysAgo: number; steps: Step[]; error?: string }[] = [
   { email: 'customer@shop.example', pick: [[0, 2, 1]], daysAgo: 3, steps: [{ to: 'paid', daysAgo: 3, message: 'Payment received' }] },
   { email: 'sam@mail.example', pick: [[0, 0, 1], [1, 1, 1]], daysAgo: 2, steps: [{ to: 'paid', daysAgo: 2, message: 'Payment received' }] },
-  { email: 'sam@mail.example', pick: [[1, 0, 2]], daysAgo: 1, steps: [], error: 'Your card was declined.' },
+  { email: 'sam@mail.example', pick: [[1, 0, 2]], daysAgo: 1, steps: [], error: PAYMENT_FAILURE_SENTENCES.card_declined },
   {
     email: 'customer@shop.example', pick: [[1, 1, 1]], daysAgo: 30,
     steps: [
@@ -72,7 +73,7 @@ export async function seed(knex: Knex): Promise<void> {
         events.push({ order_id: order.id, kind: 'state-change', from_state: from, to_state: step.to, message: step.message, created_at: daysAgo(step.daysAgo) });
         from = step.to;
       }
-      if (demo.error) events.push({ order_id: order.id, kind: 'payment-failed', from_state: null, to_state: null as unknown as string, message: demo.error, created_at: daysAgo(demo.daysAgo) });
+      if (demo.error) events.push({ order_id: order.id, kind: 'payment-failed', from_state: null, to_state: null as unknown as string, message: `Payment did not go through: ${demo.error}`, created_at: daysAgo(demo.daysAgo) });
       await trx('order_events').insert(events);
     }
   });

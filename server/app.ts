@@ -10,8 +10,10 @@ import { csrfProtection } from './auth/csrf';
 import { authLimiters } from './auth/limits';
 import { createPassport, sessionMiddleware } from './auth/session';
 import { DomainError, errorMiddleware, requestId } from './errors';
+import { compressResponses } from './http/compression';
 import { refuseNul } from './http/input-guard';
 import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-table';
+import { clientFiles } from './http/static-files';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
@@ -60,6 +62,7 @@ export function createApp({ knex, config }: AppDeps) {
   app.set('trust proxy', config.trustProxy);
   app.use(requestId);
   app.use(helmet());
+  app.use(compressResponses());
   // Webhooks are verified against the exact bytes received, so keep them.
   app.use(express.json({ limit: '1mb', verify: (req, _res, buf) => { req.rawBody = buf; } }));
   app.use(refuseNul);
@@ -93,10 +96,7 @@ export function createApp({ knex, config }: AppDeps) {
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));
 
   const dist = path.join(root, 'dist');
-  if (existsSync(dist)) {
-    app.use(express.static(dist, { index: false, maxAge: '1h' }));
-    app.get(/^\/(?!api\/).*/, (_req, res) => res.sendFile(path.join(dist, 'index.html')));
-  }
+  if (existsSync(dist)) app.use(clientFiles(dist));
   app.use(errorMiddleware);
 
   return { app, registry, close: () => Promise.all([sessionPool.end(), closeComputePool()]).then(() => undefined) };

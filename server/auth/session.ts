@@ -1,4 +1,3 @@
-import connectPgSimple from 'connect-pg-simple';
 import session from 'express-session';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
@@ -7,16 +6,19 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../shared/roles';
 import type { Config } from '../config';
 import { authenticate, findActiveUser } from '../services/users';
+import { ThrottledPgStore } from './session-store';
 
-const PgStore = connectPgSimple(session);
 const WEEK_MS = 7 * 24 * 3600 * 1000;
 
-/** Cookie sessions stored in PostgreSQL (table "session", made by a migration). */
+/**
+ * Cookie sessions stored in PostgreSQL (table "session", made by a migration). They roll: each
+ * request moves the expiry a week ahead, written to the table at most once a minute.
+ */
 export function sessionMiddleware(pool: pg.Pool, config: Config) {
   return session({
     name: 'kneepoint.sid',
     secret: config.SESSION_SECRET,
-    store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: false }),
+    store: new ThrottledPgStore(pool),
     resave: false,
     saveUninitialized: false,
     rolling: true,

@@ -7,7 +7,7 @@ const sample = {
   name: 'Ines Falk', shopUrl: 'http://127.0.0.1:3000', customerName: 'Ines Falk', orderNumber: 'HM-10042', orderUrl: 'http://127.0.0.1:3000/orders/42',
   lines: [{ description: 'Saltmarsh Drive — Silicon pair', quantity: 2, unitPriceCents: 18_900, lineTotalCents: 37_800 }],
   subtotalCents: 37_800, shippingCents: 900, taxCents: 6_179, totalCents: 38_700, pricesIncludeTax: true,
-  reason: 'Your card was declined.', batchCode: 'B-2026-12', estimatedShipDate: '2026-12-18', serial: 'HM-SMD-0007',
+  reason: 'your bank declined it.', batchCode: 'B-2026-12', estimatedShipDate: '2026-12-18', serial: 'HM-SMD-0007',
   description: 'Saltmarsh Drive — Silicon pair', testedAt: '2026-12-15T10:00:00Z', hasSpecSheet: true, carrier: 'Parcelwing', tracking: 'PW 4471 0093 22', amountCents: 38_700,
 };
 

@@ -4,7 +4,7 @@ import { signPayload } from '../../server/fakes/payments/index';
 import { DEMO, signedInAgent, type TestAgent } from '../support/app';
 import { secretsInRepository } from '../support/repo-secrets';
 import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { eventually, payWith, SUCCESS_CARD, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { eventually, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
 
 const env = usePaymentsApp();
 let pedal: PedalFixture;
@@ -35,7 +35,7 @@ async function footprint(orderId: number, eventIds: string[]) {
 async function paidOrder() {
   const { order } = await placeOrder(customer, pedal, 1, 'led');
   const res = await customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
-  await payWith(env.fake, (res.body.url as string).split('/pay/')[1], SUCCESS_CARD);
+  await payWith(env.fake, (res.body.url as string).split('/pay/')[1], 'succeeds');
   await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
   // Let the provider's own deliveries settle, so the footprint below is stable.
   await new Promise((r) => setTimeout(r, 300));

@@ -5,7 +5,7 @@ import { cancelOrder } from '../../server/services/payments/cancel';
 import { createPaymentsClient } from '../../server/services/payments/client';
 import { DEMO, signedInAgent, type TestAgent } from '../support/app';
 import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { API_KEY, eventually, fakeEvents, payWith, SUCCESS_CARD, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { API_KEY, eventually, fakeEvents, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
 
 const env = usePaymentsApp();
 let pedal: PedalFixture;
@@ -52,7 +52,7 @@ async function startPaying() {
 async function paidThenRefundedAtProvider() {
   const { order, sessionId } = await startPaying();
   const events = await held(order.id, sessionId, async () => {
-    await payWith(env.fake, sessionId, SUCCESS_CARD);
+    await payWith(env.fake, sessionId, 'succeeds');
     const session = await (await fetch(`${env.fake.url}/v1/checkout/sessions/${sessionId}`, { headers: { authorization: `Bearer ${API_KEY}` } })).json();
     const refund = await fetch(`${env.fake.url}/v1/refunds`, { method: 'POST', headers: { authorization: `Bearer ${API_KEY}`, 'content-type': 'application/x-www-form-urlencoded' }, body: `payment_intent=${session.payment_intent}` });
     expect(refund.status).toBe(200);
@@ -107,7 +107,7 @@ describe('a payment that lands after the order was cancelled', () => {
   it('keeps the order cancelled and refunds the money once, however often and in whatever order its events come', async () => {
     const { order, sessionId } = await startPaying();
     const events = await held(order.id, sessionId, async () => {
-      await payWith(env.fake, sessionId, SUCCESS_CARD);
+      await payWith(env.fake, sessionId, 'succeeds');
       await env.t.knex('orders').where({ id: order.id }).update({ state: 'cancelled' });
     });
     const payment = events.filter((e) => e.type === 'checkout.session.completed' || e.type === 'payment_intent.succeeded');
@@ -126,7 +126,7 @@ describe('a payment that lands after the order was cancelled', () => {
 describe('a customer’s cancellation of a paid order', () => {
   it('records the request before the provider call and the refund after it, once for two clicks', async () => {
     const { order, sessionId } = await startPaying();
-    await payWith(env.fake, sessionId, SUCCESS_CARD);
+    await payWith(env.fake, sessionId, 'succeeds');
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
     const click = () => customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({ reason: 'Two clicks' });
     const [a, b] = await Promise.all([click(), click()]);
@@ -144,7 +144,7 @@ describe('a customer’s cancellation of a paid order', () => {
 describe('provider calls', () => {
   it('run with no lock held on the order: another connection can lock it while the provider refunds', async () => {
     const { order, sessionId } = await startPaying();
-    await payWith(env.fake, sessionId, SUCCESS_CARD);
+    await payWith(env.fake, sessionId, 'succeeds');
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
     const stripe = createPaymentsClient(env.t.config);
     const locks: string[] = [];

@@ -2,7 +2,7 @@
 // fake's webhooks pointed at the app's endpoint with the app's secret.
 import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll } from 'vitest';
-import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/index';
+import { startPaymentsFake, type PayChoice, type PaymentsFake } from '../../server/fakes/payments/index';
 import { listen } from '../support/browser';
 import { startTestApp } from '../support/app';
 
@@ -45,9 +45,9 @@ export async function eventually<T>(check: () => Promise<T | undefined | null | 
   }
 }
 
-/** Pays a checkout session without a browser through the fake's control endpoint. */
-export async function payWith(fake: PaymentsFake, sessionId: string, card: string) {
-  const res = await fetch(`${fake.url}/_fake/sessions/${sessionId}/pay`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ card }) });
+/** Pays a checkout session without a browser through the fake's control endpoint, with the outcome asked for. */
+export async function payWith(fake: PaymentsFake, sessionId: string, outcome: PayChoice) {
+  const res = await fetch(`${fake.url}/_fake/sessions/${sessionId}/pay`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ outcome }) });
   return (await res.json()) as { outcome: string; redirect?: string };
 }
 
@@ -55,6 +55,3 @@ export async function fakeEvents(fake: PaymentsFake, type?: string) {
   const res = await fetch(`${fake.url}/_fake/events${type ? `?type=${type}` : ''}`);
   return (await res.json()) as { event: { id: string; type: string; data: { object: Record<string, unknown> } }; delivery: { state: string } }[];
 }
-
-export const SUCCESS_CARD = '4242 4242 4242 4242';
-export const DECLINE_CARD = '4000 0000 0000 0002';

@@ -2,7 +2,7 @@ import { describe, expect, it, beforeAll } from 'vitest';
 import { signPayload } from '../../server/fakes/payments/index';
 import { DEMO, signedInAgent, type TestAgent } from '../support/app';
 import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { DECLINE_CARD, eventually, fakeEvents, payWith, SUCCESS_CARD, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { eventually, fakeEvents, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
 
 const env = usePaymentsApp();
 let pedal: PedalFixture;
@@ -23,7 +23,7 @@ async function checkout(orderId: number) {
 
 async function paidOrder() {
   const { order } = await placeOrder(customer, pedal, 1, 'led');
-  await payWith(env.fake, await checkout(order.id), SUCCESS_CARD);
+  await payWith(env.fake, await checkout(order.id), 'succeeds');
   await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
   return order;
 }
@@ -42,7 +42,7 @@ describe('checkout through the payments SDK', () => {
     expect(session.metadata).toEqual({ order_id: String(order.id), order_number: order.number });
     expect(session.success_url).toContain(`/orders/${order.id}`);
 
-    const paid = await payWith(env.fake, sessionId, SUCCESS_CARD);
+    const paid = await payWith(env.fake, sessionId, 'succeeds');
     expect(paid.outcome).toBe('succeeded');
     const row = await eventually(async () => { const r = await orderRow(order.id); return r.state === 'paid' && r; }, 'order paid');
     expect(row.payment_intent_id).toMatch(/^pi_/);
@@ -60,7 +60,7 @@ describe('checkout through the payments SDK', () => {
   it('keeps a declined order awaiting payment with the reason, then lets the customer pay', async () => {
     const { order } = await placeOrder(customer, pedal);
     const sessionId = await checkout(order.id);
-    expect((await payWith(env.fake, sessionId, DECLINE_CARD)).outcome).toBe('declined');
+    expect((await payWith(env.fake, sessionId, 'declined')).outcome).toBe('declined');
     const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error && r; }, 'failure recorded');
     expect(row.state).toBe('awaiting_payment');
     expect(row.last_payment_error).toMatch(/declined/);
@@ -68,7 +68,7 @@ describe('checkout through the payments SDK', () => {
     const detail = await customer.get(`/api/orders/${order.id}`).expect(200);
     expect(detail.body.order.lastPaymentError).toMatch(/declined/);
 
-    await payWith(env.fake, sessionId, SUCCESS_CARD);
+    await payWith(env.fake, sessionId, 'succeeds');
     const paid = await eventually(async () => { const r = await orderRow(order.id); return r.state === 'paid' && r; }, 'order paid after retry');
     expect(paid.last_payment_error).toBeNull();
   });
@@ -111,7 +111,7 @@ describe('the webhook endpoint', () => {
   it('does not un-pay an order when an older failure arrives after the success', async () => {
     const order = await paidOrder();
     const row = await orderRow(order.id);
-    const late = { id: `evt_late_failure_${order.id}`, object: 'event', type: 'payment_intent.payment_failed', created: 1, data: { object: { id: row.payment_intent_id, object: 'payment_intent', metadata: { order_id: String(order.id) }, last_payment_error: { message: 'Your card was declined.' } } } };
+    const late = { id: `evt_late_failure_${order.id}`, object: 'event', type: 'payment_intent.payment_failed', created: 1, data: { object: { id: row.payment_intent_id, object: 'payment_intent', metadata: { order_id: String(order.id) }, last_payment_error: { code: 'card_declined', message: 'Declined in a test.' } } } };
     const body = JSON.stringify(late);
     expect((await post(body, signPayload(body, WEBHOOK_SECRET))).status).toBe(200);
     const after = await orderRow(order.id);
@@ -125,7 +125,7 @@ describe('the webhook endpoint', () => {
     const sessionId = await checkout(order.id);
     env.fake.setWebhookUrl(null); // hold deliveries, then hand them over in reverse
     try {
-      await payWith(env.fake, sessionId, SUCCESS_CARD);
+      await payWith(env.fake, sessionId, 'succeeds');
       const mine = (await fakeEvents(env.fake)).filter((e) => e.event.data.object.id === sessionId || (e.event.data.object.metadata as Record<string, string> | undefined)?.order_id === String(order.id));
       expect(mine.map((e) => e.event.type)).toEqual(['payment_intent.succeeded', 'checkout.session.completed']);
       for (const e of [...mine].reverse()) {
@@ -164,7 +164,7 @@ describe('cancelling', () => {
     const sessionId = await checkout(order.id);
     const res = await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
     expect(res.body.state).toBe('cancelled');
-    const paying = await payWith(env.fake, sessionId, SUCCESS_CARD);
+    const paying = await payWith(env.fake, sessionId, 'succeeds');
     expect(paying.outcome).toBe('invalid');
     expect((await orderRow(order.id)).state).toBe('cancelled');
   });
@@ -188,7 +188,7 @@ describe('an expired payment page', () => {
     await eventually(async () => (await env.t.knex('order_events').where({ order_id: order.id, kind: 'checkout-expired' })).length > 0, 'the expiry noted');
     const second = await checkout(order.id);
     expect(second).not.toBe(first);
-    expect((await payWith(env.fake, second, SUCCESS_CARD)).outcome).toBe('succeeded');
+    expect((await payWith(env.fake, second, 'succeeds')).outcome).toBe('succeeded');
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'paid on the second session');
   });
 });
@@ -199,7 +199,7 @@ describe('a payment that arrives after cancelling', () => {
     const sessionId = await checkout(order.id);
     env.fake.setWebhookUrl(null); // the payment lands while the cancellation is under way
     try {
-      await payWith(env.fake, sessionId, SUCCESS_CARD);
+      await payWith(env.fake, sessionId, 'succeeds');
       await env.t.knex('orders').where({ id: order.id }).update({ state: 'cancelled' });
       const mine = (await fakeEvents(env.fake)).filter((e) => e.event.data.object.id === sessionId || (e.event.data.object.metadata as Record<string, string> | undefined)?.order_id === String(order.id));
       for (const e of mine) {

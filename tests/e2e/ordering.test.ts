@@ -4,7 +4,9 @@ import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
+import { DECLINED } from '../../server/fakes/payments/flow';
 import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/index';
+import { PAYMENT_FAILURE_SENTENCES } from '../../server/services/payments/shopper-messages';
 import { startJobs } from '../../server/jobs/boss';
 import { outboxJob } from '../../server/jobs/outbox-worker';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
@@ -88,15 +90,14 @@ async function checkout(page: Page) {
   await page.waitForURL(/\/pay\/cs_/);
 }
 
-async function payWithCard(page: Page, card: string) {
-  await page.locator('#card-number').fill(card);
-  await page.locator('#card-expiry').fill('12/39');
-  await page.locator('#card-cvc').fill('123');
+// The fake's hosted page: pick the outcome to play out, then pay.
+async function payWithOutcome(page: Page, outcome: string) {
+  await page.getByRole('radio', { name: new RegExp(outcome) }).check();
   await page.getByRole('button', { name: /^Pay/ }).click();
 }
 
 describe('ordering in a browser', () => {
-  it('compares two options, pays with the success card, lands on the paid order and the receipt is mailed', async () => {
+  it('compares two options, pays on the payment page, lands on the paid order and the receipt is mailed', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(page, DEMO.customer);
     const model = await openModelPage(page);
@@ -126,7 +127,9 @@ describe('ordering in a browser', () => {
     await page.getByRole('button', { name: `Add ${model.name} with ${second} to cart` }).click();
     await page.getByText(`Added 1 × ${model.name} with ${second} to your cart`).waitFor();
     await checkout(page);
-    await payWithCard(page, '4242 4242 4242 4242');
+    await page.getByRole('group', { name: 'What should happen to this test payment?' }).waitFor();
+    await shot(page, 'payment-page');
+    await payWithOutcome(page, 'The payment goes through');
     await page.waitForURL(/\/orders\/\d+\?paid=/);
     await page.getByText('Payment received — thank you.').waitFor({ timeout: 15_000 });
     expect(await page.getByTestId('order-state').textContent()).toBe('Paid');
@@ -183,18 +186,20 @@ describe('ordering in a browser', () => {
     await page.close();
   });
 
-  it('leaves the order awaiting payment with a clear message after the decline card', async () => {
+  it('leaves the order awaiting payment with the shop\'s own message after a declined payment', async () => {
     const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
     await signIn(page, DEMO.customer);
     const model = await openModelPage(page);
     await page.getByRole('radio', { name: new RegExp(model.options[0].name) }).check();
     await page.getByRole('button', { name: /^Add .* to cart$/ }).click();
     await checkout(page);
-    await payWithCard(page, '4000 0000 0000 0002');
-    await page.getByText('Your card was declined.').waitFor();
+    await payWithOutcome(page, 'The payment is turned down');
+    await page.getByText(DECLINED.message).waitFor();
+    await shot(page, 'payment-page-declined');
     await page.getByRole('link', { name: 'Cancel and go back' }).click();
     await page.waitForURL(/\/orders\/\d+\?payment=cancelled/);
-    await page.getByText(/Your payment did not go through: Your card was declined\./).waitFor({ timeout: 15_000 });
+    // The shop's own sentence for the provider's code, not the provider's message.
+    await page.getByText(`Your payment did not go through: ${PAYMENT_FAILURE_SENTENCES.card_declined}`).waitFor({ timeout: 15_000 });
     expect(await page.getByTestId('order-state').textContent()).toBe('Awaiting payment');
     await page.getByRole('button', { name: 'Try paying again' }).waitFor();
     await shot(page, 'declined');

@@ -86,7 +86,7 @@ describe('payments fake: checkout sessions', () => {
 describe('payments fake: payment intents and refunds', () => {
   async function paidSession() {
     const s = await newSession(env.stripe);
-    const paid = await payByControl(env, s.id, '4242424242424242');
+    const paid = await payByControl(env, s.id, 'succeeds');
     expect(paid.body.outcome).toBe('succeeded');
     return env.stripe.checkout.sessions.retrieve(s.id);
   }
@@ -125,7 +125,7 @@ describe('payments fake: payment intents and refunds', () => {
 
   it('will not refund a session that was never paid', async () => {
     const s = await newSession(env.stripe);
-    await payByControl(env, s.id, '4000000000000002');
+    await payByControl(env, s.id, 'declined');
     const { payment_intent } = await env.stripe.checkout.sessions.retrieve(s.id);
     await expect(env.stripe.refunds.create({ payment_intent: payment_intent as string })).rejects.toBeInstanceOf(
       Stripe.errors.StripeInvalidRequestError,

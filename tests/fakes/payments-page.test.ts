@@ -2,7 +2,8 @@
 // signed webhooks that follow, verified with the real SDK.
 import Stripe from 'stripe';
 import { describe, expect, it } from 'vitest';
-import { SECRET, card, newSession, payByControl, postForm, usePaymentsFake } from './payments-setup.js';
+import { DECLINED, NOT_CONFIRMED, PAY_OUTCOMES } from '../../server/fakes/payments/flow.js';
+import { SECRET, newSession, payByControl, postForm, usePaymentsFake } from './payments-setup.js';
 
 const env = usePaymentsFake();
 const verify = (body: string, header: string, secret = SECRET) => env.stripe.webhooks.constructEvent(body, header, secret);
@@ -10,7 +11,7 @@ const eventsOf = async (type?: string) =>
   (await fetch(`${env.fake.url}/_fake/events${type ? `?type=${type}` : ''}`)).json();
 
 describe('payments fake: hosted page', () => {
-  it('shows the order, the card form and a cancel link', async () => {
+  it('shows the order, the three outcomes to pick from and a cancel link', async () => {
     const s = await newSession(env.stripe);
     const res = await fetch(s.url!);
     expect(res.status).toBe(200);
@@ -18,13 +19,14 @@ describe('payments fake: hosted page', () => {
     expect(html).toContain('Local test payment page');
     expect(html).toContain('Overdrive, silicon clipping');
     expect(html).toContain('€393.00');
-    expect(html).toContain('name="card_number"');
+    for (const outcome of PAY_OUTCOMES) expect(html).toContain(`name="outcome" value="${outcome}"`);
+    expect(html).not.toContain('card_number');
     expect(html).toContain(`href="${s.cancel_url!.replace('&', '&#38;')}"`);
   });
 
-  it('pays with the success card and redirects to success_url with the session id', async () => {
+  it('"succeeds" pays and redirects to success_url with the session id', async () => {
     const s = await newSession(env.stripe);
-    const res = await postForm(s.url!, card('4242 4242 4242 4242'));
+    const res = await postForm(s.url!, { outcome: 'succeeds' });
     expect(res.status).toBe(303);
     expect(res.headers.get('location')).toBe(`http://127.0.0.1:9/orders/42?paid=${s.id}`);
     const after = await env.stripe.checkout.sessions.retrieve(s.id);
@@ -33,11 +35,11 @@ describe('payments fake: hosted page', () => {
     expect(await (await fetch(`${env.fake.url}/pay/${s.id}`)).text()).toContain('Already paid');
   });
 
-  it('shows a decline, keeps the session open, and lets a second card succeed', async () => {
+  it('"declined" shows the refusal, keeps the session open, and a second try can succeed', async () => {
     const s = await newSession(env.stripe);
-    const declined = await postForm(s.url!, card('4000 0000 0000 0002'));
+    const declined = await postForm(s.url!, { outcome: 'declined' });
     expect(declined.status).toBe(402);
-    expect(await declined.text()).toContain('Your card was declined.');
+    expect(await declined.text()).toContain(DECLINED.message);
     const open = await env.stripe.checkout.sessions.retrieve(s.id);
     expect(open).toMatchObject({ status: 'open', payment_status: 'unpaid' });
 
@@ -48,48 +50,81 @@ describe('payments fake: hosted page', () => {
     expect(pi.last_payment_error?.code).toBe('card_declined');
     expect(pi.metadata).toEqual({ order_id: '42' });
 
-    expect((await postForm(s.url!, card('4242424242424242'))).status).toBe(303);
+    expect((await postForm(s.url!, { outcome: 'succeeds' })).status).toBe(303);
     const paid = await env.stripe.checkout.sessions.retrieve(s.id);
     expect(paid.payment_intent).toBe(open.payment_intent);
   });
 
-  it('rejects unknown cards and bad expiry without touching the session', async () => {
+  it('refuses a missing or unknown outcome without touching the session', async () => {
     const s = await newSession(env.stripe);
-    expect((await postForm(s.url!, card('1234 5678 9012 3456'))).status).toBe(422);
-    expect((await postForm(s.url!, { ...card('4242424242424242'), expiry: '01/20' })).status).toBe(422);
+    expect((await postForm(s.url!, {})).status).toBe(422);
+    const unknown = await postForm(s.url!, { outcome: 'maybe' });
+    expect(unknown.status).toBe(422);
+    expect(await unknown.text()).toContain('Choose an outcome');
     const after = await env.stripe.checkout.sessions.retrieve(s.id);
     expect(after).toMatchObject({ status: 'open', payment_intent: null });
   });
 
-  it('asks for extra authentication; approving completes the payment', async () => {
+  it('"needs-confirmation" shows its own confirmation page; yes completes the payment', async () => {
     const s = await newSession(env.stripe);
-    const step = await postForm(s.url!, card('4000 0027 6000 3184'));
+    const step = await postForm(s.url!, { outcome: 'needs-confirmation' });
     expect(step.status).toBe(200);
-    expect(await step.text()).toContain('Approve authentication');
+    const page = await step.text();
+    expect(page).toContain('One more step');
+    expect(page).toContain('Yes, take the payment');
     expect((await env.stripe.checkout.sessions.retrieve(s.id)).status).toBe('open');
     await env.receiver.waitFor((r) => r.type === 'payment_intent.requires_action');
 
-    const done = await postForm(`${s.url}/authenticate`, { decision: 'approve' });
+    const done = await postForm(`${s.url}/confirm`, { answer: 'yes' });
     expect(done.status).toBe(303);
     expect((await env.stripe.checkout.sessions.retrieve(s.id)).payment_status).toBe('paid');
   });
 
-  it('failing the authentication declines and leaves the session open', async () => {
+  it('answering no on the confirmation page declines and leaves the session open', async () => {
     const s = await newSession(env.stripe);
-    await postForm(s.url!, card('4000002760003184'));
-    const failed = await postForm(`${s.url}/authenticate`, { decision: 'fail' });
+    await postForm(s.url!, { outcome: 'needs-confirmation' });
+    expect((await postForm(`${s.url}/confirm`, { answer: 'perhaps' })).status).toBe(422);
+    const failed = await postForm(`${s.url}/confirm`, { answer: 'no' });
     expect(failed.status).toBe(402);
-    expect(await failed.text()).toContain('unable to authenticate');
+    expect(await failed.text()).toContain(NOT_CONFIRMED.message);
     const ev = await env.receiver.waitFor((r) => r.type === 'payment_intent.payment_failed');
     expect(JSON.parse(ev.body).data.object.last_payment_error.code).toBe('payment_intent_authentication_failure');
     expect((await env.stripe.checkout.sessions.retrieve(s.id)).status).toBe('open');
   });
 });
 
+describe('payments fake: control endpoint outcomes', () => {
+  it('pays, declines or waits for confirmation as asked, and refuses anything else with 400', async () => {
+    const paid = await newSession(env.stripe);
+    expect((await payByControl(env, paid.id, 'succeeds')).body.outcome).toBe('succeeded');
+
+    const declined = await newSession(env.stripe);
+    const no = await payByControl(env, declined.id, 'declined');
+    expect(no.body).toMatchObject({ outcome: 'declined', message: DECLINED.message, redirect: null });
+    expect((await env.stripe.checkout.sessions.retrieve(declined.id)).status).toBe('open');
+
+    const waiting = await newSession(env.stripe);
+    expect((await payByControl(env, waiting.id, 'needs-confirmation')).body.outcome).toBe('needs-confirmation');
+    const confirm = (body: unknown) => fetch(`${env.fake.url}/_fake/sessions/${waiting.id}/confirm`, {
+      method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body),
+    });
+    expect((await confirm({ confirm: 'yes' })).status).toBe(400);
+    const yes = await confirm({ confirm: true });
+    expect(await yes.json()).toMatchObject({ outcome: 'succeeded', session: { payment_status: 'paid' } });
+
+    const other = await newSession(env.stripe);
+    for (const bad of ['pay', 'succeeded', null]) {
+      const res = await payByControl(env, other.id, bad);
+      expect(res.status).toBe(400);
+      expect(res.body.outcome).toBe('invalid');
+    }
+  });
+});
+
 describe('payments fake: webhooks', () => {
   it('sends signed completion events the SDK verifies; tampering or a wrong secret fails', async () => {
     const s = await newSession(env.stripe);
-    const paid = await payByControl(env, s.id, '4242424242424242');
+    const paid = await payByControl(env, s.id, 'succeeds');
     expect(paid.body).toMatchObject({ outcome: 'succeeded', redirect: `http://127.0.0.1:9/orders/42?paid=${s.id}` });
 
     const got = await env.receiver.waitFor((r) => r.type === 'checkout.session.completed');

@@ -60,11 +60,11 @@ export function newSession(stripe: Stripe, extra: Partial<Stripe.Checkout.Sessio
   });
 }
 
-export async function payByControl(env: Env, sessionId: string, card: string) {
+export async function payByControl(env: Env, sessionId: string, outcome: unknown) {
   const res = await fetch(`${env.fake.url}/_fake/sessions/${sessionId}/pay`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ card }),
+    body: JSON.stringify({ outcome }),
   });
   return { status: res.status, body: await res.json() };
 }
@@ -78,5 +78,3 @@ export function postForm(url: string, fields: Record<string, string>) {
     redirect: 'manual',
   });
 }
-
-export const card = (number: string) => ({ card_number: number, expiry: '12/39', cvc: '123' });

@@ -44,14 +44,14 @@ export function controlRouter(ctx: FakeContext): express.Router {
     res.json({ event: entry.event, delivery: hooks.resend(entry.event) });
   });
 
-  // Pay without a browser: {"card": "4242 4242 4242 4242"}.
+  // Pay without a browser: {"outcome": "succeeds" | "declined" | "needs-confirmation"}.
   router.post('/sessions/:id/pay', (req, res) => {
     const s = store.sessions.get(req.params.id);
     if (!s) {
       res.status(404).json({ error: 'No such checkout session' });
       return;
     }
-    const result = flow.pay(s, String(req.body?.card ?? ''));
+    const result = flow.pay(s, req.body?.outcome);
     res.status(result.outcome === 'invalid' ? 400 : 200).json({
       ...result,
       session: publicSession(s),
@@ -59,14 +59,18 @@ export function controlRouter(ctx: FakeContext): express.Router {
     });
   });
 
-  // Finish the extra authentication step: {"approve": true | false}.
-  router.post('/sessions/:id/authenticate', (req, res) => {
+  // Answer the confirmation step of a "needs-confirmation" payment: {"confirm": true | false}.
+  router.post('/sessions/:id/confirm', (req, res) => {
     const s = store.sessions.get(req.params.id);
     if (!s) {
       res.status(404).json({ error: 'No such checkout session' });
       return;
     }
-    const result = flow.authenticate(s, req.body?.approve === true);
+    if (typeof req.body?.confirm !== 'boolean') {
+      res.status(400).json({ error: 'Body must be {"confirm": true | false}' });
+      return;
+    }
+    const result = flow.confirm(s, req.body.confirm);
     res.status(result.outcome === 'invalid' ? 400 : 200).json({
       ...result,
       session: publicSession(s),

@@ -1,20 +1,23 @@
-// What happens when someone pays a session with a test card. Shared by the
-// hosted page and the `/_fake` control endpoints so both behave the same.
+// What happens when someone pays a session in the fake. Shared by the hosted
+// page and the `/_fake` control endpoints so both behave the same. There are no
+// card numbers: whoever pays picks the outcome they want to test.
 import { type PaymentIntent, type Session, type Store, newId, now, publicSession } from './store.js';
 import type { WebhookSender } from './webhooks.js';
 
-// Test cards, digits only. Anything else is refused as an unknown number so a
-// typo never silently "succeeds".
-export const TEST_CARDS = {
-  '4242424242424242': 'succeeds',
-  '4000000000000002': 'declined',
-  '4000002760003184': 'requires_authentication',
-} as const;
+/** The outcomes a test or a developer can ask for, on the page and at the control endpoint. */
+export const PAY_OUTCOMES = ['succeeds', 'declined', 'needs-confirmation'] as const;
+export type PayChoice = (typeof PAY_OUTCOMES)[number];
+export const isPayChoice = (value: unknown): value is PayChoice => (PAY_OUTCOMES as readonly unknown[]).includes(value);
+
+// The fake's own wording for the two ways a payment fails. The error codes are the API's shape
+// (the product maps codes, never these sentences, to what a shopper reads).
+export const DECLINED = { code: 'card_declined', decline_code: 'generic_decline', message: 'The payments fake declined this test payment.' };
+export const NOT_CONFIRMED = { code: 'payment_intent_authentication_failure', message: 'The test payment was not confirmed on the confirmation step.' };
 
 export type PayOutcome =
   | { outcome: 'succeeded' }
   | { outcome: 'declined'; message: string }
-  | { outcome: 'requires_action' }
+  | { outcome: 'needs-confirmation' }
   | { outcome: 'invalid'; message: string };
 
 export class PaymentFlow {
@@ -47,44 +50,38 @@ export class PaymentFlow {
     return intent;
   }
 
-  pay(session: Session, cardNumber: string): PayOutcome {
+  pay(session: Session, choice: unknown): PayOutcome {
     if (session.status !== 'open') {
       return { outcome: 'invalid', message: `This checkout session is ${session.status}.` };
     }
-    const digits = cardNumber.replace(/[\s-]/g, '');
-    const kind = TEST_CARDS[digits as keyof typeof TEST_CARDS];
-    if (!kind) {
-      return { outcome: 'invalid', message: 'Unknown card number. Use one of the test cards listed on this page.' };
+    if (!isPayChoice(choice)) {
+      return { outcome: 'invalid', message: `Choose an outcome: ${PAY_OUTCOMES.join(', ')}.` };
     }
     const intent = this.intentFor(session);
-    if (kind === 'declined') {
-      this.fail(intent, {
-        code: 'card_declined',
-        decline_code: 'generic_decline',
-        message: 'Your card was declined.',
-      });
-      return { outcome: 'declined', message: 'Your card was declined.' };
+    if (choice === 'declined') {
+      this.fail(intent, DECLINED);
+      return { outcome: 'declined', message: DECLINED.message };
     }
-    if (kind === 'requires_authentication') {
+    if (choice === 'needs-confirmation') {
+      // The intent waits for the payer, as at the provider (status and event names are the API's).
       intent.status = 'requires_action';
       intent.last_payment_error = null;
       this.hooks.emit('payment_intent.requires_action', intent);
-      return { outcome: 'requires_action' };
+      return { outcome: 'needs-confirmation' };
     }
     this.succeed(session, intent);
     return { outcome: 'succeeded' };
   }
 
-  // The extra authentication step for the 3184 card: approve or fail it.
-  authenticate(session: Session, approve: boolean): PayOutcome {
+  // The confirmation step of a "needs-confirmation" payment: the payer confirms or refuses.
+  confirm(session: Session, confirmed: boolean): PayOutcome {
     const intent = session.payment_intent ? this.store.intents.get(session.payment_intent) : undefined;
     if (session.status !== 'open' || !intent || intent.status !== 'requires_action') {
-      return { outcome: 'invalid', message: 'There is no authentication waiting for this session.' };
+      return { outcome: 'invalid', message: 'No payment of this session is waiting for confirmation.' };
     }
-    if (!approve) {
-      const message = 'We are unable to authenticate your payment method. Please choose a different payment method and try again.';
-      this.fail(intent, { code: 'payment_intent_authentication_failure', message });
-      return { outcome: 'declined', message };
+    if (!confirmed) {
+      this.fail(intent, NOT_CONFIRMED);
+      return { outcome: 'declined', message: NOT_CONFIRMED.message };
     }
     this.succeed(session, intent);
     return { outcome: 'succeeded' };

@@ -22,17 +22,19 @@ const STYLE = `
   table { width: 100%; border-collapse: collapse; font-size: .95rem; margin-bottom: 1rem; }
   td { padding: .25rem 0; } td.num { text-align: right; }
   tr.total td { border-top: 1px solid #ddd; font-weight: 600; padding-top: .5rem; }
-  label { display: block; font-size: .85rem; margin: .75rem 0 .25rem; }
-  input { width: 100%; box-sizing: border-box; padding: .55rem; font-size: 1rem;
-          border: 1px solid #bbb; border-radius: 6px; }
-  .row { display: flex; gap: .75rem; } .row > div { flex: 1; }
+  fieldset { border: 0; margin: 0; padding: 0; }
+  legend { font-weight: 600; margin-bottom: .4rem; }
+  label.choice { display: flex; gap: .6rem; align-items: flex-start; border: 1px solid #ccc; border-radius: 8px;
+                 padding: .6rem .75rem; margin-top: .5rem; cursor: pointer; min-height: 44px; box-sizing: border-box; }
+  label.choice:has(input:checked) { border-color: #2d5a3d; background: #eef5f0; }
+  label.choice input { margin-top: .25rem; }
+  label.choice small { display: block; color: #555; font-size: .82rem; }
   button { margin-top: 1.1rem; width: 100%; padding: .7rem; font-size: 1rem; border: 0;
            border-radius: 6px; background: #2d5a3d; color: #fff; cursor: pointer; }
   button.secondary { background: #8a2d2d; }
   .error { background: #fde8e8; border: 1px solid #d99; color: #7a1f1f; border-radius: 6px;
            padding: .6rem .75rem; margin: .75rem 0; }
   .hint { font-size: .8rem; color: #555; margin-top: 1rem; }
-  .hint code { background: #f0f0f0; padding: 0 .2rem; }
   a.cancel { display: block; text-align: center; margin-top: .9rem; color: #555; font-size: .9rem; }
 `;
 
@@ -60,38 +62,39 @@ function cancelLink(s: Session): string {
   return s.cancel_url ? `<a class="cancel" href="${esc(s.cancel_url)}">Cancel and go back</a>` : '';
 }
 
-export function cardForm(s: Session, error?: string, values: { card?: string; expiry?: string } = {}): string {
+// The three outcomes the payer can pick, in the page's words (values are the control API's).
+const CHOICES: { value: string; title: string; detail: string }[] = [
+  { value: 'succeeds', title: 'The payment goes through', detail: 'You return to the shop with the order paid.' },
+  { value: 'declined', title: 'The payment is turned down', detail: 'Nothing is charged; the page stays open for another try.' },
+  { value: 'needs-confirmation', title: 'The payer must confirm first', detail: 'A second page asks the payer to confirm or refuse.' },
+];
+
+export function outcomeForm(s: Session, error?: string, chosen = 'succeeds'): string {
   const err = error ? `<div class="error" role="alert">${esc(error)}</div>` : '';
+  const choices = CHOICES.map((c) => `
+  <label class="choice"><input type="radio" name="outcome" value="${c.value}"${c.value === chosen ? ' checked' : ''}>
+    <span>${esc(c.title)}<small>${esc(c.detail)}</small></span></label>`).join('');
   return layout('Test payment', `
 <h1>Pay for your order</h1>
 ${summary(s)}
 ${err}
 <form method="post" action="/pay/${esc(s.id)}">
-  <label for="card-number">Card number</label>
-  <input id="card-number" name="card_number" inputmode="numeric" autocomplete="cc-number"
-         placeholder="4242 4242 4242 4242" value="${esc(values.card ?? '')}" required>
-  <div class="row">
-    <div><label for="card-expiry">Expiry (MM/YY)</label>
-      <input id="card-expiry" name="expiry" placeholder="12/34" value="${esc(values.expiry ?? '')}" required></div>
-    <div><label for="card-cvc">CVC</label>
-      <input id="card-cvc" name="cvc" inputmode="numeric" placeholder="123" required></div>
-  </div>
+  <fieldset><legend>What should happen to this test payment?</legend>${choices}
+  </fieldset>
   <button type="submit">Pay ${esc(formatMoney(s.amount_total, s.currency))}</button>
 </form>
 ${cancelLink(s)}
-<p class="hint">Test cards: <code>4242 4242 4242 4242</code> succeeds,
-<code>4000 0000 0000 0002</code> is declined, <code>4000 0027 6000 3184</code> asks for
-extra authentication. Any future expiry and any 3-digit CVC.</p>`);
+<p class="hint">No card details are asked for: the payments fake only plays out the outcome you pick.</p>`);
 }
 
-export function authPage(s: Session): string {
-  return layout('Confirm payment', `
-<h1>Extra authentication</h1>
-<p>Your bank asks you to confirm this payment of
-<strong>${esc(formatMoney(s.amount_total, s.currency))}</strong>. This step stands in for the bank's own check.</p>
-<form method="post" action="/pay/${esc(s.id)}/authenticate">
-  <button type="submit" name="decision" value="approve">Approve authentication</button>
-  <button type="submit" name="decision" value="fail" class="secondary">Fail authentication</button>
+export function confirmPage(s: Session): string {
+  return layout('Confirm the payment', `
+<h1>One more step</h1>
+<p>Before <strong>${esc(formatMoney(s.amount_total, s.currency))}</strong> is taken, the payer is asked to
+say yes to this payment. In the fake, you answer for them.</p>
+<form method="post" action="/pay/${esc(s.id)}/confirm">
+  <button type="submit" name="answer" value="yes">Yes, take the payment</button>
+  <button type="submit" name="answer" value="no" class="secondary">No, stop this payment</button>
 </form>`);
 }
 

@@ -13,9 +13,9 @@
  *   POST /v1/refunds (payment_intent | charge, amount?, reason?, metadata?)
  *   GET  /v1/refunds/:id, GET /v1/events/:id
  *
- * Hosted test-payment page: GET/POST /pay/:sessionId (+ /pay/:id/authenticate).
- *   4242 4242 4242 4242 succeeds · 4000 0000 0000 0002 is declined ·
- *   4000 0027 6000 3184 needs an extra authentication step.
+ * Hosted test-payment page: GET/POST /pay/:sessionId (+ POST /pay/:id/confirm).
+ *   The payer picks the outcome: succeeds · declined · needs-confirmation (a
+ *   confirmation page follows, where the payer confirms or refuses).
  *
  * Webhooks (JSON POST to webhookUrl, `Stripe-Signature` header, retried with
  * backoff): payment_intent.succeeded, checkout.session.completed,
@@ -30,8 +30,9 @@
  *   POST /_fake/webhook {url}             change (or null to stop) the webhook endpoint
  *   GET  /_fake/events?type=              every event with its delivery attempts
  *   POST /_fake/events/:id/resend         deliver an event again
- *   POST /_fake/sessions/:id/pay {card}   pay without a browser → {outcome, session, redirect}
- *   POST /_fake/sessions/:id/authenticate {approve}   finish the 3184 card's step
+ *   POST /_fake/sessions/:id/pay {outcome}   pay without a browser → {outcome, session, redirect}
+ *     outcome: "succeeds" | "declined" | "needs-confirmation"
+ *   POST /_fake/sessions/:id/confirm {confirm: boolean}   answer the confirmation step
  */
 import type { AddressInfo } from 'node:net';
 import { createHash, timingSafeEqual } from 'node:crypto';
@@ -46,7 +47,7 @@ import { Store } from './store.js';
 import { WebhookSender } from './webhooks.js';
 
 export { signPayload } from './webhooks.js';
-export { TEST_CARDS } from './flow.js';
+export { PAY_OUTCOMES, type PayChoice } from './flow.js';
 
 export interface PaymentsFakeOptions {
   port?: number; // 0 = any free port

@@ -1,21 +1,11 @@
 // Routes of the hosted test-payment page at the session's `url` (/pay/:id).
-// The card number decides the outcome (see TEST_CARDS in flow.ts); on
-// success the browser is redirected (303) to the session's success_url.
+// The payer picks the outcome (PAY_OUTCOMES in flow.ts); on success the
+// browser is redirected (303) to the session's success_url.
 import express, { type Request, type Response } from 'express';
 import type { FakeContext } from './context.js';
 import { type PayOutcome, successRedirect } from './flow.js';
-import { authPage, cardForm, notice } from './html.js';
+import { confirmPage, notice, outcomeForm } from './html.js';
 import type { Session } from './store.js';
-
-function validExpiry(expiry: string): boolean {
-  const m = /^\s*(\d{1,2})\s*\/\s*(\d{2}|\d{4})\s*$/.exec(expiry);
-  if (!m) return false;
-  const month = Number(m[1]);
-  const year = m[2].length === 2 ? 2000 + Number(m[2]) : Number(m[2]);
-  if (month < 1 || month > 12) return false;
-  const today = new Date();
-  return year * 12 + month >= today.getFullYear() * 12 + today.getMonth() + 1;
-}
 
 export function pageRouter({ store, flow }: FakeContext): express.Router {
   const router = express.Router();
@@ -40,39 +30,33 @@ export function pageRouter({ store, flow }: FakeContext): express.Router {
     return s;
   };
 
-  const answer = (res: Response, s: Session, result: PayOutcome, values: { card?: string; expiry?: string }) => {
+  const answer = (res: Response, s: Session, result: PayOutcome, chosen?: string) => {
     if (result.outcome === 'succeeded') return res.redirect(303, successRedirect(s));
-    if (result.outcome === 'requires_action') return res.status(200).type('html').send(authPage(s));
+    if (result.outcome === 'needs-confirmation') return res.status(200).type('html').send(confirmPage(s));
     const status = result.outcome === 'declined' ? 402 : 422;
-    return res.status(status).type('html').send(cardForm(s, result.message, values));
+    return res.status(status).type('html').send(outcomeForm(s, result.message, chosen));
   };
 
   router.get('/:id', (req, res) => {
     const s = openSession(req, res);
-    if (s) res.type('html').send(cardForm(s));
+    if (s) res.type('html').send(outcomeForm(s));
   });
 
   router.post('/:id', (req, res) => {
     const s = openSession(req, res);
     if (!s) return;
-    const card = String(req.body?.card_number ?? '');
-    const expiry = String(req.body?.expiry ?? '');
-    const cvc = String(req.body?.cvc ?? '');
-    const values = { card, expiry };
-    if (!validExpiry(expiry)) {
-      return answer(res, s, { outcome: 'invalid', message: 'Enter a future expiry date as MM/YY.' }, values);
-    }
-    if (!/^\d{3,4}$/.test(cvc.trim())) {
-      return answer(res, s, { outcome: 'invalid', message: 'Enter the 3 or 4 digit CVC.' }, values);
-    }
-    return answer(res, s, flow.pay(s, card), values);
+    const choice = req.body?.outcome;
+    return answer(res, s, flow.pay(s, choice), typeof choice === 'string' ? choice : undefined);
   });
 
-  router.post('/:id/authenticate', (req, res) => {
+  router.post('/:id/confirm', (req, res) => {
     const s = openSession(req, res);
     if (!s) return;
-    const approve = req.body?.decision === 'approve';
-    return answer(res, s, flow.authenticate(s, approve), {});
+    const answerGiven = req.body?.answer;
+    if (answerGiven !== 'yes' && answerGiven !== 'no') {
+      return answer(res, s, { outcome: 'invalid', message: 'Answer the confirmation with yes or no.' });
+    }
+    return answer(res, s, flow.confirm(s, answerGiven === 'yes'));
   });
 
   return router;

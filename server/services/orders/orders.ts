@@ -12,6 +12,9 @@ import { transitionOrder } from './transitions';
 /** Staff who may see and annotate every order. */
 export const ORDER_STAFF = PLANNING;
 
+/** History rows only staff see: their notes, and the payments provider's ids and codes. */
+export const STAFF_ONLY_EVENT_KINDS = ['note', 'payment-detail'];
+
 export interface OrderRow {
   id: number;
   number: string;
@@ -106,8 +109,8 @@ export async function orderDetail(knex: Knex, user: SessionUser, id: number) {
   return {
     order: { ...publicOrder(order), staffNotes: staff ? order.staff_notes : undefined, customer: staff ? customer : undefined },
     lines,
-    // Customers see their order's story without staff-only notes.
-    events: staff ? events : events.filter((e) => e.kind !== 'note'),
+    // Customers see their order's story without staff-only notes and provider details.
+    events: staff ? events : events.filter((e) => !STAFF_ONLY_EVENT_KINDS.includes(e.kind)),
   };
 }
 

@@ -22,15 +22,17 @@ export interface PaymentsDeps {
 }
 
 /**
- * Runs a provider call; a provider refusal or outage becomes a 502 with the provider's own words
- * instead of a 500, so the customer learns that paying, not Kneepoint, is the problem.
+ * Runs a provider call; a provider refusal or outage becomes a 502 in the shop's words instead of
+ * a 500, so the customer learns that paying, not Kneepoint, is the problem. The provider's own
+ * message goes to the server log for staff, not to the shopper.
  */
 export async function withProvider<T>(call: () => Promise<T>): Promise<T> {
   try {
     return await call();
   } catch (error) {
     if (error instanceof Stripe.errors.StripeError) {
-      throw new DomainError(502, 'payments_provider', `The payments provider refused or could not be reached: ${error.message}`);
+      console.error(`[payments] provider refused: ${error.type} ${error.code ?? ''} ${error.message}`);
+      throw new DomainError(502, 'payments_provider', 'The payments service refused the request or could not be reached; please try again in a few minutes.');
     }
     throw error;
   }

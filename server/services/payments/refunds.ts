@@ -102,18 +102,20 @@ async function executeRefund(knex: Knex, deps: PaymentsDeps, request: RefundRequ
     const done = await trx('refund_requests').where({ id: request.id, status: 'pending' })
       .update({ status: 'done', refund_id: refund.id, last_error: null, updated_at: trx.fn.now() }).returning('id');
     if (done.length === 0) return; // another attempt recorded it first
+    // The provider's ids go only into a staff-only row (STAFF_ONLY_EVENT_KINDS); customers read plain words.
+    await trx('order_events').insert({ order_id: request.order_id, kind: 'payment-detail', message: `Refund ${refund.id} of payment ${request.payment_intent_id}` });
     if (request.reason === 'late-payment') {
       await trx('order_events').insert({
         order_id: request.order_id, kind: 'refunded-after-cancel',
-        message: `Payment ${request.payment_intent_id} arrived after the order was cancelled; refunded at once (${refund.id})`,
+        message: 'A payment arrived after the order was cancelled and was refunded at once',
       });
     }
-    const moved = await applyRefunds(trx, deps, request.order_id, { userId: request.user_id, message: request.message || `Cancelled and refunded (${refund.id})` });
+    const moved = await applyRefunds(trx, deps, request.order_id, { userId: request.user_id, message: request.message || 'Cancelled and refunded' });
     if (!moved && request.reason === 'cancelled') {
       // The order moved on (e.g. into production) while the provider answered: the money is back, so say so for staff.
       const order = await trx('orders').where({ id: request.order_id }).first('state');
       if (order.state !== 'refunded') {
-        await trx('order_events').insert({ order_id: request.order_id, kind: 'refund-needs-attention', message: `Refunded at the provider (${refund.id}) while the order became ${order.state}` });
+        await trx('order_events').insert({ order_id: request.order_id, kind: 'refund-needs-attention', message: `Refunded at the provider while the order became ${order.state}` });
       }
     }
   });

@@ -5,6 +5,7 @@ import { enqueueOrderMail } from '../mail/order-mail';
 import { transitionOrder } from '../orders/transitions';
 import type { PaymentsDeps } from './client';
 import { applyRefunds, recordProviderRefund, refundedCents, requestRefund, settleRefunds } from './refunds';
+import { providerErrorDetail, shopperPaymentMessage, type ProviderPaymentError } from './shopper-messages';
 
 // A signature's timestamp may be this far from our clock, either way: older is a replay, newer is forged or a broken clock.
 export const TOLERANCE_SECONDS = 300;
@@ -75,11 +76,13 @@ async function applyEvent(trx: Knex.Transaction, deps: PaymentsDeps, event: Stri
     case 'payment_intent.payment_failed': {
       // A failure reported after the order is paid is an earlier attempt arriving late: keep it paid.
       if (order.state !== 'awaiting_payment') return done('ignored');
-      const error = object.last_payment_error as { message?: string } | null;
-      const message = error?.message ?? 'The payment did not go through';
-      await trx('orders').where({ id: orderId }).update({ last_payment_error: message.slice(0, 300), payment_intent_id: object.id as string, updated_at: trx.fn.now() });
-      await note(trx, orderId, 'payment-failed', message);
-      await enqueueOrderMail(trx, deps.config, orderId, 'payment-failed', event.id, { reason: message });
+      // Shoppers read the shop's sentence for the provider's code; staff also get what the provider said.
+      const error = object.last_payment_error as (ProviderPaymentError & { message?: string }) | null;
+      const reason = shopperPaymentMessage(error);
+      await trx('orders').where({ id: orderId }).update({ last_payment_error: reason, payment_intent_id: object.id as string, updated_at: trx.fn.now() });
+      await note(trx, orderId, 'payment-failed', `Payment did not go through: ${reason}`);
+      await note(trx, orderId, 'payment-detail', providerErrorDetail(error, object.id as string));
+      await enqueueOrderMail(trx, deps.config, orderId, 'payment-failed', event.id, { reason });
       return done('processed');
     }
     case 'charge.refunded':
