@@ -13,6 +13,7 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 /** CLI name → its TypeScript entry point. */
 const CLIS = {
   profile: 'scripts/profile.ts',
+  design: 'scripts/design.ts',
 };
 const OUT = path.join(ROOT, 'node_modules', '.cache', 'kneepoint-cli');
 

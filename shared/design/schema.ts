@@ -1,0 +1,88 @@
+// The option designer's input: a drive stage, a device list, a search space and a target sound.
+// One zod schema, used by the design CLI, the browser worker and the screen's form.
+import { z } from 'zod';
+import { CONTRACT_LIMITS } from '../engine/contract';
+import { findPreset } from '../engine/presets';
+
+/** Upper bounds that keep one search finite: 40 devices, 6 per side, 200 000 candidates. */
+export const DESIGN_LIMITS = { devices: 40, maxPerSide: 6, resistorValues: 60, capacitorValues: 12, candidates: 200_000, limit: 200 } as const;
+
+/** Standard E-series mantissas (IEC 60063): E6, E12 and E24. */
+export const E_SERIES = {
+  E6: [1.0, 1.5, 2.2, 3.3, 4.7, 6.8],
+  E12: [1.0, 1.2, 1.5, 1.8, 2.2, 2.7, 3.3, 3.9, 4.7, 5.6, 6.8, 8.2],
+  E24: [1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0, 3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2, 9.1],
+} as const;
+export type ESeriesName = keyof typeof E_SERIES;
+
+/** E-series values within [min, max] ohms, e.g. eSeriesValues('E6', 1000, 4700) = [1000, 1500, 2200, 3300, 4700]. */
+export function eSeriesValues(series: ESeriesName, min: number, max: number): number[] {
+  const out: number[] = [];
+  for (let decade = 1; decade <= 1e9; decade *= 10) {
+    for (const m of E_SERIES[series]) {
+      // Round to the mantissa's two significant figures so 2.2·1000 is exactly 2200.
+      const v = Math.round(m * 10 * decade) / 10;
+      if (v >= min && v <= max) out.push(v);
+    }
+  }
+  return out;
+}
+
+const finite = (label: string) => z.number({ error: `${label} must be a number` }).refine(Number.isFinite, `${label} must be finite`);
+const ohms = (label: string) => finite(label).positive(`${label} must be > 0`).max(CONTRACT_LIMITS.ohms.max, `${label} must be ≤ ${CONTRACT_LIMITS.ohms.max}`);
+const range = (label: string) => z.tuple([finite(`${label} low end`), finite(`${label} high end`)], { error: `${label} must be [low, high]` })
+  .refine(([lo, hi]) => lo <= hi, `${label}: the low end must not exceed the high end`);
+
+/** A device: a preset id ("led-red"), {preset}, or SPICE parameters with an optional display name. */
+const deviceSchema = z.union([
+  z.string().refine((s) => findPreset(s) !== undefined, { error: (i) => `unknown preset "${String(i.input).slice(0, 40)}"` }),
+  z.object({ preset: z.string(), name: z.string().max(80).optional() }).strict()
+    .refine((d) => findPreset(d.preset) !== undefined, { error: 'unknown preset', path: ['preset'] }),
+  z.object({ name: z.string().max(80).optional(), is: z.number(), n: z.number(), rs: z.number().optional(), eg: z.number().optional(), xti: z.number().optional() }).strict(),
+], { error: 'a device is a preset id or {is, n, rs?}' });
+
+const resistorsSchema = z.union([
+  z.array(ohms('seriesOhms[]')).min(1, 'give at least one value').max(DESIGN_LIMITS.resistorValues, `at most ${DESIGN_LIMITS.resistorValues} values`),
+  z.object({ eSeries: z.enum(['E6', 'E12', 'E24']), min: ohms('min'), max: ohms('max') }).strict()
+    .refine((r) => r.min <= r.max, 'min must not exceed max')
+    .refine((r) => eSeriesValues(r.eSeries, r.min, r.max).length > 0, 'no E-series value lies in that range'),
+], { error: `seriesOhms is a list of 1…${DESIGN_LIMITS.resistorValues} resistances or {eSeries: "E6"|"E12"|"E24", min, max}` });
+
+export const designTargetSchema = z.object({
+  /** THD_F (√(Σ_{k≥2} V_k²)/V_1) in percent. */
+  thdFPercent: range('thdFPercent').optional(),
+  /** H2 level minus H3 level, dB (positive = even-dominant). */
+  h2MinusH3Db: range('h2MinusH3Db').optional(),
+  /** Share of the distortion energy in even orders, percent. */
+  evenSharePercent: range('evenSharePercent').optional(),
+  /** Peak of the output's fundamental, volts. */
+  fundamentalPeakV: range('fundamentalPeakV').optional(),
+}).strict().refine((t) => Object.values(t).some((v) => v !== undefined), 'give at least one target range');
+export type DesignTarget = z.infer<typeof designTargetSchema>;
+
+export const designInputSchema = z.object({
+  toneHz: finite('toneHz').min(CONTRACT_LIMITS.toneHz.min).max(CONTRACT_LIMITS.toneHz.max),
+  inputPeakV: finite('inputPeakV').positive().max(CONTRACT_LIMITS.inputPeakV.max),
+  driveGain: finite('driveGain').positive().max(CONTRACT_LIMITS.driveGain.max),
+  railPeakV: finite('railPeakV').positive().max(CONTRACT_LIMITS.railPeakV.max).nullable().optional(),
+  temperatureC: finite('temperatureC').min(CONTRACT_LIMITS.temperatureC.min).max(CONTRACT_LIMITS.temperatureC.max).default(27),
+  harmonics: z.number().int().min(3, 'harmonics must be ≥ 3 (H2 − H3 needs them)').max(CONTRACT_LIMITS.harmonics.max).default(10),
+  devices: z.array(deviceSchema).min(1, 'give at least one device').max(DESIGN_LIMITS.devices, `at most ${DESIGN_LIMITS.devices} devices`),
+  maxPerSide: z.number().int().min(1).max(DESIGN_LIMITS.maxPerSide),
+  symmetry: z.enum(['any', 'symmetric', 'asymmetric']).default('any'),
+  topologies: z.array(z.enum(['shunt', 'feedback', 'none'])).min(1).max(3)
+    .refine((t) => new Set(t).size === t.length, 'list each topology once'),
+  seriesOhms: resistorsSchema.optional(),
+  feedbackOhms: ohms('feedbackOhms').optional(),
+  groundOhms: ohms('groundOhms').optional(),
+  /** Capacitor values to try across the devices (0 = none), farads; default [0]. */
+  capacitorFarads: z.array(finite('capacitorFarads[]').min(CONTRACT_LIMITS.farads.min).max(CONTRACT_LIMITS.farads.max))
+    .min(1).max(DESIGN_LIMITS.capacitorValues).optional(),
+  target: designTargetSchema,
+  limit: z.number().int().min(1).max(DESIGN_LIMITS.limit).default(10),
+}).strict()
+  .refine((d) => !d.topologies.includes('shunt') || d.seriesOhms !== undefined, { error: 'seriesOhms is required for the shunt topology', path: ['seriesOhms'] })
+  .refine((d) => !d.topologies.includes('feedback') || d.feedbackOhms !== undefined, { error: 'feedbackOhms is required for the feedback topology', path: ['feedbackOhms'] })
+  .refine((d) => !d.topologies.includes('feedback') || d.groundOhms !== undefined, { error: 'groundOhms is required for the feedback topology', path: ['groundOhms'] });
+export type DesignInput = z.infer<typeof designInputSchema>;
+export type DesignInputJson = z.input<typeof designInputSchema>;

@@ -1,0 +1,244 @@
+// The option designer's search: enumerate every clipping network in a search space, compute each one
+// with the engine's contract function (the profile CLI's own computation), rank by distance to a target.
+// Pure TypeScript: runs in the CLI, the server and a browser Web Worker.
+import { analyseOperatingPoint, resolveDevice, toContractOutput, type ContractInput, type ContractOutput } from '../engine/contract';
+import type { DeviceModel } from '../engine/device';
+import { EngineInputError } from '../engine/errors';
+import type { ClippingNetwork, Topology } from '../engine/network';
+import { findPreset } from '../engine/presets';
+import type { Spectrum } from '../engine/spectrum';
+import { DESIGN_LIMITS, designInputSchema, eSeriesValues, type DesignInput, type DesignTarget } from './schema';
+
+/** One device of the search space, resolved: its display name and SPICE parameters. */
+export interface SpaceDevice { name: string; model: DeviceModel }
+
+/** One side of a candidate: `count` devices of kind `device` (an index into the input's devices) in series. */
+export interface SideChoice { device: number; name: string; count: number }
+
+/** A computed candidate: `clipper` is a profile-contract clipper, `at` the profile CLI's output for it. */
+export interface DesignCandidate {
+  clipper: ClippingNetwork;
+  distance: number;
+  at: ContractOutput;
+  strings: { positive: SideChoice | null; negative: SideChoice | null };
+  /** Share of the distortion energy in even orders (0…1), from the same spectrum as `at`. */
+  evenEnergyShare: number;
+}
+
+export interface DesignResult {
+  /** Candidates computed (all of them unless cancelled). */
+  searched: number;
+  /** Candidates in the space. */
+  total: number;
+  /** Candidates whose solve failed (the engine throws rather than return NaN); skipped. */
+  failed: number;
+  cancelled: boolean;
+  /** The best `limit` candidates, by distance then enumeration order. */
+  candidates: DesignCandidate[];
+}
+
+export interface SearchOptions {
+  /** Called every `progressEvery` candidates and at the end, e.g. to move a progress bar. */
+  onProgress?: (done: number, total: number) => void;
+  progressEvery?: number;
+  /** Checked between candidates; when aborted the search stops and returns what it has. */
+  signal?: { readonly aborted: boolean };
+  shouldStop?: () => boolean;
+}
+
+/**
+ * Scale of one unit of distance per target quantity, used when a range is narrower than it (a range
+ * of width zero is allowed: a target copied from an existing circuit).
+ */
+export const DISTANCE_FLOORS = { thdFPercent: 0.1, h2MinusH3Db: 1, evenSharePercent: 1, fundamentalPeakV: 0.01 } as const;
+
+/** The measured quantities a target ranges over, for one computed candidate. */
+export function targetQuantities(at: ContractOutput, evenEnergyShare: number): Record<keyof DesignTarget, number> {
+  return {
+    thdFPercent: at.thdF * 100,
+    h2MinusH3Db: at.harmonics[1].dbc - at.harmonics[2].dbc,
+    evenSharePercent: evenEnergyShare * 100,
+    fundamentalPeakV: at.fundamentalPeakV,
+  };
+}
+
+/**
+ * Distance of a candidate to the target: the sum over the target's ranges of
+ *   (how far the value lies outside [lo, hi]) / max(hi − lo, floor),
+ * with the floors in DISTANCE_FLOORS. It is 0 exactly when the value is inside every range, and one
+ * unit means "one range-width outside", so quantities in different units add up comparably.
+ */
+export function targetDistance(target: DesignTarget, values: Record<keyof DesignTarget, number>): number {
+  let d = 0;
+  for (const key of Object.keys(DISTANCE_FLOORS) as (keyof DesignTarget)[]) {
+    const r = target[key];
+    if (!r) continue;
+    const [lo, hi] = r;
+    const v = values[key];
+    const outside = v < lo ? lo - v : v > hi ? v - hi : 0;
+    if (outside > 0) d += outside / Math.max(hi - lo, DISTANCE_FLOORS[key]);
+  }
+  return d;
+}
+
+/** Parse and range-check design JSON; throws EngineInputError {path, message} like the profile contract. */
+export function parseDesignInput(json: unknown): { input: DesignInput; devices: SpaceDevice[] } {
+  const parsed = designInputSchema.safeParse(json);
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    const path = issue.path.reduce<string>((p, k) => (typeof k === 'number' ? `${p}[${k}]` : p ? `${p}.${String(k)}` : String(k)), '');
+    throw new EngineInputError(path, path ? `${path}: ${issue.message}` : issue.message);
+  }
+  const input = parsed.data;
+  const devices = input.devices.map((d, i): SpaceDevice => {
+    const path = `devices[${i}]`;
+    if (typeof d === 'string') return { name: d, model: { ...findPreset(d)!.model } };
+    if ('preset' in d) return { name: d.name ?? d.preset, model: resolveDevice({ preset: d.preset }, path) };
+    const { name, ...params } = d;
+    return { name: name ?? `device ${i + 1}`, model: resolveDevice(params, path) };
+  });
+  const total = countCandidates(input);
+  if (total > DESIGN_LIMITS.candidates) {
+    throw new EngineInputError('', `the search space holds ${total} candidates; at most ${DESIGN_LIMITS.candidates} (fewer devices, a lower maxPerSide or fewer values)`);
+  }
+  return { input, devices };
+}
+
+function resistorValues(input: DesignInput): number[] {
+  const r = input.seriesOhms;
+  if (r === undefined) return [];
+  return Array.isArray(r) ? [...new Set(r)] : eSeriesValues(r.eSeries, r.min, r.max);
+}
+
+const capacitorValues = (input: DesignInput): number[] => [...new Set(input.capacitorFarads ?? [0])];
+
+/** Ordered (positive, negative) side pairs the symmetry choice allows. */
+function sidePairs(input: DesignInput): [number, number, number, number][] {
+  const sides: [number, number][] = [];
+  for (let d = 0; d < input.devices.length; d++) for (let c = 1; c <= input.maxPerSide; c++) sides.push([d, c]);
+  const pairs: [number, number, number, number][] = [];
+  for (const [pd, pc] of sides) {
+    for (const [nd, nc] of sides) {
+      const same = pd === nd && pc === nc;
+      if (input.symmetry === 'symmetric' && !same) continue;
+      if (input.symmetry === 'asymmetric' && same) continue;
+      pairs.push([pd, pc, nd, nc]);
+    }
+  }
+  return pairs;
+}
+
+/** Size of the space, e.g. 2 devices × up to 2 per side, shunt with 3 resistors: (2·2)² · 3 = 48. */
+export function countCandidates(input: DesignInput): number {
+  const s = input.devices.length * input.maxPerSide;
+  const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? s * s - s : s * s;
+  const caps = capacitorValues(input).length;
+  let n = 0;
+  for (const t of input.topologies) n += t === 'none' ? 1 : t === 'shunt' ? pairs * resistorValues(input).length * caps : pairs * caps;
+  return n;
+}
+
+interface Planned { clipper: ClippingNetwork; strings: DesignCandidate['strings'] }
+
+/**
+ * Every candidate in a fixed order: per topology (as listed), per resistor, per capacitor, per
+ * (positive device, count) and (negative device, count). A string is 1…maxPerSide devices of one kind.
+ */
+export function* enumerateCandidates(input: DesignInput, devices: SpaceDevice[]): Generator<Planned> {
+  const pairs = sidePairs(input);
+  const base = { seriesOhms: 1, shuntFarads: 0, feedbackOhms: input.feedbackOhms ?? 1, groundOhms: input.groundOhms ?? 1, feedbackFarads: 0 };
+  for (const topology of input.topologies as Topology[]) {
+    if (topology === 'none') {
+      yield { clipper: { topology, ...base, positive: [], negative: [] }, strings: { positive: null, negative: null } };
+      continue;
+    }
+    for (const r of topology === 'shunt' ? resistorValues(input) : [1]) {
+      for (const c of capacitorValues(input)) {
+        for (const [pd, pc, nd, nc] of pairs) {
+          const values = topology === 'shunt' ? { seriesOhms: r, shuntFarads: c } : { feedbackFarads: c };
+          yield {
+            clipper: {
+              topology, ...base, ...values,
+              positive: Array.from({ length: pc }, () => ({ ...devices[pd].model })),
+              negative: Array.from({ length: nc }, () => ({ ...devices[nd].model })),
+            },
+            strings: { positive: { device: pd, name: devices[pd].name, count: pc }, negative: { device: nd, name: devices[nd].name, count: nc } },
+          };
+        }
+      }
+    }
+  }
+}
+
+/** The profile contract's input for one candidate clipper at the design's stage. */
+export function contractInputFor(input: DesignInput, clipper: ClippingNetwork): ContractInput {
+  return {
+    toneHz: input.toneHz, inputPeakV: input.inputPeakV, driveGain: input.driveGain, railPeakV: input.railPeakV ?? null,
+    clipper, temperatureC: input.temperatureC, harmonics: input.harmonics,
+  };
+}
+
+/** Keep `list` sorted by (distance, order) and at most `limit` long. */
+function keepBest(list: { c: DesignCandidate; order: number }[], item: { c: DesignCandidate; order: number }, limit: number): void {
+  if (list.length >= limit && item.c.distance >= list[list.length - 1].c.distance) return;
+  let i = list.length;
+  while (i > 0 && list[i - 1].c.distance > item.c.distance) i--;
+  list.splice(i, 0, item);
+  if (list.length > limit) list.pop();
+}
+
+/** The search as steps: yields after every `chunk` candidates so an async caller can let messages in. */
+function* searchSteps(input: DesignInput, devices: SpaceDevice[], options: SearchOptions, chunk: number): Generator<void, DesignResult> {
+  const total = countCandidates(input);
+  const every = options.progressEvery ?? 256;
+  const best: { c: DesignCandidate; order: number }[] = [];
+  let searched = 0;
+  let failed = 0;
+  let cancelled = false;
+  for (const planned of enumerateCandidates(input, devices)) {
+    if (options.signal?.aborted || options.shouldStop?.()) { cancelled = true; break; }
+    let spectrum: Spectrum | null = null;
+    try {
+      spectrum = analyseOperatingPoint(contractInputFor(input, planned.clipper));
+    } catch {
+      failed++;
+    }
+    if (spectrum) {
+      const at = toContractOutput(spectrum);
+      const distance = targetDistance(input.target, targetQuantities(at, spectrum.evenEnergyShare));
+      keepBest(best, { c: { ...planned, distance, at, evenEnergyShare: spectrum.evenEnergyShare }, order: searched }, input.limit);
+    }
+    searched++;
+    if (searched % every === 0) options.onProgress?.(searched, total);
+    if (searched % chunk === 0) yield;
+  }
+  options.onProgress?.(searched, total);
+  return { searched, total, failed, cancelled, candidates: best.map((b) => b.c) };
+}
+
+/** Run a parsed search to the end (or until cancelled), e.g. designSearch(parseDesignInput(json)).candidates[0]. */
+export function designSearch(parsed: { input: DesignInput; devices: SpaceDevice[] }, options: SearchOptions = {}): DesignResult {
+  const steps = searchSteps(parsed.input, parsed.devices, options, Number.MAX_SAFE_INTEGER);
+  for (;;) {
+    const s = steps.next();
+    if (s.done) return s.value;
+  }
+}
+
+/**
+ * The same search, giving the event loop a turn every `chunk` candidates: in a Web Worker this lets a
+ * cancel message arrive (set the signal's flag from onmessage) while the search runs.
+ */
+export async function designSearchAsync(parsed: { input: DesignInput; devices: SpaceDevice[] }, options: SearchOptions = {}, chunk = 64): Promise<DesignResult> {
+  const steps = searchSteps(parsed.input, parsed.devices, options, chunk);
+  for (;;) {
+    const s = steps.next();
+    if (s.done) return s.value;
+    await new Promise((resolve) => setTimeout(resolve, 0));
+  }
+}
+
+/** The checking contract's output: {searched, candidates: [{clipper, distance, at, …}]}. */
+export function runDesign(json: unknown, options: SearchOptions = {}): DesignResult {
+  return designSearch(parseDesignInput(json), options);
+}

@@ -1,0 +1,184 @@
+// The option designer's search against the profile contract: every candidate's `at` is the profile
+// computation for its clipper, a target copied from a circuit in the space is found at distance 0
+// (checked against an independent enumeration), unreachable targets still give the nearest.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { countCandidates, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { eSeriesValues } from '../../shared/design/schema';
+import { DEVICE_PRESETS, findPreset, runContract, type ContractOutput } from '../../shared/engine/index';
+
+const STAGE = { toneHz: 1000, inputPeakV: 0.1, driveGain: 40, railPeakV: 4.5, temperatureC: 27, harmonics: 10 };
+const PRESETS = ['si-small-signal', 'led-red', 'germanium-point-contact'];
+const SPACE = {
+  ...STAGE, devices: PRESETS, maxPerSide: 2, topologies: ['shunt', 'feedback'],
+  seriesOhms: [2200, 4700], feedbackOhms: 100000, groundOhms: 4700,
+};
+const roundTrip = <T>(x: T): T => JSON.parse(JSON.stringify(x)) as T;
+
+const dir = mkdtempSync(join(tmpdir(), 'kneepoint-design-'));
+function cli(script: 'profile' | 'design', name: string, body: unknown): { status: number | null; json: Record<string, unknown> } {
+  const file = join(dir, name);
+  writeFileSync(file, typeof body === 'string' ? body : JSON.stringify(body));
+  const r = spawnSync('npm', ['run', '--silent', script, '--', file], { encoding: 'utf8', cwd: process.cwd() });
+  const lines = r.stdout.trim().split('\n');
+  expect(lines.length).toBe(1);
+  return { status: r.status, json: JSON.parse(lines[0]) as Record<string, unknown> };
+}
+
+/** The space enumerated here independently of the search: plain nested loops over contract JSON. */
+function independentSpace(): { clipper: Record<string, unknown>; at: ContractOutput }[] {
+  const out: { clipper: Record<string, unknown>; at: ContractOutput }[] = [];
+  const sides = PRESETS.flatMap((p) => [1, 2].map((count) => Array.from({ length: count }, () => ({ preset: p }))));
+  const networks: Record<string, unknown>[] = [
+    ...SPACE.seriesOhms.map((r) => ({ topology: 'shunt', seriesOhms: r })),
+    { topology: 'feedback', feedbackOhms: 100000, groundOhms: 4700 },
+  ];
+  for (const net of networks) {
+    for (const positive of sides) {
+      for (const negative of sides) {
+        const clipper = { ...net, positive, negative };
+        out.push({ clipper, at: runContract({ ...STAGE, clipper }) });
+      }
+    }
+  }
+  return out;
+}
+
+const quantities = (at: ContractOutput) => ({ thd: at.thdF * 100, h2h3: at.harmonics[1].dbc - at.harmonics[2].dbc, v1: at.fundamentalPeakV });
+
+describe('option designer: enumeration and the profile contract', () => {
+  const all = runDesign({ ...SPACE, target: { thdFPercent: [0, 100] }, limit: 200 });
+
+  it('enumerates devices × 1…maxPerSide on each side independently, per topology and resistor', () => {
+    // 3 devices × 2 counts = 6 strings per side; 36 ordered pairs; shunt × 2 resistors + feedback.
+    expect(all.total).toBe(36 * 3);
+    expect(all.searched).toBe(108);
+    expect(all.failed).toBe(0);
+    expect(all.candidates).toHaveLength(108);
+    const keys = new Set(all.candidates.map((c) => JSON.stringify([c.clipper.topology, c.clipper.seriesOhms, c.strings])));
+    expect(keys.size).toBe(108);
+    const sym = parseDesignInput({ ...SPACE, symmetry: 'symmetric', target: { thdFPercent: [0, 1] } });
+    expect(countCandidates(sym.input)).toBe(6 * 3);
+    const asym = parseDesignInput({ ...SPACE, symmetry: 'asymmetric', topologies: ['shunt', 'none'], target: { thdFPercent: [0, 1] } });
+    expect(countCandidates(asym.input)).toBe(30 * 2 + 1);
+  });
+
+  it("gives every candidate the contract function's output for its clipper, through JSON", () => {
+    for (const c of all.candidates) {
+      expect(roundTrip(c.at)).toEqual(runContract({ ...STAGE, clipper: roundTrip(c.clipper) }));
+      // A candidate inside the (all-embracing) range has distance 0.
+      expect(c.distance).toBe(0);
+    }
+  });
+
+  it("matches the profile CLI's own output for sampled candidates, and the design CLI matches the function", () => {
+    // Each spawn starts npm and tsx (seconds on a loaded machine): two samples, one per topology.
+    for (const i of [0, 107]) {
+      const c = all.candidates[i];
+      const r = cli('profile', `p${i}.json`, { ...STAGE, clipper: c.clipper });
+      expect(r.status).toBe(0);
+      expect(r.json).toEqual(roundTrip(c.at));
+    }
+    const input = { ...SPACE, target: { thdFPercent: [3, 8], h2MinusH3Db: [0, 10] }, limit: 5 };
+    const d = cli('design', 'd.json', input);
+    expect(d.status).toBe(0);
+    expect(d.json).toEqual(roundTrip(runDesign(input)));
+  }, 300_000);
+});
+
+describe('option designer: ranking', () => {
+  const space = independentSpace();
+
+  it('finds a target copied from a circuit in the space at distance 0, exactly the circuits that meet it', () => {
+    const chosen = space.find((s) => s.clipper.topology === 'shunt' && s.clipper.seriesOhms === 4700
+      && (s.clipper.positive as unknown[]).length === 1 && (s.clipper.negative as { preset: string }[])[0].preset === 'led-red')!;
+    const q = quantities(chosen.at);
+    const target = { thdFPercent: [q.thd, q.thd], h2MinusH3Db: [q.h2h3, q.h2h3], fundamentalPeakV: [q.v1, q.v1] };
+    const expected = space.filter((s) => {
+      const v = quantities(s.at);
+      return v.thd === q.thd && v.h2h3 === q.h2h3 && v.v1 === q.v1;
+    });
+    expect(expected.length).toBeGreaterThanOrEqual(1);
+    const result = runDesign({ ...SPACE, target, limit: 200 });
+    expect(result.searched).toBe(space.length);
+    const zero = result.candidates.filter((c) => c.distance === 0);
+    expect(zero.map((c) => roundTrip(c.at))).toEqual(expected.map((e) => e.at));
+    expect(result.candidates[0].distance).toBe(0);
+    // The chosen circuit's devices come back: one silicon up, red LEDs down.
+    expect(zero.some((c) => c.strings.positive?.name === 'si-small-signal' && c.strings.negative?.name === 'led-red')).toBe(true);
+    expect(result.candidates.slice(zero.length).every((c) => c.distance > 0)).toBe(true);
+  });
+
+  it('returns the nearest candidates, with distance > 0 and sorted, for an unreachable target', () => {
+    const result = runDesign({ ...SPACE, target: { thdFPercent: [90, 95] }, limit: 4 });
+    expect(result.candidates).toHaveLength(4);
+    const d = result.candidates.map((c) => c.distance);
+    expect(d.every((x) => x > 0)).toBe(true);
+    expect([...d].sort((a, b) => a - b)).toEqual(d);
+    // The nearest is the space's highest THD_F, found independently; its distance follows the documented formula.
+    const maxThd = Math.max(...space.map((s) => s.at.thdF));
+    expect(result.candidates[0].at.thdF).toBe(maxThd);
+    expect(d[0]).toBeCloseTo((90 - maxThd * 100) / 5, 12);
+  });
+
+  it('sums range-width-normalised distances outside each range, with floors for narrow ranges', () => {
+    const v = { thdFPercent: 12, h2MinusH3Db: -3, evenSharePercent: 50, fundamentalPeakV: 1 };
+    expect(targetDistance({ thdFPercent: [5, 10] }, v)).toBeCloseTo(0.4, 12);
+    expect(targetDistance({ thdFPercent: [5, 10], h2MinusH3Db: [0, 0] }, v)).toBeCloseTo(0.4 + 3, 12);
+    expect(targetDistance({ fundamentalPeakV: [0.5, 2], evenSharePercent: [40, 60] }, v)).toBe(0);
+  });
+});
+
+describe('option designer: progress, cancellation, input', () => {
+  it('reports progress and stops between candidates when asked', () => {
+    const seen: number[] = [];
+    let calls = 0;
+    const r = runDesign({ ...SPACE, target: { thdFPercent: [0, 1] } }, { progressEvery: 5, onProgress: (done) => seen.push(done), shouldStop: () => ++calls > 12 });
+    expect(r.cancelled).toBe(true);
+    expect(r.searched).toBe(12);
+    expect(seen).toEqual([5, 10, 12]);
+    const aborted = runDesign({ ...SPACE, target: { thdFPercent: [0, 1] } }, { signal: { aborted: true } });
+    expect(aborted.searched).toBe(0);
+  });
+
+  it('expands E-series ranges', () => {
+    expect(eSeriesValues('E6', 1000, 4700)).toEqual([1000, 1500, 2200, 3300, 4700]);
+    expect(eSeriesValues('E12', 1, 2)).toEqual([1, 1.2, 1.5, 1.8]);
+    expect(parseDesignInput({ ...SPACE, seriesOhms: { eSeries: 'E12', min: 1000, max: 10000 }, target: { thdFPercent: [0, 1] } }).input.seriesOhms).toEqual({ eSeries: 'E12', min: 1000, max: 10000 });
+  });
+
+  it('refuses invalid input with the field path, as EngineInputError', () => {
+    const cases: [unknown, string][] = [
+      [{ ...SPACE, maxPerSide: 0, target: { thdFPercent: [1, 2] } }, 'maxPerSide'],
+      [{ ...SPACE, devices: ['si-small-signal', { is: 1e-9, n: 20 }], target: { thdFPercent: [1, 2] } }, 'devices[1].n'],
+      [{ ...SPACE, devices: ['no-such-device'], target: { thdFPercent: [1, 2] } }, 'devices[0]'],
+      [{ ...SPACE, target: { thdFPercent: [5, 1] } }, 'target.thdFPercent'],
+      [{ ...SPACE, target: {} }, 'target'],
+      [{ ...SPACE, seriesOhms: undefined, target: { thdFPercent: [1, 2] } }, 'seriesOhms'],
+      [{ ...SPACE, seriesOhms: eSeriesValues('E24', 10, 1e7), target: { thdFPercent: [1, 2] } }, 'seriesOhms'],
+      [{ ...SPACE, devices: DEVICE_PRESETS.map((p) => p.id), maxPerSide: 6, seriesOhms: eSeriesValues('E24', 1000, 9100), capacitorFarads: [0, 1e-9, 1e-8], target: { thdFPercent: [1, 2] } }, ''],
+    ];
+    for (const [body, path] of cases) {
+      expect(() => runDesign(body)).toThrow(expect.objectContaining({ name: 'EngineInputError', path }));
+    }
+  });
+
+  it('exits 2 with {error: {message, path}} from the CLI for invalid input and bad JSON', () => {
+    const r = cli('design', 'bad.json', { ...SPACE, devices: ['si-small-signal', { is: 1e-9, n: 20 }], target: { thdFPercent: [1, 2] } });
+    expect(r.status).toBe(2);
+    expect(r.json).toEqual({ error: { message: expect.stringMatching(/n/), path: 'devices[1].n' } });
+    const broken = cli('design', 'broken.json', '{"devices": ');
+    expect(broken.status).toBe(2);
+    expect((broken.json.error as { message: string }).message).toMatch(/not valid JSON/);
+  }, 300_000);
+
+  it('names preset devices by id and keeps their parameters', () => {
+    const r = runDesign({ ...SPACE, devices: ['led-red'], maxPerSide: 1, topologies: ['shunt'], seriesOhms: [1000], target: { thdFPercent: [0, 100] } });
+    const c: DesignCandidate = r.candidates[0];
+    expect(c.clipper.positive).toEqual([findPreset('led-red')!.model]);
+    expect(c.strings.positive).toEqual({ device: 0, name: 'led-red', count: 1 });
+  });
+});
