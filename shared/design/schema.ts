@@ -86,3 +86,51 @@ export const designInputSchema = z.object({
   .refine((d) => !d.topologies.includes('feedback') || d.groundOhms !== undefined, { error: 'groundOhms is required for the feedback topology', path: ['groundOhms'] });
 export type DesignInput = z.infer<typeof designInputSchema>;
 export type DesignInputJson = z.input<typeof designInputSchema>;
+
+const num = (label: string) => z.coerce.number({ error: `Enter ${label} as a number` }).refine(Number.isFinite, `Enter ${label} as a number`);
+const optionalNum = z.union([z.literal('').transform(() => undefined), z.coerce.number().refine(Number.isFinite, 'Enter a number')]).optional();
+
+/**
+ * The screen's form: the target and the search space in the owner's terms; `designInputFromForm` turns
+ * it into a DesignInput for a revision's stage, and the worker validates that with designInputSchema.
+ */
+export const designFormSchema = z.object({
+  thdLo: num('the lowest THD_F').min(0, 'Cannot be negative'),
+  thdHi: num('the highest THD_F').min(0, 'Cannot be negative').max(100, 'At most 100 %'),
+  h2h3Lo: optionalNum,
+  h2h3Hi: optionalNum,
+  v1Lo: optionalNum,
+  v1Hi: optionalNum,
+  space: z.enum(['stocked', 'library']),
+  symmetry: z.enum(['any', 'symmetric', 'asymmetric']),
+  maxPerSide: z.coerce.number().int().min(1, 'At least 1').max(4, 'At most 4 per side on the screen'),
+  shunt: z.boolean(),
+  feedback: z.boolean(),
+  eSeries: z.enum(['E6', 'E12', 'E24']),
+  seriesMin: num('the smallest resistor').positive('Above zero').max(1e7),
+  seriesMax: num('the largest resistor').positive('Above zero').max(1e7),
+  feedbackOhms: num('Rf').positive('Above zero').max(1e9),
+  groundOhms: num('Rg').positive('Above zero').max(1e9),
+})
+  .refine((f) => f.thdLo <= f.thdHi, { error: 'The low end must not exceed the high end', path: ['thdHi'] })
+  .refine((f) => f.seriesMin <= f.seriesMax, { error: 'The smallest must not exceed the largest', path: ['seriesMax'] })
+  .refine((f) => (f.h2h3Lo === undefined) === (f.h2h3Hi === undefined), { error: 'Give both ends or neither', path: ['h2h3Hi'] })
+  .refine((f) => (f.v1Lo === undefined) === (f.v1Hi === undefined), { error: 'Give both ends or neither', path: ['v1Hi'] })
+  .refine((f) => f.shunt || f.feedback, { error: 'Choose at least one topology', path: ['feedback'] });
+export type DesignForm = z.infer<typeof designFormSchema>;
+
+/** The stage a revision gives the search: tone, input level, the gain at the reference drive, the rail. */
+export interface DesignStage { toneHz: number; inputPeakV: number; driveGain: number; railPeakV: number | null; temperatureC: number }
+
+/** A design input from the screen's form, e.g. for the devices in stock, 1…2 per side, E12 1 k…10 k. */
+export function designInputFromForm(f: DesignForm, stage: DesignStage, devices: { name: string; is: number; n: number; rs: number; eg?: number; xti?: number }[]): DesignInputJson {
+  const pair = (lo?: number, hi?: number): [number, number] | undefined => (lo === undefined || hi === undefined ? undefined : [lo, hi]);
+  return {
+    ...stage, harmonics: 10, devices, maxPerSide: f.maxPerSide, symmetry: f.symmetry,
+    topologies: [...(f.shunt ? ['shunt' as const] : []), ...(f.feedback ? ['feedback' as const] : [])],
+    seriesOhms: { eSeries: f.eSeries, min: f.seriesMin, max: f.seriesMax },
+    feedbackOhms: f.feedbackOhms, groundOhms: f.groundOhms,
+    target: { thdFPercent: [f.thdLo, f.thdHi], h2MinusH3Db: pair(f.h2h3Lo, f.h2h3Hi), fundamentalPeakV: pair(f.v1Lo, f.v1Hi) },
+    limit: 10,
+  };
+}

@@ -16,6 +16,7 @@ export const paths = {
   catalogModels: '/catalog/models',
   catalogModel: '/catalog/models/:id',
   catalogCompare: '/catalog/models/:id/compare',
+  catalogDesign: '/catalog/models/:id/design',
   catalogOption: '/catalog/models/:modelId/options/:optionId',
   catalogRevision: '/catalog/revisions/:id',
   shopModel: '/shop/:modelId',
@@ -32,6 +33,7 @@ export const paths = {
 } as const;
 
 export const shopModelPath = (modelId: number) => `/shop/${modelId}`;
+export const designPath = (modelId: number) => `/catalog/models/${modelId}/design`;
 export const orderPath = (orderId: number) => `/orders/${orderId}`;
 
 export interface NavItem {

@@ -38,6 +38,7 @@ export const router = createBrowserRouter([
       { path: paths.catalogModels, lazy: page(() => import('../features/catalog/ModelsPage')) },
       { path: paths.catalogModel, lazy: page(() => import('../features/catalog/ModelPage')) },
       { path: paths.catalogCompare, lazy: page(() => import('../features/catalog/ComparePage')) },
+      { path: paths.catalogDesign, lazy: page(() => import('../features/catalog/DesignPage')) },
       { path: paths.catalogOption, lazy: page(() => import('../features/catalog/OptionPage')) },
       { path: paths.catalogRevision, lazy: page(() => import('../features/catalog/RevisionPage')) },
       { path: paths.myOrders, lazy: page(() => import('../features/orders/MyOrdersPage')) },

@@ -8,6 +8,7 @@ import { Button } from '../../components/ui/Button';
 import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
 import { TextField } from '../../components/ui/TextField';
+import { designPath } from '../../lib/navigation';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
 import { useFormatters } from '../../lib/format';
@@ -110,6 +111,7 @@ export default function ModelPage() {
       <PageHeader title={m.name}>
         <Link to="/catalog/models" className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">All pedal models</Link>
         {m.options.length >= 2 ? <Link to={`/catalog/models/${id}/compare`} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Compare options</Link> : null}
+        {canEdit && m.activeRevision ? <Link to={designPath(id)} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Design an option</Link> : null}
       </PageHeader>
       <div className="flex flex-col gap-8">
         {m.cost ? <Notice>Active revision {m.activeRevision?.number}: parts {money(m.cost.partsCents)} + labour {m.cost.labourMinutes} min at {money(m.labourCentsPerHour)}/h = {money(m.cost.labourCents)} → {money(m.cost.totalCents)} before the clipping devices.</Notice> : null}

@@ -1,0 +1,162 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useRef, useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { Link, useNavigate, useParams } from 'react-router';
+import { engineDriveStage } from '../../../shared/catalog/circuit';
+import { designFormSchema, designInputFromForm, type DesignForm } from '../../../shared/design/schema';
+import { gainAtDrive } from '../../../shared/engine/index';
+import { SpectrumBars, ThdDriveChart } from '../../components/charts';
+import { Button } from '../../components/ui/Button';
+import { TextField } from '../../components/ui/TextField';
+import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
+import { useCreateOption, useDevices, useModel, type Device } from './api';
+import type { DesignedCandidate, DesignRequest, DesignResponse } from './design-messages';
+import { dbc, percent } from './units';
+
+const DEFAULTS = {
+  thdLo: 5, thdHi: 15, space: 'stocked', symmetry: 'any', maxPerSide: 2, shunt: true, feedback: true,
+  eSeries: 'E6', seriesMin: 1000, seriesMax: 10000, feedbackOhms: 100000, groundOhms: 4700,
+} as unknown as DesignForm;
+
+type Done = Extract<DesignResponse, { kind: 'done' }>;
+
+/** The search in a Web Worker: progress, cancel, and the shortlist when it ends. */
+function useDesignWorker() {
+  const worker = useRef<Worker | null>(null);
+  const current = useRef(0);
+  const [progress, setProgress] = useState<{ done: number; total: number } | null>(null);
+  const [result, setResult] = useState<Done | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  useEffect(() => {
+    const w = new Worker(new URL('./design.worker.ts', import.meta.url), { type: 'module' });
+    w.onmessage = (e: MessageEvent<DesignResponse>) => {
+      const r = e.data;
+      if (r.id !== current.current) return;
+      if (r.kind === 'progress') setProgress({ done: r.done, total: r.total });
+      else if (r.kind === 'done') { setResult(r); setProgress(null); } else { setError(r.path ? `${r.path}: ${r.message}` : r.message); setProgress(null); }
+    };
+    worker.current = w;
+    return () => w.terminate();
+  }, []);
+  const run = (input: unknown, drive: unknown) => {
+    current.current += 1;
+    setResult(null); setError(null); setProgress({ done: 0, total: 0 });
+    worker.current?.postMessage({ id: current.current, kind: 'run', input, drive } satisfies DesignRequest);
+  };
+  const cancel = () => worker.current?.postMessage({ id: current.current, kind: 'cancel' } satisfies DesignRequest);
+  return { run, cancel, progress, result, error };
+}
+
+const side = (s: DesignedCandidate['strings']['positive']) => (s ? `${s.count}× ${s.name}` : '—');
+
+/** Owner: state the sound and the limits; every candidate in the space is computed and the nearest ten shown. */
+export default function DesignPage() {
+  const id = Number(useParams().id);
+  const model = useModel(id);
+  const devices = useDevices();
+  const search = useDesignWorker();
+  const create = useCreateOption(id);
+  const navigate = useNavigate();
+  const form = useForm<DesignForm>({ resolver: zodResolver(designFormSchema) as never, defaultValues: DEFAULTS });
+  const [space, setSpace] = useState<Device[]>([]);
+  if (model.isPending || devices.isPending) return <Loading />;
+  if (model.isError) return <ErrorState error={model.error} retry={() => model.refetch()} />;
+  if (devices.isError) return <ErrorState error={devices.error} retry={() => devices.refetch()} />;
+  const rev = model.data.activeRevision;
+  if (!rev) return <Notice tone="alarm">This model has no active revision to design for.</Notice>;
+  const drive = engineDriveStage(rev.drive);
+  const stage = { toneHz: 1000, inputPeakV: drive.inputPeakV, driveGain: gainAtDrive(drive, rev.drive.referenceDrive), railPeakV: drive.railPeakV, temperatureC: 27 };
+  const errors = form.formState.errors;
+  const onSubmit = form.handleSubmit((f) => {
+    const chosen = f.space === 'stocked' ? devices.data.filter((d) => (d.available ?? 0) > 0) : devices.data;
+    setSpace(chosen);
+    search.run(designInputFromForm(f, stage, chosen.map((d) => ({ name: d.name, is: d.is, n: d.n, rs: d.rs, eg: d.eg, xti: d.xti }))), drive);
+  });
+  const createFrom = async (c: DesignedCandidate, rank: number) => {
+    const ids = (s: DesignedCandidate['strings']['positive']) => (s ? Array.from({ length: s.count }, () => space[s.device].deviceId) : []);
+    const topology = c.clipper.topology === 'feedback' ? 'feedback' : 'shunt';
+    const network = topology === 'shunt' ? { seriesOhms: c.clipper.seriesOhms } : { feedbackOhms: c.clipper.feedbackOhms, groundOhms: c.clipper.groundOhms };
+    const code = `D${Date.now().toString(36).slice(-5).toUpperCase()}`;
+    const r = await create.mutateAsync({
+      code, name: `Designed ${rank}: ${side(c.strings.positive)} / ${side(c.strings.negative)}`,
+      description: `Found by the option designer at THD_F ${percent(c.at.thdF)} (distance ${c.distance.toFixed(3)}).`,
+      topology, network, positive: ids(c.strings.positive), negative: ids(c.strings.negative), surchargeCents: 0, published: false,
+    });
+    void navigate(`/catalog/models/${id}/options/${r.optionId}`);
+  };
+  const p = search.progress;
+  return (
+    <>
+      <PageHeader title={`Design an option — ${model.data.name}`}>
+        <Link to={`/catalog/models/${id}`} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Back to {model.data.name}</Link>
+      </PageHeader>
+      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range.</p>
+      <form onSubmit={onSubmit} noValidate className="grid gap-4 rounded-lg bg-white p-4 shadow-sm md:grid-cols-4">
+        <TextField label="THD_F from (%)" inputMode="decimal" error={errors.thdLo?.message} {...form.register('thdLo')} />
+        <TextField label="THD_F to (%)" inputMode="decimal" error={errors.thdHi?.message} {...form.register('thdHi')} />
+        <TextField label="H2 − H3 from (dB)" hint="optional; positive = even-dominant" inputMode="decimal" error={errors.h2h3Lo?.message} {...form.register('h2h3Lo')} />
+        <TextField label="H2 − H3 to (dB)" inputMode="decimal" error={errors.h2h3Hi?.message} {...form.register('h2h3Hi')} />
+        <TextField label="Output fundamental from (V peak)" hint="optional" inputMode="decimal" error={errors.v1Lo?.message} {...form.register('v1Lo')} />
+        <TextField label="Output fundamental to (V peak)" inputMode="decimal" error={errors.v1Hi?.message} {...form.register('v1Hi')} />
+        <label className="flex flex-col gap-1 font-semibold">Devices
+          <select className="min-h-11 rounded-md border px-2" {...form.register('space')}><option value="stocked">In stock</option><option value="library">Whole library</option></select></label>
+        <label className="flex flex-col gap-1 font-semibold">Symmetry
+          <select className="min-h-11 rounded-md border px-2" {...form.register('symmetry')}><option value="any">Either</option><option value="symmetric">Symmetric</option><option value="asymmetric">Asymmetric</option></select></label>
+        <TextField label="Devices in series per side, up to" inputMode="numeric" error={errors.maxPerSide?.message} {...form.register('maxPerSide')} />
+        <label className="flex flex-col gap-1 font-semibold">Resistor series
+          <select className="min-h-11 rounded-md border px-2" {...form.register('eSeries')}><option>E6</option><option>E12</option><option>E24</option></select></label>
+        <TextField label="Series resistor from (Ω)" inputMode="decimal" error={errors.seriesMin?.message} {...form.register('seriesMin')} />
+        <TextField label="Series resistor to (Ω)" inputMode="decimal" error={errors.seriesMax?.message} {...form.register('seriesMax')} />
+        <TextField label="Feedback Rf (Ω)" inputMode="decimal" error={errors.feedbackOhms?.message} {...form.register('feedbackOhms')} />
+        <TextField label="Feedback Rg (Ω)" inputMode="decimal" error={errors.groundOhms?.message} {...form.register('groundOhms')} />
+        <fieldset className="flex items-center gap-4"><legend className="font-semibold">Topologies</legend>
+          <label className="flex min-h-11 items-center gap-2"><input type="checkbox" className="size-6" {...form.register('shunt')} /> Shunt</label>
+          <label className="flex min-h-11 items-center gap-2"><input type="checkbox" className="size-6" {...form.register('feedback')} /> Feedback</label>
+          {errors.feedback ? <span className="text-sm font-semibold text-alarm-700">{errors.feedback.message}</span> : null}
+        </fieldset>
+        <div className="flex items-end gap-2">
+          <Button type="submit" disabled={p !== null}>Search</Button>
+          {p ? <Button type="button" variant="secondary" onClick={search.cancel}>Cancel</Button> : null}
+        </div>
+      </form>
+      {p ? (
+        <div className="mt-4 flex items-center gap-4">
+          <progress aria-label="Candidates computed" className="h-4 flex-1" max={p.total || 1} value={p.done} />
+          <span className="font-mono">{p.done} / {p.total || '…'}</span>
+        </div>
+      ) : null}
+      {search.error ? <Notice tone="alarm">{search.error}</Notice> : null}
+      {search.result ? <Results result={search.result} onCreate={createFrom} busy={create.isPending} /> : null}
+    </>
+  );
+}
+
+function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => Promise<void>; busy: boolean }) {
+  const top = result.candidates;
+  return (
+    <section className="mt-6 flex flex-col gap-4" aria-label="Design results">
+      <Notice tone={top[0]?.distance === 0 ? 'good' : 'info'}>
+        {result.cancelled ? 'Cancelled: ' : ''}{result.searched} of {result.total} candidates computed ({result.msPerCandidate.toFixed(2)} ms each).
+        {top[0] && top[0].distance > 0 ? ' None meets every range; the nearest are shown.' : ''}
+      </Notice>
+      <div className="grid gap-4 lg:grid-cols-2">
+        <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} />
+        <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} />
+      </div>
+      <table className="w-full rounded-lg bg-white text-left shadow-sm">
+        <caption className="p-2 text-left font-semibold text-spruce-900">The nearest ten</caption>
+        <thead className="bg-spruce-100"><tr><th className="p-2">#</th><th className="p-2">Circuit</th><th className="p-2">Positive</th><th className="p-2">Negative</th><th className="p-2">THD_F</th><th className="p-2">H2</th><th className="p-2">H3</th><th className="p-2">Out (V pk)</th><th className="p-2">Distance</th><th className="p-2" /></tr></thead>
+        <tbody>{top.map((c, i) => (
+          <tr key={i} className="border-t">
+            <td className="p-2">{i + 1}</td>
+            <td className="p-2">{c.clipper.topology === 'shunt' ? `shunt, ${c.clipper.seriesOhms} Ω` : 'feedback'}</td>
+            <td className="p-2">{side(c.strings.positive)}</td><td className="p-2">{side(c.strings.negative)}</td>
+            <td className="p-2 font-mono">{percent(c.at.thdF)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[1].dbc)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[2].dbc)}</td>
+            <td className="p-2 font-mono">{c.at.fundamentalPeakV.toFixed(2)}</td><td className="p-2 font-mono">{c.distance.toFixed(3)}</td>
+            <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => void onCreate(c, i + 1)}>Create option from this</Button></td>
+          </tr>
+        ))}</tbody>
+      </table>
+    </section>
+  );
+}
