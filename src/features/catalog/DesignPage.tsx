@@ -98,13 +98,13 @@ export default function DesignPage() {
         <TextField label="H2 − H3 to (dB)" inputMode="decimal" error={errors.h2h3Hi?.message} {...form.register('h2h3Hi')} />
         <TextField label="Output fundamental from (V peak)" hint="optional" inputMode="decimal" error={errors.v1Lo?.message} {...form.register('v1Lo')} />
         <TextField label="Output fundamental to (V peak)" inputMode="decimal" error={errors.v1Hi?.message} {...form.register('v1Hi')} />
-        <label className="flex flex-col gap-1 font-semibold">Devices
-          <select className="min-h-11 rounded-md border px-2" {...form.register('space')}><option value="stocked">In stock</option><option value="library">Whole library</option></select></label>
-        <label className="flex flex-col gap-1 font-semibold">Symmetry
-          <select className="min-h-11 rounded-md border px-2" {...form.register('symmetry')}><option value="any">Either</option><option value="symmetric">Symmetric</option><option value="asymmetric">Asymmetric</option></select></label>
+        <div className="flex flex-col gap-1"><label htmlFor="design-space" className="font-semibold">Devices</label>
+          <select id="design-space" className="min-h-11 rounded-md border px-2" {...form.register('space')}><option value="stocked">In stock</option><option value="library">Whole library</option></select></div>
+        <div className="flex flex-col gap-1"><label htmlFor="design-symmetry" className="font-semibold">Symmetry</label>
+          <select id="design-symmetry" className="min-h-11 rounded-md border px-2" {...form.register('symmetry')}><option value="any">Either</option><option value="symmetric">Symmetric</option><option value="asymmetric">Asymmetric</option></select></div>
         <TextField label="Devices in series per side, up to" inputMode="numeric" error={errors.maxPerSide?.message} {...form.register('maxPerSide')} />
-        <label className="flex flex-col gap-1 font-semibold">Resistor series
-          <select className="min-h-11 rounded-md border px-2" {...form.register('eSeries')}><option>E6</option><option>E12</option><option>E24</option></select></label>
+        <div className="flex flex-col gap-1"><label htmlFor="design-eSeries" className="font-semibold">Resistor series</label>
+          <select id="design-eSeries" className="min-h-11 rounded-md border px-2" {...form.register('eSeries')}><option>E6</option><option>E12</option><option>E24</option></select></div>
         <TextField label="Series resistor from (Ω)" inputMode="decimal" error={errors.seriesMin?.message} {...form.register('seriesMin')} />
         <TextField label="Series resistor to (Ω)" inputMode="decimal" error={errors.seriesMax?.message} {...form.register('seriesMax')} />
         <TextField label="Feedback Rf (Ω)" inputMode="decimal" error={errors.feedbackOhms?.message} {...form.register('feedbackOhms')} />

@@ -1,0 +1,72 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, Page } from 'playwright-core';
+import path from 'node:path';
+import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
+import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+
+const t = startTestApp();
+let browser: Browser;
+let server: Awaited<ReturnType<typeof listen>>;
+
+beforeAll(async () => {
+  server = await listen(t.app);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+  await t.stop();
+});
+
+async function signIn(page: Page, email: string) {
+  await page.goto(`${server.url}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL('**/board');
+}
+
+describe('the option designer in a browser', () => {
+  it('the owner runs a small search, cancels a large one, and creates an option from a candidate', async () => {
+    const page = await browser.newPage({ viewport: { width: 1366, height: 1100 } });
+    await signIn(page, DEMO.owner);
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Pedal models' }).click();
+    await page.getByRole('table', { name: 'Pedal models' }).getByRole('link', { name: 'Saltmarsh Drive' }).click();
+    await page.getByRole('link', { name: 'Design an option' }).click();
+    await page.getByRole('heading', { name: /Design an option/ }).waitFor();
+
+    // A large search (whole library, 4 per side) is cancelled from its progress bar.
+    await page.getByLabel('Devices', { exact: true }).selectOption('library');
+    await page.getByLabel('Devices in series per side, up to').fill('4');
+    await page.getByRole('button', { name: 'Search' }).click();
+    await page.getByRole('progressbar', { name: 'Candidates computed' }).waitFor();
+    await page.getByRole('button', { name: 'Cancel' }).click();
+    await page.getByText(/^Cancelled: \d+ of \d+ candidates computed/).waitFor({ timeout: 30_000 });
+
+    // A small one runs to the end: stocked devices, one per side, shunt at three E6 values.
+    await page.getByLabel('Devices', { exact: true }).selectOption('stocked');
+    await page.getByLabel('Devices in series per side, up to').fill('1');
+    await page.getByLabel('Feedback', { exact: true }).uncheck();
+    await page.getByLabel('Series resistor from (Ω)').fill('2200');
+    await page.getByLabel('Series resistor to (Ω)').fill('4700');
+    await page.getByLabel('THD_F from (%)').fill('0');
+    await page.getByLabel('THD_F to (%)').fill('100');
+    await page.getByRole('button', { name: 'Search' }).click();
+    const results = page.getByRole('region', { name: 'Design results' });
+    await results.waitFor({ timeout: 60_000 });
+    const summary = await results.getByText(/candidates computed/).textContent();
+    const [, searched, total] = /(\d+) of (\d+) candidates/.exec(summary ?? '') ?? [];
+    expect(Number(searched)).toBe(Number(total));
+    // (stocked devices)² pairs × 3 resistors (2200, 3300, 4700).
+    expect(Math.sqrt(Number(total) / 3) % 1).toBe(0);
+    const rows = results.getByRole('table', { name: 'The nearest ten' }).getByRole('row');
+    expect(await rows.count()).toBe(1 + Math.min(10, Number(total)));
+    await expect(rows.nth(1).getByRole('cell').nth(8).textContent()).resolves.toBe('0.000');
+    await page.screenshot({ path: path.join(SCREENSHOTS, 'designer.png'), fullPage: true });
+
+    await rows.nth(1).getByRole('button', { name: 'Create option from this' }).click();
+    await page.waitForURL(/\/catalog\/models\/\d+\/options\/\d+$/);
+    await page.getByRole('heading', { name: /Designed 1: 1× .+ \/ 1× / }).waitFor();
+    await page.close();
+  });
+});
