@@ -333,7 +333,7 @@ function bench(script) {
     const bin = ensurePostgresInstalled();
     ensureCluster(bin);
     startPostgres(bin);
-    if (needsDemo) env = { ...prepare('kneepoint_bench_demo', false).env, SESSION_SECRET: 'bench-secret-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
+    if (needsDemo) env = { ...prepare('kneepoint_bench_demo', false).env, SESSION_SECRET: 'test-secret-bench-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
     if (needsLarge) env.BENCH_DATABASE_URL = ensureDatabase(bin, bigName, { recreate: false });
     if (!isDataset && wants('client') && !run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
     stop = () => {

@@ -88,7 +88,7 @@ async function runApiBench() {
   const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
   await knex.destroy();
 
-  const env = { ...process.env, DATABASE_URL: url, NODE_ENV: 'production', SESSION_SECRET: 'bench-session-secret-not-for-use', PORT: '0' };
+  const env = { ...process.env, DATABASE_URL: url, NODE_ENV: 'production', SESSION_SECRET: 'test-secret-bench-session', PORT: '0' };
   const app = await startServer('app', env);
   const baseline = await startServer('baseline', env);
   try {

@@ -55,7 +55,7 @@ export const jobsSection: BenchSection = {
       console.log('skipped: set DATABASE_URL to a migrated, seeded database (e.g. kneepoint_test)');
       return;
     }
-    const env = { NODE_ENV: 'test', SESSION_SECRET: 'bench-secret-not-for-production', ...process.env };
+    const env = { NODE_ENV: 'test', SESSION_SECRET: 'test-secret-bench-not-for-production', ...process.env };
     const config = loadConfig(env);
     const knex = createKnex(config.DATABASE_URL, 4);
     try {

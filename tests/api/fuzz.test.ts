@@ -60,8 +60,8 @@ const agents = new Map<string, TestAgent>();
 
 beforeAll(async () => {
   mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
-  payments = await startPaymentsFake({ port: 0, webhookSecret: 'whsec_fuzz_only' });
-  t = startTestApp({ MAIL_INBOX_URL: mail.httpUrl, PAYMENTS_PORT: String(payments.port), PAYMENTS_WEBHOOK_SECRET: 'whsec_fuzz_only' });
+  payments = await startPaymentsFake({ port: 0, webhookSecret: 'whsec_kneepoint_fuzz' });
+  t = startTestApp({ MAIL_INBOX_URL: mail.httpUrl, PAYMENTS_PORT: String(payments.port), PAYMENTS_WEBHOOK_SECRET: 'whsec_kneepoint_fuzz' });
   server = await listen(t.app);
   agents.set('anonymous', await anonymousAgent(server.url));
   // Signing out ends a session: the logout route gets an agent of its own.
