@@ -1,4 +1,5 @@
 import PgBoss from 'pg-boss';
+import pg from 'pg';
 import type { Config } from '../config';
 import { listenForWakes } from './wake';
 
@@ -86,6 +87,21 @@ function startLoop(def: JobDefinition, boss: PgBoss, signal: AbortSignal) {
   };
 }
 
+/** The advisory lock key that queue setup holds (any constant unique to this use). */
+const QUEUE_SETUP_LOCK = 7_402_001;
+
+/** Runs `fn` while holding a PostgreSQL advisory lock on a connection of its own: one process at a time. */
+async function oneAtATime(databaseUrl: string, fn: () => Promise<void>) {
+  const client = new pg.Client({ connectionString: databaseUrl });
+  await client.connect();
+  try {
+    await client.query('SELECT pg_advisory_lock($1)', [QUEUE_SETUP_LOCK]);
+    await fn();
+  } finally {
+    await client.end().catch(() => {});
+  }
+}
+
 /**
  * Starts pg-boss on the product's PostgreSQL (schema `pgboss`), creates each queue, registers its
  * worker and schedule, and starts each loop with a listener that wakes it. Jobs live in the
@@ -96,26 +112,35 @@ export async function startJobs(config: Config, definitions: JobDefinition[]) {
   const controller = new AbortController();
   await boss.start();
   const loops = new Map<string, ReturnType<typeof startLoop>>();
+  // Creating queues attaches partitions and foreign keys in pg-boss's schema: two workers starting at
+  // once deadlock there, so each process sets its queues up alone.
+  await oneAtATime(config.DATABASE_URL, async () => {
+    for (const def of definitions) {
+      if (def.loop) {
+        // An older version ran this as a queue: drop its schedule so its cron ticks stop piling up.
+        if (await boss.getQueue(def.name)) {
+          await boss.unschedule(def.name);
+          await boss.deleteQueue(def.name);
+        }
+        continue;
+      }
+      const queue = {
+        name: def.name, policy: def.policy ?? 'standard', retryLimit: def.retryLimit ?? 3, retryBackoff: true,
+        expireInSeconds: def.expireInSeconds ?? DEFAULT_EXPIRE_SECONDS,
+      };
+      // createQueue leaves an existing queue as it was: update it so a changed expiry applies.
+      if (await boss.getQueue(def.name)) await boss.updateQueue(def.name, queue);
+      else await boss.createQueue(def.name, queue);
+      if (def.cron) await boss.schedule(def.name, def.cron);
+    }
+  });
   for (const def of definitions) {
     if (def.loop) {
-      // An older version ran this as a queue: drop its schedule so its cron ticks stop piling up.
-      if (await boss.getQueue(def.name)) {
-        await boss.unschedule(def.name);
-        await boss.deleteQueue(def.name);
-      }
       loops.set(def.name, startLoop(def, boss, controller.signal));
       continue;
     }
-    const queue = {
-      name: def.name, policy: def.policy ?? 'standard', retryLimit: def.retryLimit ?? 3, retryBackoff: true,
-      expireInSeconds: def.expireInSeconds ?? DEFAULT_EXPIRE_SECONDS,
-    };
-    // createQueue leaves an existing queue as it was: update it so a changed expiry applies.
-    if (await boss.getQueue(def.name)) await boss.updateQueue(def.name, queue);
-    else await boss.createQueue(def.name, queue);
     await boss.work(def.name, { pollingIntervalSeconds: def.pollingIntervalSeconds ?? 2, batchSize: 1 }, async ([job]) =>
       def.handler(boss, { data: job?.data ?? null, signal: controller.signal }));
-    if (def.cron) await boss.schedule(def.name, def.cron);
   }
   const listener = loops.size > 0 ? await listenForWakes(config.DATABASE_URL, (name) => loops.get(name)?.wake()) : null;
   let stopped: Promise<void> | null = null;

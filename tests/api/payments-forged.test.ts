@@ -1,21 +1,12 @@
 // Forged and stale webhooks: nothing a third party can sign or replay changes an order.
-import { beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { signPayload } from '../../server/fakes/payments/index';
-import { DEMO, signedInAgent, type TestAgent } from '../support/app';
 import { secretsInRepository } from '../support/repo-secrets';
-import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { eventually, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { placeOrder } from './orders-fixtures';
+import { eventually, payWith, usePaymentsShop, WEBHOOK_SECRET } from './payments-setup';
 
-const env = usePaymentsApp();
-let pedal: PedalFixture;
-let customer: TestAgent;
-
-beforeAll(async () => {
-  pedal = await insertPedal(env.t.knex);
-  customer = await signedInAgent(env.t.app, DEMO.customer);
-});
-
-const orderRow = (id: number) => env.t.knex('orders').where({ id }).first();
+const env = usePaymentsShop();
+const { orderRow } = env;
 const post = (body: string, signature: string) =>
   fetch(`${env.url}/api/payments/webhook`, { method: 'POST', headers: { 'content-type': 'application/json', 'stripe-signature': signature }, body });
 const now = () => Math.floor(Date.now() / 1000);
@@ -33,8 +24,8 @@ async function footprint(orderId: number, eventIds: string[]) {
 }
 
 async function paidOrder() {
-  const { order } = await placeOrder(customer, pedal, 1, 'led');
-  const res = await customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
+  const { order } = await placeOrder(env.customer, env.pedal, 1, 'led');
+  const res = await env.customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(200);
   await payWith(env.fake, (res.body.url as string).split('/pay/')[1], 'succeeds');
   await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
   // Let the provider's own deliveries settle, so the footprint below is stable.
@@ -46,7 +37,7 @@ describe('forged events', () => {
   it('signed with every secret-like value in the repository, mark nothing paid or refunded', async () => {
     const secrets = secretsInRepository();
     expect(secrets.length).toBeGreaterThan(5);
-    const { order: unpaid } = await placeOrder(customer, pedal);
+    const { order: unpaid } = await placeOrder(env.customer, env.pedal);
     const paid = await paidOrder();
     const paidRow = await orderRow(paid.id);
     const completed = (secret: string, i: number) => ({
@@ -84,7 +75,7 @@ describe('forged events', () => {
 
 describe('signature timestamps', () => {
   it('are accepted within five minutes either way and refused beyond, past or future, with nothing written', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const event = (suffix: string) => ({ id: `evt_clock_${order.id}_${suffix}`, object: 'event', type: 'checkout.session.expired', created: now(), data: { object: { id: `cs_clock_${order.id}`, object: 'checkout.session', metadata: { order_id: String(order.id) } } } });
     const attempt = async (suffix: string, offsetSeconds: number) => {
       const body = JSON.stringify(event(suffix));

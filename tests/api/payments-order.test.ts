@@ -1,22 +1,14 @@
 // Provider events in every order of delivery, delivered more than once, end in the right state.
-import { beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { signPayload } from '../../server/fakes/payments/index';
 import { cancelOrder } from '../../server/services/payments/cancel';
 import { createPaymentsClient } from '../../server/services/payments/client';
-import { DEMO, signedInAgent, type TestAgent } from '../support/app';
-import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { API_KEY, eventually, fakeEvents, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { DEMO } from '../support/app';
+import { placeOrder } from './orders-fixtures';
+import { API_KEY, eventually, fakeEvents, payWith, usePaymentsShop, WEBHOOK_SECRET } from './payments-setup';
 
-const env = usePaymentsApp();
-let pedal: PedalFixture;
-let customer: TestAgent;
-
-beforeAll(async () => {
-  pedal = await insertPedal(env.t.knex);
-  customer = await signedInAgent(env.t.app, DEMO.customer);
-});
-
-const orderRow = (id: number) => env.t.knex('orders').where({ id }).first();
+const env = usePaymentsShop();
+const { orderRow } = env;
 type FakeEvent = Awaited<ReturnType<typeof fakeEvents>>[number]['event'];
 
 async function deliver(event: FakeEvent) {
@@ -43,8 +35,8 @@ async function held(orderId: number, sessionId: string, act: () => Promise<void>
 }
 
 async function startPaying() {
-  const { order } = await placeOrder(customer, pedal);
-  const res = await customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
+  const { order } = await placeOrder(env.customer, env.pedal);
+  const res = await env.customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(200);
   return { order, sessionId: (res.body.url as string).split('/pay/')[1] };
 }
 
@@ -128,7 +120,7 @@ describe('a customer’s cancellation of a paid order', () => {
     const { order, sessionId } = await startPaying();
     await payWith(env.fake, sessionId, 'succeeds');
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
-    const click = () => customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({ reason: 'Two clicks' });
+    const click = () => env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({ reason: 'Two clicks' });
     const [a, b] = await Promise.all([click(), click()]);
     // Both answer in words: one refunds, the other either sees it refunded (409) or shares the same request.
     for (const res of [a, b]) expect([200, 409]).toContain(res.status);

@@ -4,7 +4,8 @@ import { randomBytes } from 'node:crypto';
 import { afterAll, beforeAll } from 'vitest';
 import { startPaymentsFake, type PayChoice, type PaymentsFake } from '../../server/fakes/payments/index';
 import { listen } from '../support/browser';
-import { startTestApp } from '../support/app';
+import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+import { insertPedal, type PedalFixture } from './orders-fixtures';
 
 // Made per test run, like an install's own: no value written in the repository signs a webhook here.
 export const WEBHOOK_SECRET = `whsec_${randomBytes(24).toString('hex')}`;
@@ -31,6 +32,36 @@ export function usePaymentsApp(extraEnv: () => Record<string, string> = () => ({
     await server?.close();
     await env.t?.stop();
   });
+  return env;
+}
+
+/** The columns of an order row these tests read. */
+export interface OrderRow {
+  id: number;
+  number: string;
+  customer_id: number;
+  state: string;
+  payment_intent_id: string | null;
+  last_payment_error: string | null;
+  [column: string]: unknown;
+}
+
+export interface PaymentsShop extends PaymentsEnv {
+  /** A pedal of its own with clipping options, made before the tests. */
+  pedal: PedalFixture;
+  /** The demo customer, signed in. */
+  customer: TestAgent;
+  orderRow: (id: number) => Promise<OrderRow>;
+}
+
+/** The payments app plus what every ordering test starts from: a pedal to order and a signed-in customer. */
+export function usePaymentsShop(extraEnv?: () => Record<string, string>): PaymentsShop {
+  const env = usePaymentsApp(extraEnv) as PaymentsShop;
+  beforeAll(async () => {
+    env.pedal = await insertPedal(env.t.knex);
+    env.customer = await signedInAgent(env.t.app, DEMO.customer);
+  });
+  env.orderRow = async (id) => (await env.t.knex('orders').where({ id }).first()) as OrderRow;
   return env;
 }
 

@@ -1,28 +1,20 @@
-import { describe, expect, it, beforeAll } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { signPayload } from '../../server/fakes/payments/index';
-import { DEMO, signedInAgent, type TestAgent } from '../support/app';
-import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { eventually, fakeEvents, payWith, usePaymentsApp, WEBHOOK_SECRET } from './payments-setup';
+import { DEMO } from '../support/app';
+import { placeOrder } from './orders-fixtures';
+import { eventually, fakeEvents, payWith, usePaymentsShop, WEBHOOK_SECRET } from './payments-setup';
 
-const env = usePaymentsApp();
-let pedal: PedalFixture;
-let customer: TestAgent;
-
-beforeAll(async () => {
-  pedal = await insertPedal(env.t.knex);
-  customer = await signedInAgent(env.t.app, DEMO.customer);
-});
-
-const orderRow = (id: number) => env.t.knex('orders').where({ id }).first();
+const env = usePaymentsShop();
+const { orderRow } = env;
 const sessionIdOf = (url: string) => url.split('/pay/')[1];
 
 async function checkout(orderId: number) {
-  const res = await customer.post(`/api/orders/${orderId}/checkout`).set('X-CSRF-Token', customer.csrf).send({ totalCents: 1 }).expect(200);
+  const res = await env.customer.post(`/api/orders/${orderId}/checkout`).set('X-CSRF-Token', env.customer.csrf).send({ totalCents: 1 }).expect(200);
   return sessionIdOf(res.body.url as string);
 }
 
 async function paidOrder() {
-  const { order } = await placeOrder(customer, pedal, 1, 'led');
+  const { order } = await placeOrder(env.customer, env.pedal, 1, 'led');
   await payWith(env.fake, await checkout(order.id), 'succeeds');
   await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
   return order;
@@ -34,7 +26,7 @@ function post(body: string, signature: string) {
 
 describe('checkout through the payments SDK', () => {
   it('opens a session for exactly the order’s stored total, reuses it while open, and pays the order once', async () => {
-    const { order } = await placeOrder(customer, pedal, 2, 'led');
+    const { order } = await placeOrder(env.customer, env.pedal, 2, 'led');
     const sessionId = await checkout(order.id);
     expect(await checkout(order.id)).toBe(sessionId);
     const session = await (fetch(`${env.fake.url}/v1/checkout/sessions/${sessionId}?expand[]=line_items`, { headers: { authorization: `Bearer ${env.t.config.PAYMENTS_API_KEY}` } }).then((r) => r.json()));
@@ -54,18 +46,18 @@ describe('checkout through the payments SDK', () => {
     const mail = await env.t.knex('outbox').where({ template: 'order-received' }).andWhere('dedupe_key', `order-received:${order.id}`);
     expect(mail).toHaveLength(1);
     expect(mail[0].to_address).toBe(DEMO.customer);
-    await customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', customer.csrf).send({}).expect(409);
+    await env.customer.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(409);
   });
 
   it('keeps a declined order awaiting payment with the reason, then lets the customer pay', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
     expect((await payWith(env.fake, sessionId, 'declined')).outcome).toBe('declined');
-    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error && r; }, 'failure recorded');
+    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error ? r : null; }, 'failure recorded');
     expect(row.state).toBe('awaiting_payment');
     expect(row.last_payment_error).toMatch(/declined/);
     expect(await env.t.knex('outbox').where({ template: 'payment-failed', to_address: DEMO.customer }).andWhereLike('dedupe_key', 'payment-failed:evt_%')).not.toHaveLength(0);
-    const detail = await customer.get(`/api/orders/${order.id}`).expect(200);
+    const detail = await env.customer.get(`/api/orders/${order.id}`).expect(200);
     expect(detail.body.order.lastPaymentError).toMatch(/declined/);
 
     await payWith(env.fake, sessionId, 'succeeds');
@@ -76,7 +68,7 @@ describe('checkout through the payments SDK', () => {
 
 describe('the webhook endpoint', () => {
   it('refuses a tampered body or a wrong or stale signature with 400 and changes nothing', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const event = { id: `evt_forged_${order.id}`, object: 'event', type: 'payment_intent.succeeded', data: { object: { id: 'pi_forged', object: 'payment_intent', metadata: { order_id: String(order.id) } } } };
     const body = JSON.stringify(event);
     const tampered = body.replace('pi_forged', 'pi_forged2');
@@ -121,7 +113,7 @@ describe('the webhook endpoint', () => {
   });
 
   it('pays an order when the session-completed event arrives before the intent event', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
     env.fake.setWebhookUrl(null); // hold deliveries, then hand them over in reverse
     try {
@@ -145,7 +137,7 @@ describe('the webhook endpoint', () => {
 describe('cancelling', () => {
   it('refunds a paid order through the SDK, once, and mails the customer', async () => {
     const order = await paidOrder();
-    const res = await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({ reason: 'Changed my mind' }).expect(200);
+    const res = await env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({ reason: 'Changed my mind' }).expect(200);
     expect(res.body.state).toBe('refunded');
     const row = await orderRow(order.id);
     expect(row.state).toBe('refunded');
@@ -156,13 +148,13 @@ describe('cancelling', () => {
     await eventually(async () => (await fakeEvents(env.fake, 'charge.refunded')).some((e) => e.event.data.object.payment_intent === row.payment_intent_id && e.delivery.state === 'delivered'), 'charge.refunded delivered');
     expect(await env.t.knex('order_events').where({ order_id: order.id, to_state: 'refunded' })).toHaveLength(1);
     expect(await env.t.knex('outbox').where({ dedupe_key: `order-refunded:${order.id}` })).toHaveLength(1);
-    await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({}).expect(409);
+    await env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(409);
   });
 
   it('simply cancels an order awaiting payment and closes its payment page', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
-    const res = await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
+    const res = await env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(200);
     expect(res.body.state).toBe('cancelled');
     const paying = await payWith(env.fake, sessionId, 'succeeds');
     expect(paying.outcome).toBe('invalid');
@@ -172,7 +164,7 @@ describe('cancelling', () => {
   it('refuses with 409 once units are being built, and changes nothing', async () => {
     const order = await paidOrder();
     await env.t.knex('orders').where({ id: order.id }).update({ state: 'in_production' });
-    const res = await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({}).expect(409);
+    const res = await env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(409);
     expect(res.body.error.message).toMatch(/being built/);
     expect((await orderRow(order.id)).state).toBe('in_production');
     const row = await orderRow(order.id);
@@ -182,7 +174,7 @@ describe('cancelling', () => {
 
 describe('an expired payment page', () => {
   it('notes the expiry and gives the next attempt a fresh, payable session', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const first = await checkout(order.id);
     await fetch(`${env.fake.url}/v1/checkout/sessions/${first}/expire`, { method: 'POST', headers: { authorization: `Bearer ${env.t.config.PAYMENTS_API_KEY}` } });
     await eventually(async () => (await env.t.knex('order_events').where({ order_id: order.id, kind: 'checkout-expired' })).length > 0, 'the expiry noted');
@@ -195,7 +187,7 @@ describe('an expired payment page', () => {
 
 describe('a payment that arrives after cancelling', () => {
   it('keeps the order cancelled and refunds the late payment once', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
     env.fake.setWebhookUrl(null); // the payment lands while the cancellation is under way
     try {

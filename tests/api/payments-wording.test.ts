@@ -4,26 +4,22 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { DECLINED, NOT_CONFIRMED } from '../../server/fakes/payments/flow';
 import { PAYMENT_FAILURE_FALLBACK, PAYMENT_FAILURE_SENTENCES, shopperPaymentMessage } from '../../server/services/payments/shopper-messages';
 import { DEMO, signedInAgent, type TestAgent } from '../support/app';
-import { insertPedal, placeOrder, type PedalFixture } from './orders-fixtures';
-import { eventually, usePaymentsApp } from './payments-setup';
+import { placeOrder } from './orders-fixtures';
+import { eventually, usePaymentsShop } from './payments-setup';
 
-const env = usePaymentsApp();
-let pedal: PedalFixture;
-let customer: TestAgent;
+const env = usePaymentsShop();
 let planner: TestAgent;
 // Provider object ids: payment intents, refunds, sessions, charges, events.
 const PROVIDER_ID = /\b(pi|re|cs|ch|evt)_[A-Za-z0-9]/;
 
 beforeAll(async () => {
-  pedal = await insertPedal(env.t.knex);
-  customer = await signedInAgent(env.t.app, DEMO.customer);
   planner = await signedInAgent(env.t.app, DEMO.planner);
 });
 
-const orderRow = (id: number) => env.t.knex('orders').where({ id }).first();
+const { orderRow } = env;
 
 async function checkout(orderId: number) {
-  const res = await customer.post(`/api/orders/${orderId}/checkout`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
+  const res = await env.customer.post(`/api/orders/${orderId}/checkout`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(200);
   return (res.body.url as string).split('/pay/')[1];
 }
 
@@ -47,13 +43,13 @@ describe('the shop\'s sentences for payment errors', () => {
   });
 
   it('reach the order page, its history and the mail after a decline; staff also see the provider\'s code', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
     expect((await control(`${sessionId}/pay`, { outcome: 'declined' })).outcome).toBe('declined');
-    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error && r; }, 'failure recorded');
+    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error ? r : null; }, 'failure recorded');
     expect(row.last_payment_error).toBe(PAYMENT_FAILURE_SENTENCES.card_declined);
 
-    const mine = (await customer.get(`/api/orders/${order.id}`).expect(200)).body;
+    const mine = (await env.customer.get(`/api/orders/${order.id}`).expect(200)).body;
     expect(mine.order.lastPaymentError).toBe(PAYMENT_FAILURE_SENTENCES.card_declined);
     const shown = JSON.stringify(mine);
     expect(shown).not.toContain(DECLINED.message);
@@ -71,11 +67,11 @@ describe('the shop\'s sentences for payment errors', () => {
   });
 
   it('say the payment was not confirmed when the payer refuses the confirmation step', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     const sessionId = await checkout(order.id);
     expect((await control(`${sessionId}/pay`, { outcome: 'needs-confirmation' })).outcome).toBe('needs-confirmation');
     expect((await control(`${sessionId}/confirm`, { confirm: false })).outcome).toBe('declined');
-    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error && r; }, 'failure recorded');
+    const row = await eventually(async () => { const r = await orderRow(order.id); return r.last_payment_error ? r : null; }, 'failure recorded');
     expect(row.last_payment_error).toBe(PAYMENT_FAILURE_SENTENCES.payment_intent_authentication_failure);
     expect((await failedMail(order.id)).data.reason).not.toContain(NOT_CONFIRMED.message);
   });
@@ -83,12 +79,12 @@ describe('the shop\'s sentences for payment errors', () => {
 
 describe('a refund', () => {
   it('keeps the provider\'s refund and payment ids out of the customer\'s history, and shows them to staff', async () => {
-    const { order } = await placeOrder(customer, pedal);
+    const { order } = await placeOrder(env.customer, env.pedal);
     await control(`${await checkout(order.id)}/pay`, { outcome: 'succeeds' });
     await eventually(async () => (await orderRow(order.id)).state === 'paid', 'order paid');
-    await customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', customer.csrf).send({}).expect(200);
+    await env.customer.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', env.customer.csrf).send({}).expect(200);
 
-    const mine = (await customer.get(`/api/orders/${order.id}`).expect(200)).body;
+    const mine = (await env.customer.get(`/api/orders/${order.id}`).expect(200)).body;
     expect(mine.order.state).toBe('refunded');
     expect(mine.events.map((e: { message: string }) => e.message)).toContain('Cancelled and refunded');
     expect(JSON.stringify(mine)).not.toMatch(PROVIDER_ID);

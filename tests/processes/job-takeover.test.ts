@@ -9,7 +9,7 @@ import { wakeJob } from '../../server/jobs/wake';
 import { SHEET_JOBS_LOOP } from '../../server/services/spec-sheets/batch-jobs';
 import { startTestApp } from '../support/app';
 import { insertBatch, userId } from '../api/spec-sheets-setup';
-import { exited, killChildren, startRole, waitFor } from './support';
+import { exited, killChildren, printed, startRole, waitFor, WORKER_READY } from './support';
 
 const t = startTestApp();
 afterAll(async () => {
@@ -33,7 +33,7 @@ describe('a sheet job whose worker is killed', () => {
     const unitIds = batch.units.map((u) => u.id);
     const planner = await userId(t.knex, 'planner@shop.example');
     const first = startRole('worker', 'takeover-worker-a');
-    await waitFor('worker A to start', async () => first.output().includes('is running the background jobs'), 180_000, 200);
+    await printed(first, WORKER_READY, 180_000);
     const [job] = await t.knex('sheet_jobs').insert({ batch_id: batch.batchId, total: UNITS, requested_by: planner }).returning('id');
     await wakeJob(t.knex, SHEET_JOBS_LOOP);
 

@@ -48,6 +48,27 @@ export function startRole(role: 'web' | 'worker', name: string, extra: Record<st
   return { child, log, output: () => readFileSync(log, 'utf8') };
 }
 
+/** The line a worker process prints once its jobs run (scripts/serve.ts). */
+export const WORKER_READY = 'is running the background jobs';
+
+/**
+ * Waits until a started process has printed `text`; fails at once, with the end of its log, if the
+ * process exits first (a crash at start must not look like a slow machine).
+ */
+export async function printed(started: ReturnType<typeof startRole>, text: string, timeoutMs: number) {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const output = started.output();
+    if (output.includes(text)) return;
+    const { exitCode, signalCode } = started.child;
+    if (exitCode !== null || signalCode !== null || Date.now() > deadline) {
+      const why = exitCode !== null || signalCode !== null ? `exited (${exitCode ?? signalCode})` : `timed out after ${timeoutMs} ms`;
+      throw new Error(`${path.basename(started.log)} ${why} before printing "${text}"; its log ends:\n${output.slice(-2000)}`);
+    }
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+}
+
 /** Waits for a web process to answer /api/health. */
 export async function webReady(baseUrl: string, timeoutMs = 60_000) {
   await waitFor(`${baseUrl} to answer`, async () => (await fetch(`${baseUrl}/api/health`)).ok, timeoutMs, 200);

@@ -6,12 +6,12 @@ import { startMailFake, type MailFake } from '../../server/fakes/mail';
 import { enqueueMail } from '../../server/services/mail/outbox';
 import { startTestApp, uniqueEmail } from '../support/app';
 import { insertBatch } from '../api/spec-sheets-setup';
-import { Client, freePort, killChildren, startRole, waitFor, webReady } from './support';
+import { Client, freePort, killChildren, printed, startRole, waitFor, webReady, WORKER_READY } from './support';
 
 const t = startTestApp();
 let mail: MailFake;
 const webs: string[] = [];
-const workerLogs: (() => string)[] = [];
+const workers: ReturnType<typeof startRole>[] = [];
 
 beforeAll(async () => {
   mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
@@ -20,10 +20,10 @@ beforeAll(async () => {
     const port = await freePort();
     startRole('web', `two-web-${name}`, { ...shared, PORT: String(port) });
     webs.push(`http://127.0.0.1:${port}`);
-    workerLogs.push(startRole('worker', `two-worker-${name}`, shared).output);
+    workers.push(startRole('worker', `two-worker-${name}`, shared));
   }
   await Promise.all(webs.map((url) => webReady(url, 240_000)));
-  await waitFor('both workers', async () => workerLogs.every((out) => out().includes('is running the background jobs')), 240_000, 200);
+  await Promise.all(workers.map((worker) => printed(worker, WORKER_READY, 240_000)));
 }, 300_000);
 
 afterAll(async () => {
