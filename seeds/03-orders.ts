@@ -1,5 +1,6 @@
 import type { Knex } from 'knex';
 import { priceCart } from '../server/services/orders/pricing';
+import { orderNumber } from '../server/services/orders/orders';
 import { PAYMENT_FAILURE_SENTENCES } from '../server/services/payments/shopper-messages';
 
 // A few demo orders of the invented customers, in several states, so the order desk, "My orders"
@@ -41,7 +42,7 @@ export async function seed(knex: Knex): Promise<void> {
   if (catalog.length === 0) return;
 
   await knex.transaction(async (trx) => {
-    const settings = await trx('settings').where({ id: 1 }).first('serial_prefix');
+    const settings = await trx('settings').where({ id: 1 }).first('order_number_prefix');
     for (const demo of DEMO_ORDERS) {
       const customer = customers.find((c) => c.email === demo.email);
       if (!customer) continue;
@@ -50,14 +51,15 @@ export async function seed(knex: Knex): Promise<void> {
         const option = list[oi % list.length];
         return { modelId: option.model_id, optionId: option.id, quantity };
       });
-      const quote = await priceCart(trx, { lines });
+      const quote = await priceCart(trx, { lines, country: ADDRESSES[demo.email].country });
       const { rows } = await trx.raw("SELECT nextval('order_number_seq')::int AS n");
       const last = demo.steps.at(-1);
       const paidStep = demo.steps.find((s) => s.to === 'paid');
       const address = ADDRESSES[demo.email];
       const [order] = await trx('orders').insert({
-        number: `${settings.serial_prefix}-${rows[0].n}`, customer_id: customer.id, state: last?.to ?? 'awaiting_payment',
+        number: orderNumber(settings.order_number_prefix, rows[0].n), customer_id: customer.id, state: last?.to ?? 'awaiting_payment',
         currency: quote.currency, subtotal_cents: quote.subtotalCents, shipping_cents: quote.shippingCents, tax_cents: quote.taxCents, total_cents: quote.totalCents,
+        shipping_tax_cents: quote.shippingTaxCents, tax_rate_basis_points: quote.taxRateBasisPoints, tax_regime: quote.taxRegime, tax_note: quote.taxNote,
         ship_name: address.name, ship_line1: address.line1, ship_city: address.city, ship_postcode: address.postcode, ship_country: address.country,
         paid_at: paidStep ? daysAgo(paidStep.daysAgo) : null, last_payment_error: demo.error ?? null,
         due_at: paidStep ? daysAgo(paidStep.daysAgo - 21) : null,
@@ -66,6 +68,7 @@ export async function seed(knex: Knex): Promise<void> {
       await trx('order_lines').insert(quote.lines.map((l) => ({
         order_id: order.id, model_id: l.modelId, option_id: l.optionId, quantity: l.quantity,
         unit_price_cents: l.unitPriceCents, line_total_cents: l.lineTotalCents, description: l.description,
+        net_cents: l.netCents, tax_cents: l.taxCents, tax_rate_basis_points: l.taxRateBasisPoints,
       })));
       const events = [{ order_id: order.id, kind: 'placed', from_state: null as string | null, to_state: 'awaiting_payment', message: 'Order placed', created_at: daysAgo(demo.daysAgo) }];
       let from = 'awaiting_payment';

@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { dateSchema, id, str } from './common';
 import { ORDER_STATES } from '../order-states';
 import { listQuery } from './list';
+import type { TaxRegime } from '../tax/destination';
 
 // One schema per request shape for ordering: the cart and checkout forms and the server share them.
 // Prices are deliberately absent: the server computes every amount from the catalog and settings.
@@ -25,12 +26,21 @@ export const shippingAddressSchema = z.object({
 });
 export type ShippingAddressInput = z.infer<typeof shippingAddressSchema>;
 
+const cartLinesSchema = z.array(orderLineSchema).min(1, 'The cart is empty').max(10, 'At most 10 different pedals per order');
+const countryCode = str().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Choose a country (two-letter code, e.g. DE)');
+
+/**
+ * A quote for the cart, for a destination: `country`, or the country of a (partial) shipping
+ * address; without either, the shop's home country. Tax and shipping depend on it.
+ */
 export const quoteSchema = z.object({
-  lines: z.array(orderLineSchema).min(1, 'The cart is empty').max(10, 'At most 10 different pedals per order'),
+  lines: cartLinesSchema,
+  country: countryCode.optional(),
+  shipping: z.object({ country: countryCode.optional() }).optional(),
 });
 export type QuoteInput = z.infer<typeof quoteSchema>;
 
-export const placeOrderSchema = quoteSchema.extend({ shipping: shippingAddressSchema });
+export const placeOrderSchema = z.object({ lines: cartLinesSchema, shipping: shippingAddressSchema });
 export type PlaceOrderInput = z.infer<typeof placeOrderSchema>;
 
 /** The order desk's list: sortable columns and filters (paging and `q` come from listQuery). */
@@ -59,18 +69,38 @@ export interface PricedLine {
   modelId: number;
   optionId: number;
   quantity: number;
+  /** The catalog price of one unit (with the home country's VAT when prices include tax). */
   unitPriceCents: number;
+  netCents: number;
+  taxRateBasisPoints: number;
+  taxCents: number;
+  /** What the customer pays for the line: net + tax. */
   lineTotalCents: number;
   description: string;
 }
 
+export type { TaxRegime };
+
 export interface Quote {
   currency: string;
+  /** The destination the quote is for (ISO 3166-1 alpha-2). */
+  country: string;
   lines: PricedLine[];
+  /** Σ lineTotalCents. */
   subtotalCents: number;
+  shippingZone: string;
+  /** Shipping as paid (net + tax). */
   shippingCents: number;
+  shippingNetCents: number;
+  shippingTaxCents: number;
+  /** Σ net of lines and shipping. */
+  netCents: number;
   taxCents: number;
+  /** subtotal + shipping. */
   totalCents: number;
   pricesIncludeTax: boolean;
   taxRateBasisPoints: number;
+  taxRegime: TaxRegime;
+  /** Why this rate (one-stop shop, export): empty for domestic sales. */
+  taxNote: string;
 }

@@ -1,12 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import { api } from './api';
 
-export interface PublicSettings {
-  shopName: string;
-  shopEmail: string;
-  currency: string;
-  timeZone: string;
-}
+import type { PublicSettings } from '../../shared/schemas/settings';
+
+export type { PublicSettings };
 
 export const publicSettingsQuery = () => ({
   queryKey: ['settings', 'public'] as const,
@@ -16,18 +13,18 @@ export const publicSettingsQuery = () => ({
 
 export const usePublicSettings = () => useQuery(publicSettingsQuery());
 
-/** Money from integer cents in the shop's currency. */
-export function formatMoney(cents: number, currency = 'EUR') {
-  return new Intl.NumberFormat('en-GB', { style: 'currency', currency }).format(cents / 100);
+/** Money from integer cents in the shop's currency, written the shop's way (its BCP 47 locale). */
+export function formatMoney(cents: number, currency = 'EUR', locale = 'en-GB') {
+  return new Intl.NumberFormat(locale, { style: 'currency', currency }).format(cents / 100);
 }
 
 /** A date and time in the shop's time zone. */
-export function formatDateTime(iso: string | Date, timeZone = 'Europe/Berlin') {
-  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone }).format(new Date(iso));
+export function formatDateTime(iso: string | Date, timeZone = 'Europe/Berlin', locale = 'en-GB') {
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeStyle: 'short', timeZone }).format(new Date(iso));
 }
 
-export function formatDate(iso: string | Date, timeZone = 'Europe/Berlin') {
-  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeZone }).format(new Date(iso));
+export function formatDate(iso: string | Date, timeZone = 'Europe/Berlin', locale = 'en-GB') {
+  return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeZone }).format(new Date(iso));
 }
 
 /** Hooks that format with the shop's settings once they have loaded. */
@@ -35,9 +32,10 @@ export function useFormatters() {
   const settings = usePublicSettings().data;
   const currency = settings?.currency ?? 'EUR';
   const timeZone = settings?.timeZone ?? 'Europe/Berlin';
+  const locale = settings?.locale ?? 'en-GB';
   return {
-    money: (cents: number) => formatMoney(cents, currency),
-    dateTime: (iso: string | Date) => formatDateTime(iso, timeZone),
-    date: (iso: string | Date) => formatDate(iso, timeZone),
+    money: (cents: number) => formatMoney(cents, currency, locale),
+    dateTime: (iso: string | Date) => formatDateTime(iso, timeZone, locale),
+    date: (iso: string | Date) => formatDate(iso, timeZone, locale),
   };
 }

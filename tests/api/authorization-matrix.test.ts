@@ -19,6 +19,12 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/users': ['owner'],
   'PATCH /api/users/:id': ['owner'],
   'GET /api/settings/public': 'public',
+  // Settings (issue 14): the owner alone reads and changes them; anyone may see the logo.
+  'GET /api/settings': ['owner'],
+  'PATCH /api/settings': ['owner'],
+  'GET /api/settings/logo': 'public',
+  'PUT /api/settings/logo': ['owner'],
+  'DELETE /api/settings/logo': ['owner'],
   'POST /api/profiles': 'signed-in',
   // Catalog (issue 4)
   'GET /api/models': 'public',

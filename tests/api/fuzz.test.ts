@@ -25,6 +25,9 @@ const KEYS = [
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',
   'code', 'topology', 'positive', 'negative', 'carrier', 'trackingNumber', 'outcome', 'currentDrawMa', 'measuredThdPercent', 'caption',
   'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status',
+  'shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
+  'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
+  'thdTolerancePercent', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',
 ];
 const QUERY_KEYS = ['q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
 const BAD_QUERY_VALUES = ['%00', '2026-02-31', '2026-13-45', '1e308', '-1', '2147483648', '9999999999999999999', 'abc'];
@@ -45,6 +48,10 @@ const NESTED_BODIES = [
   { kind: 'receive', quantity: 1, reason: 'fuzz', batchId: Number(MISSING_ID) },
   { partId: Number(MISSING_ID) },
   { fromRevisionId: 2147483648 },
+  { carriers: [{ id: 2147483648, name: 'x', trackingUrlTemplate: 'https://x.example/{tracking}', active: true }] },
+  { carriers: [{ id: Number(MISSING_ID), name: 'x', trackingUrlTemplate: 'https://x.example/{tracking}', active: true }] },
+  { shippingZones: [{ id: 1e308, name: 'x', countries: ['DE', 'DE'], rateCents: -1 }] },
+  { shipping: { country: 'ZZ' }, lines: [{ modelId: 1, optionId: 1, quantity: 1 }] },
 ];
 
 interface Attempt {

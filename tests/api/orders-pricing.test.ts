@@ -17,23 +17,25 @@ beforeAll(async () => {
 afterAll(() => t.stop());
 
 describe('order pricing is the server’s alone', () => {
-  it('prices base + surcharge per unit, shipping once, tax from the settings row', async () => {
+  it('prices base + surcharge per unit, shipping once from the destination’s zone, domestic VAT per line', async () => {
     const s = await settingsRow(t.knex);
+    const zone = (await t.knex('shipping_zones').whereRaw("'DE' = ANY(countries)").first('rate_cents'));
     const { order, lines } = await placeOrder(customer, pedal, 2, 'led');
     const unit = pedal.basePriceCents + pedal.surcharges.led;
-    expect(lines).toMatchObject([{ quantity: 2, unit_price_cents: unit, line_total_cents: 2 * unit }]);
+    // The demo shop is in Germany with tax-inclusive prices: a German order pays the catalog price.
+    expect(s.home_country).toBe('DE');
+    expect(s.prices_include_tax).toBe(true);
+    expect(lines).toMatchObject([{ quantity: 2, unit_price_cents: unit, line_total_cents: 2 * unit, tax_rate_basis_points: 1900 }]);
+    const line = lines[0] as { net_cents: number; tax_cents: number };
+    expect(line.net_cents + line.tax_cents).toBe(2 * unit);
+    expect(line.net_cents).toBe(Math.round((2 * unit * 10_000) / 11_900));
     expect(order.subtotalCents).toBe(2 * unit);
-    expect(order.shippingCents).toBe(s.shipping_cents);
-    const taxable = 2 * unit + s.shipping_cents;
-    const rate = s.tax_rate_basis_points;
-    if (s.prices_include_tax) {
-      expect(order.totalCents).toBe(taxable);
-      expect(order.taxCents).toBe(Math.round((taxable * rate) / (10_000 + rate)));
-    } else {
-      expect(order.totalCents).toBe(taxable + Math.round((taxable * rate) / 10_000));
-    }
+    expect(order.shippingCents).toBe(zone.rate_cents);
+    expect(order.totalCents).toBe(2 * unit + zone.rate_cents);
+    const shippingTax = zone.rate_cents - Math.round((zone.rate_cents * 10_000) / 11_900);
+    expect(order.taxCents).toBe(line.tax_cents + shippingTax);
     expect(order.state).toBe('awaiting_payment');
-    expect(order.number).toMatch(/^[A-Z]+-\d{5,}$/);
+    expect(order.number).toMatch(new RegExp(`^${s.order_number_prefix}-\\d{5,}$`));
   });
 
   it('ignores prices, totals and states a client slips into the request', async () => {

@@ -23,8 +23,12 @@ export interface OrderRow {
   currency: string;
   subtotal_cents: number;
   shipping_cents: number;
+  shipping_tax_cents: number;
   tax_cents: number;
   total_cents: number;
+  tax_rate_basis_points: number | null;
+  tax_regime: 'domestic' | 'eu-destination' | 'eu-home-rate' | 'export' | null;
+  tax_note: string;
   ship_name: string;
   ship_line1: string;
   ship_line2: string;
@@ -42,7 +46,10 @@ export interface OrderRow {
   updated_at: Date;
 }
 
-/** Creates an order awaiting payment, priced on the server, in one transaction. */
+/** An order's number as customers see it: the shop's order-number prefix and the next value of order_number_seq. */
+export const orderNumber = (prefix: string, n: number) => `${prefix}-${n}`;
+
+/** Creates an order awaiting payment, priced on the server (tax by its destination), in one transaction. */
 export async function placeOrder(knex: Knex, customer: SessionUser, input: PlaceOrderInput) {
   return knex.transaction(async (trx) => {
     const quote = await priceCart(trx, input);
@@ -51,13 +58,17 @@ export async function placeOrder(knex: Knex, customer: SessionUser, input: Place
     const s = input.shipping;
     const [order] = await trx('orders')
       .insert({
-        number: `${settings.serial_prefix}-${rows[0].n}`,
+        number: orderNumber(settings.order_number_prefix, rows[0].n),
         customer_id: customer.id,
         currency: quote.currency,
         subtotal_cents: quote.subtotalCents,
         shipping_cents: quote.shippingCents,
+        shipping_tax_cents: quote.shippingTaxCents,
         tax_cents: quote.taxCents,
         total_cents: quote.totalCents,
+        tax_rate_basis_points: quote.taxRateBasisPoints,
+        tax_regime: quote.taxRegime,
+        tax_note: quote.taxNote,
         ship_name: s.name, ship_line1: s.line1, ship_line2: s.line2, ship_city: s.city,
         ship_postcode: s.postcode, ship_country: s.country, ship_phone: s.phone,
       })
@@ -66,6 +77,7 @@ export async function placeOrder(knex: Knex, customer: SessionUser, input: Place
       quote.lines.map((l) => ({
         order_id: order.id, model_id: l.modelId, option_id: l.optionId, quantity: l.quantity,
         unit_price_cents: l.unitPriceCents, line_total_cents: l.lineTotalCents, description: l.description,
+        net_cents: l.netCents, tax_cents: l.taxCents, tax_rate_basis_points: l.taxRateBasisPoints,
       })),
     );
     await trx('order_events').insert({ order_id: order.id, kind: 'placed', to_state: 'awaiting_payment', message: 'Order placed', user_id: customer.id });
@@ -93,7 +105,7 @@ async function linesOf(knex: Knex, orderIds: number[]) {
     .join('clipping_options as o', 'o.id', 'l.option_id')
     .whereIn('l.order_id', orderIds)
     .orderBy('l.id')
-    .select('l.id', 'l.order_id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.unit_price_cents', 'l.line_total_cents', 'l.description', 'l.batch_id', 'o.code as option_code');
+    .select('l.id', 'l.order_id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.unit_price_cents', 'l.line_total_cents', 'l.net_cents', 'l.tax_cents', 'l.tax_rate_basis_points', 'l.description', 'l.batch_id', 'o.code as option_code');
 }
 
 /** The order with its lines, events and (for staff) the customer and notes. */
@@ -119,6 +131,7 @@ export function publicOrder(o: OrderRow) {
   return {
     id: o.id, number: o.number, state: o.state, currency: o.currency,
     subtotalCents: o.subtotal_cents, shippingCents: o.shipping_cents, taxCents: o.tax_cents, totalCents: o.total_cents,
+    taxRateBasisPoints: o.tax_rate_basis_points, taxRegime: o.tax_regime, taxNote: o.tax_note,
     shipping: { name: o.ship_name, line1: o.ship_line1, line2: o.ship_line2, city: o.ship_city, postcode: o.ship_postcode, country: o.ship_country, phone: o.ship_phone },
     lastPaymentError: o.last_payment_error, paidAt: o.paid_at, dueAt: o.due_at, createdAt: o.created_at, updatedAt: o.updated_at,
   };
