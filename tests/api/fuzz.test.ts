@@ -24,7 +24,7 @@ const KEYS = [
   'orderLineIds', 'stockBuilds', 'startDate', 'date', 'from', 'to', 'quantity', 'kind', 'reference', 'lines', 'builds', 'readings',
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',
   'code', 'topology', 'positive', 'negative', 'carrier', 'trackingNumber', 'outcome', 'currentDrawMa', 'measuredThdPercent', 'caption',
-  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status',
+  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token',
 ];
 const QUERY_KEYS = ['q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
 const BAD_QUERY_VALUES = ['%00', '2026-02-31', '2026-13-45', '1e308', '-1', '2147483648', '9999999999999999999', 'abc'];
