@@ -74,7 +74,7 @@ export function createApp({ knex, config }: AppDeps) {
 
   const routes: RouteDef[] = [
     ...healthRoutes(knex),
-    ...authRoutes(knex, passport, authLimiters(knex, config)),
+    ...authRoutes(knex, config, passport, authLimiters(knex, config)),
     ...userRoutes(knex),
     ...settingsRoutes(knex),
     ...profileRoutes(knex, config),

@@ -29,6 +29,11 @@ const schema = z.object({
   // Wrong current passwords per account when changing it.
   PASSWORD_CHANGE_MAX_FAILURES: count(5),
   PASSWORD_CHANGE_WINDOW_MINUTES: count(15),
+  // "Forgot password" requests per client address and per e-mail typed, and wrong or dead links per address.
+  PASSWORD_RESET_MAX_PER_ADDRESS: count(10),
+  PASSWORD_RESET_MAX_PER_ACCOUNT: count(3),
+  PASSWORD_RESET_WINDOW_MINUTES: count(60),
+  PASSWORD_RESET_CONFIRM_MAX_FAILURES: count(20),
   // The public unit check: every request per minute, and unknown serials (or wrong codes) per day, per address.
   VERIFY_MAX_PER_MINUTE: count(30),
   VERIFY_MAX_MISSES_PER_DAY: count(60),

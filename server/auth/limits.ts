@@ -48,6 +48,10 @@ export interface AuthLimiters {
   login: RequestHandler[];
   register: RequestHandler[];
   passwordChange: RequestHandler[];
+  /** "Forgot password" requests per address and per e-mail typed (so nobody's inbox can be flooded). */
+  passwordReset: RequestHandler[];
+  /** Unknown, used or expired reset links, and refused new passwords, per address. */
+  passwordResetConfirm: RequestHandler[];
 }
 
 export function authLimiters(knex: Knex, config: Config): AuthLimiters {
@@ -74,6 +78,22 @@ export function authLimiters(knex: Knex, config: Config): AuthLimiters {
         prefix: 'password-change:', windowMinutes: config.PASSWORD_CHANGE_WINDOW_MINUTES, limit: config.PASSWORD_CHANGE_MAX_FAILURES,
         key: (req) => String((req.user as SessionUser | undefined)?.id ?? clientAddress(req)), failuresOnly: true,
         message: 'Too many attempts to change the password: wait a few minutes and try again',
+      }),
+    ],
+    passwordReset: [
+      makeLimiter(knex, {
+        prefix: 'reset-address:', windowMinutes: config.PASSWORD_RESET_WINDOW_MINUTES, limit: config.PASSWORD_RESET_MAX_PER_ADDRESS,
+        key: clientAddress, message: 'Too many password reset requests from here: wait a while and try again',
+      }),
+      makeLimiter(knex, {
+        prefix: 'reset-account:', windowMinutes: config.PASSWORD_RESET_WINDOW_MINUTES, limit: config.PASSWORD_RESET_MAX_PER_ACCOUNT,
+        key: (req) => emailKey(req.body?.email), message: 'Too many password reset requests for this address: wait a while and look for the mails already sent',
+      }),
+    ],
+    passwordResetConfirm: [
+      makeLimiter(knex, {
+        prefix: 'reset-confirm:', windowMinutes: config.PASSWORD_RESET_WINDOW_MINUTES, limit: config.PASSWORD_RESET_CONFIRM_MAX_FAILURES,
+        key: clientAddress, failuresOnly: true, message: 'Too many tries with reset links from here: wait a while and try again',
       }),
     ],
   };

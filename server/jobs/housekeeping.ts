@@ -1,13 +1,15 @@
 import type { Knex } from 'knex';
+import { deleteOldResets } from '../services/password-resets';
 import type { JobDefinition } from './boss';
 
 export const HOUSEKEEPING_QUEUE = 'housekeeping';
 
-/** Deletes expired sessions and finished rate-limit windows; returns how many rows of each went. */
+/** Deletes expired sessions, finished rate-limit windows and old reset links; returns how many rows of each went. */
 export async function sweepExpired(knex: Knex) {
   const sessions = await knex('session').where('expire', '<', knex.fn.now()).delete();
   const rateLimits = await knex('rate_limits').where('reset_at', '<', knex.fn.now()).delete();
-  return { sessions, rateLimits };
+  const passwordResets = await deleteOldResets(knex);
+  return { sessions, rateLimits, passwordResets };
 }
 
 /**

@@ -136,6 +136,6 @@ export async function changePassword(knex: Knex, id: number, input: { currentPas
 }
 
 /** Deletes the account's stored sessions (connect-pg-simple's table), all or all but one. */
-async function endSessions(trx: Knex.Transaction, userId: number, exceptSessionId?: string) {
+export async function endSessions(trx: Knex.Transaction, userId: number, exceptSessionId?: string) {
   await trx.raw(`DELETE FROM "session" WHERE (sess -> 'passport' ->> 'user') = ? AND sid <> ?`, [String(userId), exceptSessionId ?? '']);
 }

@@ -50,3 +50,14 @@ export const userListSchema = listQuery(['name', 'email', 'role', 'createdAt'] a
   staff: boolParam.optional(),
 });
 export type UserListQuery = z.infer<typeof userListSchema>;
+
+/** "Forgot password": the address to send a link to (the answer is the same for any address). */
+export const passwordResetRequestSchema = z.object({ email });
+export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;
+
+/** The link's token and the new password (the rule is the one in password.ts; the e-mail check is the server's). */
+export const passwordResetConfirmSchema = z.object({
+  token: str().trim().min(1, 'Open the link from the mail again: it carries a code this page needs').max(200),
+  password: newPassword,
+});
+export type PasswordResetConfirmInput = z.infer<typeof passwordResetConfirmSchema>;

@@ -4,6 +4,8 @@ import { ASSEMBLY, CUSTOMERS, OWNER_ONLY, PLANNING, ROLES, STAFF, TESTING, type 
 export const paths = {
   signIn: '/sign-in',
   register: '/register',
+  forgotPassword: '/forgot-password',
+  resetPassword: '/reset-password',
   account: '/account',
   users: '/users',
   board: '/board',

@@ -10,6 +10,8 @@ export const router = createBrowserRouter([
   { path: '/', lazy: page(() => import('./HomeRedirect')) },
   { path: paths.signIn, lazy: page(() => import('../features/auth/SignInPage')) },
   { path: paths.register, lazy: page(() => import('../features/auth/RegisterPage')) },
+  { path: paths.forgotPassword, lazy: page(() => import('../features/auth/ForgotPasswordPage')) },
+  { path: paths.resetPassword, lazy: page(() => import('../features/auth/ResetPasswordPage')) },
   // The storefront is open to visitors too: signed-in people see it inside their shell.
   {
     element: <ShopFrame />,

@@ -15,6 +15,8 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/auth/me': 'signed-in',
   'POST /api/auth/register': 'public',
   'POST /api/auth/password': 'signed-in',
+  'POST /api/auth/password-reset': 'public',
+  'POST /api/auth/password-reset/confirm': 'public',
   'GET /api/users': ['owner'],
   'POST /api/users': ['owner'],
   'PATCH /api/users/:id': ['owner'],

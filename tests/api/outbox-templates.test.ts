@@ -9,6 +9,7 @@ const sample = {
   subtotalCents: 37_800, shippingCents: 900, taxCents: 6_179, totalCents: 38_700, pricesIncludeTax: true,
   reason: 'your bank declined it.', batchCode: 'B-2026-12', estimatedShipDate: '2026-12-18', serial: 'HM-SMD-0007',
   description: 'Saltmarsh Drive — Silicon pair', testedAt: '2026-12-15T10:00:00Z', hasSpecSheet: true, carrier: 'Parcelwing', tracking: 'PW 4471 0093 22', amountCents: 38_700,
+  resetUrl: 'http://127.0.0.1:3000/reset-password?token=sample-token', validMinutes: 60,
 };
 
 describe('mail templates', () => {

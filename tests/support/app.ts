@@ -15,7 +15,10 @@ export const DEMO = {
 
 // Every test file talks from 127.0.0.1 to one database: the per-address limits are raised here so
 // files do not use up each other's counts; tests of those limits set their own (or another address).
-const ADDRESS_LIMITS = { LOGIN_ADDRESS_MAX_FAILURES: '100000', REGISTER_MAX_PER_ADDRESS: '100000', VERIFY_MAX_MISSES_PER_DAY: '100000' };
+const ADDRESS_LIMITS = {
+  LOGIN_ADDRESS_MAX_FAILURES: '100000', REGISTER_MAX_PER_ADDRESS: '100000', VERIFY_MAX_MISSES_PER_DAY: '100000',
+  PASSWORD_RESET_MAX_PER_ADDRESS: '100000', PASSWORD_RESET_CONFIRM_MAX_FAILURES: '100000',
+};
 
 /** The real app on the real test database that `npm test` prepared. */
 export function startTestApp(env: Record<string, string> = {}) {

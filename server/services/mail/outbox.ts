@@ -17,6 +17,19 @@ export interface OutgoingMail {
 }
 
 /**
+ * Data fields that carry a secret (a one-time link): the sender clears them from the stored row as
+ * soon as the mail is sent, so the outbox keeps no working link.
+ */
+export const SECRET_DATA_FIELDS = ['resetUrl'] as const;
+
+/** The row's data as kept after sending: without its secret fields. */
+export function withoutSecrets(data: Record<string, unknown>): Record<string, unknown> {
+  const kept = { ...data };
+  for (const field of SECRET_DATA_FIELDS) if (field in kept) kept[field] = '(removed after sending)';
+  return kept;
+}
+
+/**
  * Writes a mail to the outbox inside the caller's transaction, so it exists exactly when the
  * change that causes it commits; the outbox worker sends it with retries. Returns true when
  * queued, false when that event's mail was already queued.

@@ -71,7 +71,7 @@ function loadWithPartials(file: string): string {
   return load(file).replace(/\{\{> ([\w-]+)\}\}/g, (_all, name: string) => load(`_${name}${ext}`).replace(/^<!--[\s\S]*?-->\s*/, '').replace(/\n$/, ''));
 }
 
-export const TEMPLATES = ['welcome', 'account-exists', 'order-received', 'payment-failed', 'order-scheduled', 'unit-passed', 'order-shipped', 'order-refunded'] as const;
+export const TEMPLATES = ['welcome', 'account-exists', 'order-received', 'payment-failed', 'order-scheduled', 'unit-passed', 'order-shipped', 'order-refunded', 'password-reset'] as const;
 
 /**
  * Renders templates/mail/<name>.txt (first line "Subject: …") and <name>.html inside the one

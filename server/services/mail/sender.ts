@@ -2,6 +2,7 @@ import nodemailer, { type Transporter } from 'nodemailer';
 import type { Knex } from 'knex';
 import type { Config } from '../../config';
 import { getSettings } from '../settings';
+import { withoutSecrets } from './outbox';
 import { renderMail } from './render';
 
 /** nodemailer over SMTP: the mail fake in development and tests, a real server in production. */
@@ -71,7 +72,9 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
             return { filename: a.filename, content: file.data as Buffer, contentType: file.content_type };
           }),
         });
-        await trx('outbox').where({ id: row.id }).update({ status: 'sent', sent_at: trx.fn.now(), attempts: row.attempts + 1, last_error: null });
+        await trx('outbox').where({ id: row.id }).update({
+          status: 'sent', sent_at: trx.fn.now(), attempts: row.attempts + 1, last_error: null, data: JSON.stringify(withoutSecrets(row.data)),
+        });
         return 'sent';
       } catch (error) {
         const attempts = row.attempts + 1;

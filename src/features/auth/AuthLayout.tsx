@@ -1,7 +1,9 @@
 import type { ReactNode } from 'react';
+import { Link } from 'react-router';
 import { Logo } from '../../components/Logo';
+import { paths } from '../../lib/navigation';
 
-/** The frame of the sign-in and registration pages. */
+/** The frame of the sign-in, registration and password reset pages, with the way back to the shop. */
 export function AuthLayout({ title, children }: { title: string; children: ReactNode }) {
   return (
     <div className="flex min-h-screen flex-col items-center justify-center bg-spruce-900 px-4 py-10">
@@ -16,6 +18,11 @@ export function AuthLayout({ title, children }: { title: string; children: React
         <h1 className="mb-4 text-2xl font-bold text-spruce-900">{title}</h1>
         {children}
       </main>
+      <nav aria-label="Back" className="mt-4">
+        <Link to={paths.shop} className="flex min-h-11 items-center rounded-md px-3 font-semibold text-white underline hover:bg-spruce-800">
+          <span aria-hidden>←&nbsp;</span>Back to the pedals
+        </Link>
+      </nav>
     </div>
   );
 }

@@ -32,6 +32,7 @@ export default function SignInPage() {
         <TextField label="E-mail" type="email" autoComplete="username" error={form.formState.errors.email?.message} {...form.register('email')} />
         <TextField label="Password" type="password" autoComplete="current-password" error={form.formState.errors.password?.message} {...form.register('password')} />
         <Button type="submit" busy={login.isPending}>Sign in</Button>
+        <Link to={paths.forgotPassword} className="flex min-h-11 items-center self-start font-semibold text-copper-700 underline">Forgot your password?</Link>
       </form>
       <p className="mt-6 text-ink-soft">
         New here and want to order a pedal?{' '}

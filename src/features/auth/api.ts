@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { SessionUser } from '../../../shared/roles';
-import type { ChangePasswordInput, LoginInput, RegisterInput } from '../../../shared/schemas/auth';
+import type { ChangePasswordInput, LoginInput, PasswordResetConfirmInput, PasswordResetRequestInput, RegisterInput } from '../../../shared/schemas/auth';
 import { api, ApiError, rememberCsrfToken } from '../../lib/api';
 
 interface SessionBody {
@@ -65,3 +65,11 @@ export function useLogout() {
 
 export const useChangePassword = () =>
   useMutation({ mutationFn: (input: ChangePasswordInput) => api.post<void>('/api/auth/password', input) });
+
+/** Asks for a reset link; the answer's message is the same whether or not the address has an account. */
+export const useRequestPasswordReset = () =>
+  useMutation({ mutationFn: (input: PasswordResetRequestInput) => api.post<{ message: string }>('/api/auth/password-reset', input) });
+
+/** Sets a new password from the mailed link; does not sign in. */
+export const useConfirmPasswordReset = () =>
+  useMutation({ mutationFn: (input: PasswordResetConfirmInput) => api.post<void>('/api/auth/password-reset/confirm', input) });
