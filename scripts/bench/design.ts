@@ -14,7 +14,7 @@ export const BENCH_DESIGN_INPUT = {
 
 function run(): void {
   const parsed = parseDesignInput(BENCH_DESIGN_INPUT);
-  console.log(`\nOption designer — ${countCandidates(parsed.input)} static candidates, each computed (target ≤ 1 ms per candidate)`);
+  console.log(`\nOption designer — ${countCandidates(parsed)} static candidates, each computed (target ≤ 1 ms per candidate)`);
   // Warm-up: a small search so the JIT has seen the solver before timing.
   designSearch(parseDesignInput({ ...BENCH_DESIGN_INPUT, maxPerSide: 1, topologies: ['shunt'], seriesOhms: [2200] }));
   const runs: { wall: number; cpu: number }[] = [];

@@ -4,8 +4,11 @@ import { z } from 'zod';
 import { CONTRACT_LIMITS } from '../engine/contract';
 import { findPreset } from '../engine/presets';
 
-/** Upper bounds that keep one search finite: 40 devices, 6 per side, 200 000 candidates. */
-export const DESIGN_LIMITS = { devices: 40, maxPerSide: 6, resistorValues: 60, capacitorValues: 12, candidates: 200_000, limit: 200 } as const;
+/**
+ * Upper bounds that keep one search finite. The cost bound is the number of candidates (200 000); the
+ * device count (500) only bounds the input's size, so a whole library is searched whenever its space fits.
+ */
+export const DESIGN_LIMITS = { devices: 500, maxPerSide: 6, resistorValues: 60, capacitorValues: 12, candidates: 200_000, limit: 200 } as const;
 
 /** Standard E-series mantissas (IEC 60063): E6, E12 and E24. */
 export const E_SERIES = {

@@ -2,6 +2,7 @@
 // with the engine's contract function (the profile CLI's own computation), rank by distance to a target.
 // Pure TypeScript: runs in the CLI, the server and a browser Web Worker.
 import { analyseOperatingPoint, resolveDevice, toContractOutput, type ContractInput, type ContractOutput } from '../engine/contract';
+import { DEFAULT_ENERGY_GAP, DEFAULT_XTI } from '../engine/constants';
 import type { DeviceModel } from '../engine/device';
 import { EngineInputError } from '../engine/errors';
 import type { ClippingNetwork, Topology } from '../engine/network';
@@ -9,8 +10,11 @@ import { findPreset } from '../engine/presets';
 import type { Spectrum } from '../engine/spectrum';
 import { DESIGN_LIMITS, designInputSchema, eSeriesValues, type DesignInput, type DesignTarget } from './schema';
 
-/** One device of the search space, resolved: its display name and SPICE parameters. */
-export interface SpaceDevice { name: string; model: DeviceModel }
+/** One device of the search space, resolved: its position in the input's devices, display name and SPICE parameters. */
+export interface SpaceDevice { index: number; name: string; model: DeviceModel }
+
+/** The search space after parsing: the input and its distinct devices. */
+export interface ParsedDesign { input: DesignInput; devices: SpaceDevice[] }
 
 /** One side of a candidate: `count` devices of kind `device` (an index into the input's devices) in series. */
 export interface SideChoice { device: number; name: string; count: number }
@@ -81,8 +85,26 @@ export function targetDistance(target: DesignTarget, values: Record<keyof Design
   return d;
 }
 
+/** Same SPICE parameters (EG and XTI at their defaults when absent) = the same device for the engine. */
+const modelKey = (m: DeviceModel) => [m.is, m.n, m.rs, m.eg ?? DEFAULT_ENERGY_GAP, m.xti ?? DEFAULT_XTI].join(' ');
+
+/**
+ * Devices with the same SPICE parameters give the same candidates, so the search keeps only the first
+ * of each (a library often holds copies, e.g. one device per supplier's part). Callers that prefer one
+ * copy, e.g. the best-stocked, list it first.
+ */
+export function distinctDevices(devices: SpaceDevice[]): SpaceDevice[] {
+  const seen = new Set<string>();
+  return devices.filter((d) => {
+    const key = modelKey(d.model);
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
+}
+
 /** Parse and range-check design JSON; throws EngineInputError {path, message} like the profile contract. */
-export function parseDesignInput(json: unknown): { input: DesignInput; devices: SpaceDevice[] } {
+export function parseDesignInput(json: unknown): ParsedDesign {
   const parsed = designInputSchema.safeParse(json);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
@@ -90,18 +112,23 @@ export function parseDesignInput(json: unknown): { input: DesignInput; devices: 
     throw new EngineInputError(path, path ? `${path}: ${issue.message}` : issue.message);
   }
   const input = parsed.data;
-  const devices = input.devices.map((d, i): SpaceDevice => {
-    const path = `devices[${i}]`;
-    if (typeof d === 'string') return { name: d, model: { ...findPreset(d)!.model } };
-    if ('preset' in d) return { name: d.name ?? d.preset, model: resolveDevice({ preset: d.preset }, path) };
+  const devices = distinctDevices(input.devices.map((d, index): SpaceDevice => {
+    const path = `devices[${index}]`;
+    if (typeof d === 'string') return { index, name: d, model: { ...findPreset(d)!.model } };
+    if ('preset' in d) return { index, name: d.name ?? d.preset, model: resolveDevice({ preset: d.preset }, path) };
     const { name, ...params } = d;
-    return { name: name ?? `device ${i + 1}`, model: resolveDevice(params, path) };
-  });
-  const total = countCandidates(input);
+    return { index, name: name ?? `device ${index + 1}`, model: resolveDevice(params, path) };
+  }));
+  const total = countCandidates({ input, devices });
   if (total > DESIGN_LIMITS.candidates) {
-    throw new EngineInputError('', `the search space holds ${total} candidates; at most ${DESIGN_LIMITS.candidates} (fewer devices, a lower maxPerSide or fewer values)`);
+    throw new EngineInputError('', overBoundMessage(total));
   }
   return { input, devices };
+}
+
+/** Why a space is refused, in words, e.g. "the search space holds 250 000 candidates; at most 200 000 …". */
+export function overBoundMessage(total: number): string {
+  return `the search space holds ${total} candidates; at most ${DESIGN_LIMITS.candidates} (fewer devices, a lower maxPerSide, fewer resistor or capacitor values, or one symmetry)`;
 }
 
 function resistorValues(input: DesignInput): number[] {
@@ -112,10 +139,10 @@ function resistorValues(input: DesignInput): number[] {
 
 const capacitorValues = (input: DesignInput): number[] => [...new Set(input.capacitorFarads ?? [0])];
 
-/** Ordered (positive, negative) side pairs the symmetry choice allows. */
-function sidePairs(input: DesignInput): [number, number, number, number][] {
+/** Ordered (positive, negative) side pairs the symmetry choice allows; numbers index the distinct devices. */
+function sidePairs(input: DesignInput, deviceCount: number): [number, number, number, number][] {
   const sides: [number, number][] = [];
-  for (let d = 0; d < input.devices.length; d++) for (let c = 1; c <= input.maxPerSide; c++) sides.push([d, c]);
+  for (let d = 0; d < deviceCount; d++) for (let c = 1; c <= input.maxPerSide; c++) sides.push([d, c]);
   const pairs: [number, number, number, number][] = [];
   for (const [pd, pc] of sides) {
     for (const [nd, nc] of sides) {
@@ -128,9 +155,9 @@ function sidePairs(input: DesignInput): [number, number, number, number][] {
   return pairs;
 }
 
-/** Size of the space, e.g. 2 devices × up to 2 per side, shunt with 3 resistors: (2·2)² · 3 = 48. */
-export function countCandidates(input: DesignInput): number {
-  const s = input.devices.length * input.maxPerSide;
+/** Size of the space, e.g. 2 distinct devices × up to 2 per side, shunt with 3 resistors: (2·2)² · 3 = 48. */
+export function countCandidates({ input, devices }: ParsedDesign): number {
+  const s = devices.length * input.maxPerSide;
   const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? s * s - s : s * s;
   const caps = capacitorValues(input).length;
   let n = 0;
@@ -145,7 +172,7 @@ interface Planned { clipper: ClippingNetwork; strings: DesignCandidate['strings'
  * (positive device, count) and (negative device, count). A string is 1…maxPerSide devices of one kind.
  */
 export function* enumerateCandidates(input: DesignInput, devices: SpaceDevice[]): Generator<Planned> {
-  const pairs = sidePairs(input);
+  const pairs = sidePairs(input, devices.length);
   const base = { seriesOhms: 1, shuntFarads: 0, feedbackOhms: input.feedbackOhms ?? 1, groundOhms: input.groundOhms ?? 1, feedbackFarads: 0 };
   for (const topology of input.topologies as Topology[]) {
     if (topology === 'none') {
@@ -162,7 +189,10 @@ export function* enumerateCandidates(input: DesignInput, devices: SpaceDevice[])
               positive: Array.from({ length: pc }, () => ({ ...devices[pd].model })),
               negative: Array.from({ length: nc }, () => ({ ...devices[nd].model })),
             },
-            strings: { positive: { device: pd, name: devices[pd].name, count: pc }, negative: { device: nd, name: devices[nd].name, count: nc } },
+            strings: {
+              positive: { device: devices[pd].index, name: devices[pd].name, count: pc },
+              negative: { device: devices[nd].index, name: devices[nd].name, count: nc },
+            },
           };
         }
       }
@@ -188,8 +218,8 @@ function keepBest(list: { c: DesignCandidate; order: number }[], item: { c: Desi
 }
 
 /** The search as steps: yields after every `chunk` candidates so an async caller can let messages in. */
-function* searchSteps(input: DesignInput, devices: SpaceDevice[], options: SearchOptions, chunk: number): Generator<void, DesignResult> {
-  const total = countCandidates(input);
+function* searchSteps({ input, devices }: ParsedDesign, options: SearchOptions, chunk: number): Generator<void, DesignResult> {
+  const total = countCandidates({ input, devices });
   const every = options.progressEvery ?? 256;
   const best: { c: DesignCandidate; order: number }[] = [];
   let searched = 0;
@@ -217,8 +247,8 @@ function* searchSteps(input: DesignInput, devices: SpaceDevice[], options: Searc
 }
 
 /** Run a parsed search to the end (or until cancelled), e.g. designSearch(parseDesignInput(json)).candidates[0]. */
-export function designSearch(parsed: { input: DesignInput; devices: SpaceDevice[] }, options: SearchOptions = {}): DesignResult {
-  const steps = searchSteps(parsed.input, parsed.devices, options, Number.MAX_SAFE_INTEGER);
+export function designSearch(parsed: ParsedDesign, options: SearchOptions = {}): DesignResult {
+  const steps = searchSteps(parsed, options, Number.MAX_SAFE_INTEGER);
   for (;;) {
     const s = steps.next();
     if (s.done) return s.value;
@@ -229,8 +259,8 @@ export function designSearch(parsed: { input: DesignInput; devices: SpaceDevice[
  * The same search, giving the event loop a turn every `chunk` candidates: in a Web Worker this lets a
  * cancel message arrive (set the signal's flag from onmessage) while the search runs.
  */
-export async function designSearchAsync(parsed: { input: DesignInput; devices: SpaceDevice[] }, options: SearchOptions = {}, chunk = 64): Promise<DesignResult> {
-  const steps = searchSteps(parsed.input, parsed.devices, options, chunk);
+export async function designSearchAsync(parsed: ParsedDesign, options: SearchOptions = {}, chunk = 64): Promise<DesignResult> {
+  const steps = searchSteps(parsed, options, chunk);
   for (;;) {
     const s = steps.next();
     if (s.done) return s.value;

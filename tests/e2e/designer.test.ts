@@ -36,14 +36,18 @@ describe('the option designer in a browser', () => {
     await page.getByRole('heading', { name: /Design an option/ }).waitFor();
 
     // A large search (4 per side, seven resistor values, both topologies) is cancelled from its progress
-    // bar. Stocked devices only: other test files add devices to the library, and its size must not matter.
+    // bar. Other test files add stocked devices to the library (copies of the same parameters among
+    // them), so the search is counted on the page and its bar shows at once, at 0 of that count.
     await page.getByLabel('Devices', { exact: true }).selectOption('stocked');
     await page.getByLabel('Devices in series per side, up to').fill('4');
     await page.getByLabel('Series resistor from (Ω)').fill('1000');
     await page.getByLabel('Series resistor to (Ω)').fill('10000');
     await page.getByLabel('Feedback', { exact: true }).check();
     await page.getByRole('button', { name: 'Search' }).click();
-    await page.getByRole('progressbar', { name: 'Candidates computed' }).waitFor();
+    const bar = page.getByRole('progressbar', { name: 'Candidates computed' });
+    await bar.waitFor();
+    // The bar's maximum is the whole space: ≥ 8 distinct stocked devices in the demo seeds, 4 per side.
+    expect(Number(await bar.getAttribute('max'))).toBeGreaterThan(1000);
     await page.getByRole('button', { name: 'Cancel' }).click();
     await page.getByText(/^Cancelled: \d+ of \d+ candidates computed/).waitFor({ timeout: 30_000 });
 

@@ -6,7 +6,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { countCandidates, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
 import { eSeriesValues } from '../../shared/design/schema';
 import { DEVICE_PRESETS, findPreset, runContract, type ContractOutput } from '../../shared/engine/index';
 
@@ -61,9 +61,9 @@ describe('option designer: enumeration and the profile contract', () => {
     const keys = new Set(all.candidates.map((c) => JSON.stringify([c.clipper.topology, c.clipper.seriesOhms, c.strings])));
     expect(keys.size).toBe(108);
     const sym = parseDesignInput({ ...SPACE, symmetry: 'symmetric', target: { thdFPercent: [0, 1] } });
-    expect(countCandidates(sym.input)).toBe(6 * 3);
+    expect(countCandidates(sym)).toBe(6 * 3);
     const asym = parseDesignInput({ ...SPACE, symmetry: 'asymmetric', topologies: ['shunt', 'none'], target: { thdFPercent: [0, 1] } });
-    expect(countCandidates(asym.input)).toBe(30 * 2 + 1);
+    expect(countCandidates(asym)).toBe(30 * 2 + 1);
   });
 
   it("gives every candidate the contract function's output for its clipper, through JSON", () => {
@@ -174,6 +174,22 @@ describe('option designer: progress, cancellation, input', () => {
     expect(broken.status).toBe(2);
     expect((broken.json.error as { message: string }).message).toMatch(/not valid JSON/);
   }, 300_000);
+
+  it('searches copies of one device once, and takes a library of more than 40 devices when its space fits', () => {
+    const si = findPreset('si-small-signal')!.model;
+    const copies = Array.from({ length: 60 }, (_, i) => ({ name: `silicon copy ${i}`, ...si }));
+    const parsed = parseDesignInput({ ...SPACE, devices: [...copies.slice(0, 1), ...PRESETS, ...copies.slice(1)], target: { thdFPercent: [0, 1] } });
+    // The first copy stands for the preset too (same parameters): 3 distinct devices, positions 0, 2, 3.
+    expect(parsed.devices.map((d) => [d.index, d.name])).toEqual([[0, 'silicon copy 0'], [2, 'led-red'], [3, 'germanium-point-contact']]);
+    expect(countCandidates(parsed)).toBe(36 * 3);
+    const r = designSearch(parsed, {});
+    expect(r.candidates.every((c) => [0, 2, 3].includes(c.strings.positive!.device))).toBe(true);
+    // 45 distinct devices, one per side, symmetric, shunt at one value: 45 candidates, searched in full.
+    const many = Array.from({ length: 45 }, (_, i) => ({ name: `d${i}`, is: 1e-9 * (1 + i / 10), n: 1.8, rs: 1 }));
+    const big = runDesign({ ...SPACE, devices: many, maxPerSide: 1, symmetry: 'symmetric', topologies: ['shunt'], seriesOhms: [2200], target: { thdFPercent: [0, 100] }, limit: 50 });
+    expect(big.searched).toBe(45);
+    expect(new Set(big.candidates.map((c) => c.strings.positive!.name)).size).toBe(45);
+  });
 
   it('names preset devices by id and keeps their parameters', () => {
     const r = runDesign({ ...SPACE, devices: ['led-red'], maxPerSide: 1, topologies: ['shunt'], seriesOhms: [1000], target: { thdFPercent: [0, 100] } });

@@ -3,7 +3,8 @@ import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router';
 import { engineDriveStage } from '../../../shared/catalog/circuit';
-import { designFormSchema, designInputFromForm, type DesignForm } from '../../../shared/design/schema';
+import { DESIGN_LIMITS, designFormSchema, designInputFromForm, type DesignForm, type DesignInputJson, type DesignStage } from '../../../shared/design/schema';
+import { countCandidates, parseDesignInput } from '../../../shared/design/search';
 import { gainAtDrive } from '../../../shared/engine/index';
 import { SpectrumBars, ThdDriveChart } from '../../components/charts';
 import { Button } from '../../components/ui/Button';
@@ -38,9 +39,10 @@ function useDesignWorker() {
     worker.current = w;
     return () => w.terminate();
   }, []);
-  const run = (input: unknown, drive: unknown) => {
+  /** Starts a search whose size the page has already counted: the bar shows at once, at 0 of `total`. */
+  const run = (input: unknown, drive: unknown, total: number) => {
     current.current += 1;
-    setResult(null); setError(null); setProgress({ done: 0, total: 0 });
+    setResult(null); setError(null); setProgress({ done: 0, total });
     worker.current?.postMessage({ id: current.current, kind: 'run', input, drive } satisfies DesignRequest);
   };
   const cancel = () => worker.current?.postMessage({ id: current.current, kind: 'cancel' } satisfies DesignRequest);
@@ -48,6 +50,35 @@ function useDesignWorker() {
 }
 
 const side = (s: DesignedCandidate['strings']['positive']) => (s ? `${s.count}× ${s.name}` : '—');
+
+const clip = (s: string, max: number) => (s.length <= max ? s : `${s.slice(0, max - 1)}…`);
+
+const count = (n: number) => n.toLocaleString('en-GB');
+
+/**
+ * The devices a search uses, best-stocked first: copies with the same parameters are searched once
+ * (the first), so a chosen candidate links the copy with the most in stock.
+ */
+function spaceDevices(all: Device[], space: DesignForm['space']): Device[] {
+  const chosen = space === 'stocked' ? all.filter((d) => (d.available ?? 0) > 0) : all;
+  return [...chosen].sort((a, b) => (b.available ?? -1) - (a.available ?? -1));
+}
+
+type Plan = { input: DesignInputJson; devices: Device[]; total: number } | { problem: string };
+
+/** The search a form describes, counted before it starts (the same parse the worker runs). */
+function planSearch(f: DesignForm, stage: DesignStage, all: Device[]): Plan {
+  const devices = spaceDevices(all, f.space);
+  if (devices.length === 0) {
+    return { problem: f.space === 'stocked' ? 'No device in the library is in stock: search the whole library, or receive stock first' : 'the device library is empty' };
+  }
+  const input = designInputFromForm(f, stage, devices.map((d) => ({ name: d.name, is: d.is, n: d.n, rs: d.rs, eg: d.eg, xti: d.xti })));
+  try {
+    return { input, devices, total: countCandidates(parseDesignInput(input)) };
+  } catch (e) {
+    return { problem: e instanceof Error ? e.message : String(e) };
+  }
+}
 
 /** Owner: state the sound and the limits; every candidate in the space is computed and the nearest ten shown. */
 export default function DesignPage() {
@@ -59,6 +90,7 @@ export default function DesignPage() {
   const navigate = useNavigate();
   const form = useForm<DesignForm>({ resolver: zodResolver(designFormSchema) as never, defaultValues: DEFAULTS });
   const [space, setSpace] = useState<Device[]>([]);
+  const [refused, setRefused] = useState<string | null>(null);
   if (model.isPending || devices.isPending) return <Loading />;
   if (model.isError) return <ErrorState error={model.error} retry={() => model.refetch()} />;
   if (devices.isError) return <ErrorState error={devices.error} retry={() => devices.refetch()} />;
@@ -68,21 +100,23 @@ export default function DesignPage() {
   const stage = { toneHz: 1000, inputPeakV: drive.inputPeakV, driveGain: gainAtDrive(drive, rev.drive.referenceDrive), railPeakV: drive.railPeakV, temperatureC: 27 };
   const errors = form.formState.errors;
   const onSubmit = form.handleSubmit((f) => {
-    const chosen = f.space === 'stocked' ? devices.data.filter((d) => (d.available ?? 0) > 0) : devices.data;
-    setSpace(chosen);
-    search.run(designInputFromForm(f, stage, chosen.map((d) => ({ name: d.name, is: d.is, n: d.n, rs: d.rs, eg: d.eg, xti: d.xti }))), drive);
+    const plan = planSearch(f, stage, devices.data);
+    if ('problem' in plan) { setRefused(plan.problem); return; }
+    setRefused(null);
+    setSpace(plan.devices);
+    search.run(plan.input, drive, plan.total);
   });
-  const createFrom = async (c: DesignedCandidate, rank: number) => {
+  const createFrom = (c: DesignedCandidate, rank: number) => {
     const ids = (s: DesignedCandidate['strings']['positive']) => (s ? Array.from({ length: s.count }, () => space[s.device].deviceId) : []);
     const topology = c.clipper.topology === 'feedback' ? 'feedback' : 'shunt';
     const network = topology === 'shunt' ? { seriesOhms: c.clipper.seriesOhms } : { feedbackOhms: c.clipper.feedbackOhms, groundOhms: c.clipper.groundOhms };
     const code = `D${Date.now().toString(36).slice(-5).toUpperCase()}`;
-    const r = await create.mutateAsync({
-      code, name: `Designed ${rank}: ${side(c.strings.positive)} / ${side(c.strings.negative)}`,
+    create.mutate({
+      // Option names hold at most 80 characters; long device names are cut with an ellipsis.
+      code, name: clip(`Designed ${rank}: ${side(c.strings.positive)} / ${side(c.strings.negative)}`, 80),
       description: `Found by the option designer at THD_F ${percent(c.at.thdF)} (distance ${c.distance.toFixed(3)}).`,
       topology, network, positive: ids(c.strings.positive), negative: ids(c.strings.negative), surchargeCents: 0, published: false,
-    });
-    void navigate(`/catalog/models/${id}/options/${r.optionId}`);
+    }, { onSuccess: (r) => void navigate(`/catalog/models/${id}/options/${r.optionId}`) });
   };
   const p = search.progress;
   return (
@@ -121,17 +155,19 @@ export default function DesignPage() {
       </form>
       {p ? (
         <div className="mt-4 flex items-center gap-4">
-          <progress aria-label="Candidates computed" className="h-4 flex-1" max={p.total || 1} value={p.done} />
-          <span className="font-mono">{p.done} / {p.total || '…'}</span>
+          <progress aria-label="Candidates computed" className="h-4 flex-1" max={Math.max(1, p.total)} value={p.done} />
+          <span className="font-mono">{count(p.done)} / {count(p.total)}</span>
         </div>
       ) : null}
+      {refused ? <Notice tone="alarm">Not started: {refused}. One search computes at most {count(DESIGN_LIMITS.candidates)} candidates; devices with the same parameters count once.</Notice> : null}
       {search.error ? <Notice tone="alarm">{search.error}</Notice> : null}
+      {create.isError ? <Notice tone="alarm">The option was not created: {create.error.message}</Notice> : null}
       {search.result ? <Results result={search.result} onCreate={createFrom} busy={create.isPending} /> : null}
     </>
   );
 }
 
-function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => Promise<void>; busy: boolean }) {
+function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => void; busy: boolean }) {
   const top = result.candidates;
   return (
     <section className="mt-6 flex flex-col gap-4" aria-label="Design results">
@@ -153,7 +189,7 @@ function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: Desig
             <td className="p-2">{side(c.strings.positive)}</td><td className="p-2">{side(c.strings.negative)}</td>
             <td className="p-2 font-mono">{percent(c.at.thdF)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[1].dbc)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[2].dbc)}</td>
             <td className="p-2 font-mono">{c.at.fundamentalPeakV.toFixed(2)}</td><td className="p-2 font-mono">{c.distance.toFixed(3)}</td>
-            <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => void onCreate(c, i + 1)}>Create option from this</Button></td>
+            <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => onCreate(c, i + 1)}>Create option from this</Button></td>
           </tr>
         ))}</tbody>
       </table>
