@@ -25,8 +25,9 @@ const KEYS = [
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',
   'code', 'topology', 'positive', 'negative', 'carrier', 'trackingNumber', 'outcome', 'currentDrawMa', 'measuredThdPercent', 'caption',
   'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status',
+  'deviceId', 'supplierLot', 'receivedOn', 'notes', 'firstSlot', 'trayIds', 'units', 'slots', 'slot', 'vf', 'slotId', 'optionDeviceId',
 ];
-const QUERY_KEYS = ['q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
+const QUERY_KEYS = ['deviceId', 'q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
 const BAD_QUERY_VALUES = ['%00', '2026-02-31', '2026-13-45', '1e308', '-1', '2147483648', '9999999999999999999', 'abc'];
 
 // Nested shapes with bad ids and dates inside, where the schemas take arrays of objects.
@@ -45,6 +46,11 @@ const NESTED_BODIES = [
   { kind: 'receive', quantity: 1, reason: 'fuzz', batchId: Number(MISSING_ID) },
   { partId: Number(MISSING_ID) },
   { fromRevisionId: 2147483648 },
+  { readings: [{ slot: 1e308, vf: 0.6 }, { slot: 2147483648, vf: null }] },
+  { units: [{ unitId: 2147483648, slots: [{ optionDeviceId: 1e308, slotId: Number(MISSING_ID) }] }] },
+  { units: [{ unitId: Number(MISSING_ID), slots: [{ optionDeviceId: Number(MISSING_ID), slotId: Number(MISSING_ID) }] }] },
+  { deviceId: Number(MISSING_ID), supplierLot: 'L', receivedOn: '2026-02-31' },
+  { trayIds: [2147483648] },
 ];
 
 interface Attempt {
