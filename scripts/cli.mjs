@@ -14,6 +14,7 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const CLIS = {
   profile: 'scripts/profile.ts',
   design: 'scripts/design.ts',
+  match: 'scripts/match.ts',
 };
 const OUT = path.join(ROOT, 'node_modules', '.cache', 'kneepoint-cli');
 

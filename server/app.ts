@@ -23,6 +23,7 @@ import { assemblerRoutes } from './routes/assemblers';
 import { batchRoutes } from './routes/batches';
 import { boardRoutes } from './routes/board';
 import { shipmentRoutes } from './routes/shipments';
+import { trayRoutes } from './routes/trays';
 import { unitRoutes } from './routes/units';
 import { mailRoutes } from './routes/mail';
 import { orderRoutes } from './routes/orders';
@@ -88,6 +89,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...batchRoutes(knex, config),
     ...assemblerRoutes(knex),
     ...unitRoutes(knex, config),
+    ...trayRoutes(knex),
     ...shipmentRoutes(knex, config),
     ...boardRoutes(knex),
     ...specSheetRoutes(knex, config),

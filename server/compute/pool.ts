@@ -64,6 +64,7 @@ export const compute = {
   packingSlipPdf: async (input: Arg<'packingSlipPdf'>) => bytes(await run('packingSlipPdf', input)),
   wavCapture: (file: Arg<'wavCapture'>) => run('wavCapture', file),
   unitPrediction: (a: Arg<'unitPrediction'>) => run('unitPrediction', a),
+  batchMatching: (a: Arg<'batchMatching'>) => run('batchMatching', a),
 };
 
 /** Starts the pool's first thread now (a server at start-up), so the first request does not wait for it. */

@@ -3,6 +3,7 @@
 // stays free; never call them directly from a route or service, call the pool's functions instead.
 import { computeProfile, forwardVoltage, perUnitCircuit, type CircuitSpec, type DeviceModel, type MeasuredForwardVoltages } from '../../shared/engine';
 import { EngineInputError } from '../../shared/engine/errors';
+import { planBatchMatching, type PlanInput } from '../../shared/matching/batch';
 import { DomainError, invalid } from '../errors';
 import { renderPackingSlip, type SlipInput } from '../pdf/packing-slip';
 import { renderSpecSheet } from '../pdf/spec-sheet';
@@ -74,3 +75,6 @@ export const unitPrediction = ({ spec, devices, testCurrentA }: UnitPredictionIn
     throw error;
   }
 });
+
+/** A batch's device matching from its trays (shared/matching/batch.ts): engine solves for every cross pair and baseline. */
+export const batchMatching = (input: PlanInput) => outcome(() => planBatchMatching(input));

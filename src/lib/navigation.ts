@@ -32,11 +32,14 @@ export const paths = {
   buildUnit: '/builds/:id',
   benchUnit: '/bench/:id',
   shipping: '/shipping',
+  trays: '/trays',
+  tray: '/trays/:id',
 } as const;
 
 export const shopModelPath = (modelId: number) => `/shop/${modelId}`;
 export const designPath = (modelId: number) => `/catalog/models/${modelId}/design`;
 export const orderPath = (orderId: number) => `/orders/${orderId}`;
+export const trayPath = (trayId: number) => `/trays/${trayId}`;
 
 export interface NavItem {
   to: string;
@@ -54,6 +57,7 @@ export const NAV: NavItem[] = [
   // Catalog: owner and planner edit; assembler and tester read.
   { to: paths.catalogParts, label: 'Parts & stock', roles: STAFF },
   { to: paths.catalogDevices, label: 'Clipping devices', roles: STAFF },
+  { to: paths.trays, label: 'Device trays', roles: STAFF },
   { to: paths.catalogModels, label: 'Pedal models', roles: STAFF },
   { to: paths.orderDesk, label: 'Orders', roles: PLANNING },
   { to: paths.inbox, label: 'Mail inbox', roles: PLANNING },

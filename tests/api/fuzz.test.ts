@@ -28,8 +28,9 @@ const KEYS = [
   'shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
   'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
   'thdTolerancePercent', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',
+  'deviceId', 'supplierLot', 'receivedOn', 'notes', 'firstSlot', 'trayIds', 'units', 'slots', 'slot', 'vf', 'slotId', 'optionDeviceId',
 ];
-const QUERY_KEYS = ['q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
+const QUERY_KEYS = ['deviceId', 'q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
 const BAD_QUERY_VALUES = ['%00', '2026-02-31', '2026-13-45', '1e308', '-1', '2147483648', '9999999999999999999', 'abc'];
 
 // Nested shapes with bad ids and dates inside, where the schemas take arrays of objects.
@@ -52,6 +53,11 @@ const NESTED_BODIES = [
   { carriers: [{ id: Number(MISSING_ID), name: 'x', trackingUrlTemplate: 'https://x.example/{tracking}', active: true }] },
   { shippingZones: [{ id: 1e308, name: 'x', countries: ['DE', 'DE'], rateCents: -1 }] },
   { shipping: { country: 'ZZ' }, lines: [{ modelId: 1, optionId: 1, quantity: 1 }] },
+  { readings: [{ slot: 1e308, vf: 0.6 }, { slot: 2147483648, vf: null }] },
+  { units: [{ unitId: 2147483648, slots: [{ optionDeviceId: 1e308, slotId: Number(MISSING_ID) }] }] },
+  { units: [{ unitId: Number(MISSING_ID), slots: [{ optionDeviceId: Number(MISSING_ID), slotId: Number(MISSING_ID) }] }] },
+  { deviceId: Number(MISSING_ID), supplierLot: 'L', receivedOn: '2026-02-31' },
+  { trayIds: [2147483648] },
 ];
 
 interface Attempt {

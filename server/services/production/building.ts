@@ -9,6 +9,7 @@ import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
 import { lockUnit, lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
+import { slotLabelsFor } from './matching';
 import { nominalVf, predictUnit } from './unit-circuit';
 
 type Db = Knex | Knex.Transaction;
@@ -62,6 +63,7 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
   const history = await db('unit_events as e').leftJoin('users as u', 'u.id', 'e.user_id').where('e.unit_id', unitId).orderBy('e.id')
     .select('e.id', 'e.kind', 'e.from_state', 'e.to_state', 'e.message', 'e.created_at', 'u.name as user_name');
   const assembler = unit.assembler_id ? await db('users').where({ id: unit.assembler_id }).first('name') : null;
+  const fromTrays = (await slotLabelsFor(db, [unitId])).get(unitId);
   return {
     unit: {
       id: unit.id, serial: unit.serial, state: unit.state, kitted: unit.kitted_at !== null, plannedDate: unit.planned_date ? toDate(unit.planned_date) : null,
@@ -78,6 +80,8 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
     devices: devices.map((d) => ({
       optionDeviceId: d.id, side: d.side, position: d.position, name: d.name, kind: d.kind, range: vfRange(d.kind),
       nominalVf: nominalVf({ is: d.is_amps, n: d.n, rs: d.rs_ohms }, settings.vf_test_current_ma), measuredVf: d.measured_vf, outOfRange: d.out_of_range,
+      // The tray slot matched into this position (kit list and checklist name it), with the Vf it was measured at.
+      slot: fromTrays?.get(d.id) ?? null,
     })),
     lots: lots.map((l) => ({ bomLineId: l.id, designators: l.designators, partNumber: l.part_number, value: l.value, lot: l.lot })),
     photos: photos.map((p) => ({ id: p.id, url: `/api/units/${unitId}/photos/${p.id}`, caption: p.caption, createdAt: p.created_at })),

@@ -6,6 +6,7 @@ import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../..
 import { batchLabel } from '../../../shared/production/serials';
 import { conflict, invalid, notFound } from '../../errors';
 import { lockBatchRow } from '../stock/ledger';
+import { slotLabelsFor } from './matching';
 import { earliestStart, explodeBom } from './requirements';
 
 type Db = Knex | Knex.Transaction;
@@ -97,6 +98,7 @@ export async function getBatch(db: Db, batchId: number) {
     .select('u.id', 'u.serial', 'u.sequence', 'u.state', 'u.option_id', 'u.assembler_id', 'a.name as assembler_name', 'u.planned_date', 'u.kitted_at', 'c.code as option_code', 'o.number as order_number', 'o.due_at')
     .orderBy('u.sequence');
   const requirements = await explodeBom(db, batch.revision_id, openQuantities(batch.state, lines, units), batch.state === 'draft' ? null : batch.id);
+  const slots = await slotLabelsFor(db, units.map((u) => u.id as number));
   return {
     batch: {
       id: batch.id, number: batch.number, label: batchLabel(batch.number), state: batch.state as BatchState,
@@ -109,6 +111,8 @@ export async function getBatch(db: Db, batchId: number) {
     units: units.map((u) => ({
       id: u.id, serial: u.serial, sequence: u.sequence, state: u.state, assemblerId: u.assembler_id, assemblerName: u.assembler_name,
       plannedDate: u.planned_date ? toDate(u.planned_date) : null, kitted: u.kitted_at !== null, optionCode: u.option_code, orderNumber: u.order_number, dueAt: u.due_at,
+      // Tray slots matched into the unit: what the kit list says to take, e.g. ["T3-07", "T3-19"].
+      slots: [...(slots.get(u.id)?.values() ?? [])].map((s) => s.label),
     })),
     requirements,
     earliestStart: earliestStart(requirements),

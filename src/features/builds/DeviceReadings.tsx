@@ -11,7 +11,7 @@ import { useSaveReadings, type UnitDetail } from './api';
 export function DeviceReadings({ unitId, devices, testCurrentMa }: { unitId: number; devices: UnitDetail['devices']; testCurrentMa: number }) {
   const save = useSaveReadings(unitId);
   const toast = useToast();
-  const [values, setValues] = useState<Record<number, string>>(() => Object.fromEntries(devices.map((d) => [d.optionDeviceId, d.measuredVf?.toFixed(3) ?? ''])));
+  const [values, setValues] = useState<Record<number, string>>(() => Object.fromEntries(devices.map((d) => [d.optionDeviceId, d.measuredVf === null ? '' : String(Number(d.measuredVf.toFixed(4)))])));
   const [accept, setAccept] = useState(false);
   const [errors, setErrors] = useState<Record<string, string>>({});
   if (!devices.length) return <p className="text-ink-soft">This option has no clipping devices to match.</p>;
@@ -40,6 +40,7 @@ export function DeviceReadings({ unitId, devices, testCurrentMa }: { unitId: num
           return (
             <div key={d.optionDeviceId} className="flex flex-col gap-1">
               <label htmlFor={`vf-${d.optionDeviceId}`} className="font-semibold">Vf of {d.name}, {d.side} string #{d.position + 1} (V)</label>
+              {d.slot ? <p className="text-sm">Take <strong className="font-mono">{d.slot.label}</strong> from its tray (measured {d.slot.vf.toFixed(4)} V)</p> : null}
               <input id={`vf-${d.optionDeviceId}`} inputMode="decimal" value={values[d.optionDeviceId]} onChange={(e) => setValues((v) => ({ ...v, [d.optionDeviceId]: e.target.value }))}
                 aria-invalid={out || Boolean(error) || undefined} aria-describedby={`vf-${d.optionDeviceId}-hint`}
                 className={`min-h-11 rounded-md border px-3 font-mono ${out || error ? 'border-alarm-700' : 'border-spruce-700/40'}`} />

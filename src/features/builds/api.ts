@@ -8,7 +8,7 @@ export interface UnitDetail {
   unit: { id: number; serial: string; state: UnitState; kitted: boolean; plannedDate: string | null; assemblerName: string | null; modelName: string; revisionNumber: number; optionName: string; optionCode: string; predicted: { thdPercent: number; fromMeasuredVf: boolean; harmonics: { order: number; dbc: number }[] } | null };
   testCurrentMa: number;
   steps: { id: number; position: number; title: string; instructions: string; standardMinutes: number; skill: string; safetyNote: string; soldering: boolean; startedAt: string | null; finishedAt: string | null; actualMinutes: number | null }[];
-  devices: { optionDeviceId: number; side: string; position: number; name: string; kind: string; range: { min: number; max: number }; nominalVf: number; measuredVf: number | null; outOfRange: boolean }[];
+  devices: { optionDeviceId: number; side: string; position: number; name: string; kind: string; range: { min: number; max: number }; nominalVf: number; measuredVf: number | null; outOfRange: boolean; slot: { label: string; vf: number } | null }[];
   lots: { bomLineId: number; designators: string; partNumber: string; value: string; lot: string | null }[];
   photos: { id: number; url: string; caption: string }[];
   tests: { id: number; outcome: 'pass' | 'fail'; reason: string; createdAt: string }[];

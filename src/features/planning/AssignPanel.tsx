@@ -31,6 +31,7 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
     },
     { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <span className="font-mono text-sm">{row.original.serial}</span> },
     { accessorKey: 'optionCode', header: 'Option' },
+    { id: 'slots', header: 'Devices from trays', enableSorting: false, cell: ({ row }) => (row.original.slots.length ? <span className="font-mono text-sm">{row.original.slots.join(' + ')}</span> : '—') },
     { accessorKey: 'orderNumber', header: 'For', cell: ({ row }) => row.original.orderNumber ?? 'stock' },
     { accessorKey: 'assemblerName', header: 'Builder', cell: ({ row }) => row.original.assemblerName ?? '—' },
     { accessorKey: 'plannedDate', header: 'Planned day', cell: ({ row }) => row.original.plannedDate ?? '—' },

@@ -9,6 +9,7 @@ import { BatchSpecSheets } from '../../components/spec-sheets';
 import { useToast } from '../../components/ui/toast';
 import { useFormatters } from '../../lib/format';
 import { useBatch, useCancelBatch, useKitBatch, useReleaseBatch, useReserveStock, type BatchDetail } from './api';
+import { MatchingPanel } from './MatchingPanel';
 import { AssignPanel } from './AssignPanel';
 import { RequirementsTable } from './RequirementsTable';
 
@@ -78,6 +79,14 @@ function KittingPanel({ detail }: { detail: BatchDetail }) {
     <section aria-labelledby="kitting-heading" className="grid gap-3 rounded-lg bg-white p-6 shadow-sm">
       <h2 id="kitting-heading" className="text-xl font-bold text-spruce-900">Kitting</h2>
       <p>{kitted} of {open.length} units kitted.</p>
+      {open.some((u) => u.slots.length) ? (
+        <div>
+          <h3 className="font-bold">Kit list: clipping devices from trays</h3>
+          <ul className="grid gap-1 sm:grid-cols-2">
+            {open.filter((u) => u.slots.length).map((u) => <li key={u.id}><span className="font-mono text-sm">{u.serial}</span>: take <strong className="font-mono">{u.slots.join(' and ')}</strong></li>)}
+          </ul>
+        </div>
+      ) : null}
       <div className="flex flex-wrap gap-2">
         <Button variant="secondary" busy={reserve.isPending} onClick={() => reserve.mutate(undefined, {
           onSuccess: (r) => toast(r.stillShort ? `Held ${r.reserved} parts for the batch; ${r.stillShort} still short` : `Held ${r.reserved} parts for the batch: nothing short`),
@@ -131,6 +140,7 @@ export default function BatchPage() {
         {d.batch.state === 'draft' ? <ReleasePanel detail={d} /> : null}
         {d.batch.state === 'releasing' && d.release ? <ReleaseProgress release={d.release} /> : null}
         {released ? <KittingPanel detail={d} /> : null}
+        {['released', 'on_bench'].includes(d.batch.state) ? <MatchingPanel detail={d} /> : null}
         {released ? <AssignPanel detail={d} /> : null}
         {released ? <BatchSpecSheets batchId={id} label={d.batch.label} /> : null}
       </div>

@@ -3,14 +3,16 @@ import type { ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, Crea
 import { listSearch, type Page } from '../../../shared/schemas/list';
 import type { BatchState, UnitState } from '../../../shared/production/states';
 import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
+import type { AcceptMatchInput, MatchProposalInput } from '../../../shared/schemas/trays';
 import { api } from '../../lib/api';
+import { trayKeys, type MatchProposal } from '../trays/api';
 
 export interface BatchRow { id: number; number: number; label: string; state: BatchState; modelName: string; revisionNumber: number; units: number; releasedAt: string | null; createdAt: string }
 export interface Requirement {
   partId: number; partNumber: string; description: string; supplier: string | null; leadTimeDays: number;
   baseQuantity: number; optionQuantity: number; required: number; available: number; reservedForBatch: number; consumedForBatch: number; shortage: number;
 }
-export interface BatchUnit { id: number; serial: string; sequence: number; state: UnitState; assemblerId: number | null; assemblerName: string | null; plannedDate: string | null; kitted: boolean; optionCode: string; orderNumber: string | null; dueAt: string | null }
+export interface BatchUnit { id: number; serial: string; sequence: number; state: UnitState; assemblerId: number | null; assemblerName: string | null; plannedDate: string | null; kitted: boolean; optionCode: string; orderNumber: string | null; dueAt: string | null; slots: string[] }
 export interface BatchDetail {
   batch: { id: number; label: string; state: BatchState; modelName: string; revisionNumber: number; revisionLabel: string; notes: string; shortageOverrideReason: string | null; releasedAt: string | null; plannedStart: string | null };
   lines: { id: number; quantity: number; optionCode: string; optionName: string; orderNumber: string | null; dueAt: string | null }[];
@@ -71,3 +73,13 @@ export function useUpdateAssembler() {
 }
 export const useCancelUnit = () => useBatchMutation(({ unitId, reason }: { unitId: number; reason: string }) => api.post(`/api/units/${unitId}/cancel`, { reason }));
 export const useApplyAssignments = (id: number) => useBatchMutation((input: ApplyAssignmentsInput) => api.post<{ assigned: number; late: number[] }>(`/api/batches/${id}/assignments`, input));
+
+/** Which tray slots go into which unit: a proposal (nothing written), then accepting it. */
+export const useProposeMatching = (id: number) => useMutation({ mutationFn: (input: Partial<MatchProposalInput>) => api.post<MatchProposal>(`/api/batches/${id}/matching/proposal`, input) });
+export function useAcceptMatching(id: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: AcceptMatchInput) => api.post<{ batchId: number; matched: number }>(`/api/batches/${id}/matching`, input),
+    onSuccess: () => Promise.all([client.invalidateQueries({ queryKey: keys.all }), client.invalidateQueries({ queryKey: trayKeys.all })]),
+  });
+}
