@@ -1,18 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import express from 'express';
 import { execFile } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
-import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { DEMO, DEMO_PASSWORD } from '../support/app';
+import { SCREENSHOTS, signIn, useBrowserApp } from '../support/browser';
 
 const run = promisify(execFile);
-const t = startTestApp();
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
+const env = useBrowserApp({ wrap: withClient });
 const stamp = `${process.pid}${Date.now() % 100000}`;
 const work = mkdtempSync(path.join(tmpdir(), 'kp-catalog-'));
 
@@ -27,28 +24,10 @@ function withClient(app: express.Express) {
   return outer;
 }
 
-beforeAll(async () => {
-  server = await listen(withClient(t.app));
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t.stop();
-});
-
-async function signIn(page: Page, email: string) {
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL('**/board');
-}
-
 describe('the catalog in a browser', () => {
   it('a planner imports a BOM from CSV after fixing a bad row, adds a clipping option and sees its profile', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 1000 } });
-    await signIn(page, DEMO.planner);
+    const page = await env.browser.newPage({ viewport: { width: 1366, height: 1000 } });
+    await signIn(page, env.url, DEMO.planner);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Pedal models' }).click();
     await page.getByRole('table', { name: 'Pedal models' }).getByRole('link', { name: 'Saltmarsh Drive' }).waitFor();
 
@@ -80,7 +59,7 @@ describe('the catalog in a browser', () => {
     expect(await bom.getByRole('row').count()).toBe(5);
 
     await page.getByRole('link', { name: `Back to ${name}` }).click();
-    const [si, red] = await Promise.all(['si-small-signal', 'led-red'].map((k) => t.knex('devices').where({ preset_key: k }).first('id')));
+    const [si, red] = await Promise.all(['si-small-signal', 'led-red'].map((k) => env.t.knex('devices').where({ preset_key: k }).first('id')));
     const form = page.getByRole('heading', { name: 'Add a clipping option' }).locator('..');
     await form.getByLabel('Name', { exact: true }).fill('Silicon against red LED');
     await form.getByLabel('Code').fill('SIRED');
@@ -116,8 +95,8 @@ describe('the catalog in a browser', () => {
       const cells = await row.locator('th,td').allTextContents();
       if (cells.length >= 2 && cells[0] !== 'Harmonic') shown[cells[0]] = cells[cells.length - 1];
     }
-    const model = await t.knex('models').where({ name }).first('id');
-    const owner = await import('supertest').then((m) => m.default.agent(t.app));
+    const model = await env.t.knex('models').where({ name }).first('id');
+    const owner = await import('supertest').then((m) => m.default.agent(env.t.app));
     const csrf = (await owner.get('/api/auth/csrf')).body.csrfToken;
     await owner.post('/api/auth/login').set('X-CSRF-Token', csrf).send({ email: DEMO.planner, password: DEMO_PASSWORD });
     const detail = (await owner.get(`/api/models/${model.id}`)).body.model;
@@ -136,9 +115,9 @@ describe('the catalog in a browser', () => {
   }, 120_000);
 
   it('shows the parts list with low stock highlighted, and frozen revisions offer a new one', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 1000 } });
-    await signIn(page, DEMO.planner);
-    await page.goto(`${server.url}/catalog/parts`);
+    const page = await env.browser.newPage({ viewport: { width: 1366, height: 1000 } });
+    await signIn(page, env.url, DEMO.planner);
+    await page.goto(`${env.url}/catalog/parts`);
     const table = page.getByRole('table', { name: 'Parts with their stock' });
     await table.getByRole('link').first().waitFor();
     // The list is filtered on the server: count rows only once the filtered page has arrived.
@@ -149,9 +128,9 @@ describe('the catalog in a browser', () => {
     await expect.poll(async () => (await table.getByRole('row').count()) - 1 - (await table.getByText('below reorder point').count())).toBe(0);
     expect(await table.getByText('below reorder point').count()).toBeGreaterThan(0);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-parts-low-stock.png'), fullPage: true });
-    const smd = await t.knex('models').where({ sku: 'HM-SMD' }).first('id');
-    const rev1 = await t.knex('model_revisions').where({ model_id: smd.id, number: 1 }).first('id');
-    await page.goto(`${server.url}/catalog/revisions/${rev1.id}`);
+    const smd = await env.t.knex('models').where({ sku: 'HM-SMD' }).first('id');
+    const rev1 = await env.t.knex('model_revisions').where({ model_id: smd.id, number: 1 }).first('id');
+    await page.goto(`${env.url}/catalog/revisions/${rev1.id}`);
     await page.getByText(/Frozen since/).waitFor();
     expect(await page.getByRole('button', { name: /Start revision \d+ from this one/ }).isVisible()).toBe(true);
     expect(await page.getByRole('button', { name: 'Save drive stage' }).count()).toBe(0);
@@ -173,9 +152,9 @@ describe('the catalog in a browser', () => {
   }, 60_000);
 
   it('adds a custom device from datasheet points, draws I–V curves, and compares options on the same axes', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 1000 } });
-    await signIn(page, DEMO.planner);
-    await page.goto(`${server.url}/catalog/devices`);
+    const page = await env.browser.newPage({ viewport: { width: 1366, height: 1000 } });
+    await signIn(page, env.url, DEMO.planner);
+    await page.goto(`${env.url}/catalog/devices`);
     const library = page.getByRole('table', { name: 'Clipping device library' });
     await library.getByText('LED, red').waitFor();
     await page.getByLabel('Device name').fill(`Amber LED ${stamp}`);
@@ -190,9 +169,9 @@ describe('the catalog in a browser', () => {
     await page.getByRole('img', { name: 'Forward I–V curves at 27 °C' }).waitFor();
     await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-devices.png'), fullPage: true });
 
-    const cpd = await t.knex('models').where({ sku: 'HM-CPD' }).first('id');
-    const ids = await t.knex('clipping_options').where({ model_id: cpd.id }).whereIn('code', ['RECT2', 'BLU2', 'GE2']).orderBy('position').pluck('id');
-    await page.goto(`${server.url}/catalog/models/${cpd.id}/compare?options=${ids.join(',')}`);
+    const cpd = await env.t.knex('models').where({ sku: 'HM-CPD' }).first('id');
+    const ids = await env.t.knex('clipping_options').where({ model_id: cpd.id }).whereIn('code', ['RECT2', 'BLU2', 'GE2']).orderBy('position').pluck('id');
+    await page.goto(`${env.url}/catalog/models/${cpd.id}/compare?options=${ids.join(',')}`);
     const side = page.getByRole('table', { name: 'Side by side at the reference setting' });
     await side.getByRole('row').nth(3).waitFor({ timeout: 30_000 });
     expect(await side.getByRole('row').count()).toBe(4);

@@ -1,35 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { DEMO } from '../support/app';
+import { SCREENSHOTS, signIn, useBrowserApp } from '../support/browser';
 
-const t = startTestApp();
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
-
-beforeAll(async () => {
-  server = await listen(t.app);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t.stop();
-});
-
-async function signIn(page: Page, email: string) {
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL('**/board');
-}
+const env = useBrowserApp();
 
 describe('the option designer in a browser', () => {
   it('the owner runs a small search, cancels a large one, and creates an option from a candidate', async () => {
-    const page = await browser.newPage({ viewport: { width: 1366, height: 1100 } });
-    await signIn(page, DEMO.owner);
+    const page = await env.browser.newPage({ viewport: { width: 1366, height: 1100 } });
+    await signIn(page, env.url, DEMO.owner);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Pedal models' }).click();
     await page.getByRole('table', { name: 'Pedal models' }).getByRole('link', { name: 'Saltmarsh Drive' }).click();
     await page.getByRole('link', { name: 'Design an option' }).click();

@@ -1,8 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { DEMO } from '../support/app';
+import { SCREENSHOTS, signIn, useBrowserApp } from '../support/browser';
 
 const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> = {
   owner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Mail inbox', 'People & roles', 'My account'] },
@@ -12,28 +11,13 @@ const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> =
   customer: { home: '/shop', nav: ['Pedals', 'My orders', 'My account'] },
 };
 
-const t = startTestApp();
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
-
-beforeAll(async () => {
-  server = await listen(t.app);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t.stop();
-});
+const env = useBrowserApp();
 
 describe('the app shell in a browser', () => {
   for (const role of Object.keys(EXPECTED_NAV) as (keyof typeof DEMO)[]) {
     it(`signs in as ${role}, lands on its start page and sees its navigation`, async () => {
-      const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
-      await page.goto(`${server.url}/sign-in`);
-      await page.getByLabel('E-mail').fill(DEMO[role]);
-      await page.getByLabel('Password').fill(DEMO_PASSWORD);
-      await page.getByRole('button', { name: 'Sign in' }).click();
+      const page = await env.browser.newPage({ viewport: { width: 1280, height: 800 } });
+      await signIn(page, env.url, DEMO[role]);
       await page.waitForURL(`**${EXPECTED_NAV[role].home}`);
       // The start page is lazy: the shell shows once its code has loaded.
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link').first().waitFor();
@@ -47,8 +31,8 @@ describe('the app shell in a browser', () => {
   }
 
   it('says a failed sign-in in words and stays on the page', async () => {
-    const page = await browser.newPage();
-    await page.goto(`${server.url}/sign-in`);
+    const page = await env.browser.newPage();
+    await page.goto(`${env.url}/sign-in`);
     await page.getByLabel('E-mail').fill(DEMO.owner);
     await page.getByLabel('Password').fill('wrong password');
     await page.getByRole('button', { name: 'Sign in' }).click();
@@ -58,8 +42,8 @@ describe('the app shell in a browser', () => {
   });
 
   it('shows a page-not-found page for an unknown address', async () => {
-    const page = await browser.newPage();
-    await page.goto(`${server.url}/no/such/page`);
+    const page = await env.browser.newPage();
+    await page.goto(`${env.url}/no/such/page`);
     // The page is a lazy route: wait for it to load instead of checking at once.
     await page.getByRole('heading', { name: 'Page not found' }).waitFor();
     await expect(page.getByRole('heading', { name: 'Page not found' }).isVisible()).resolves.toBe(true);

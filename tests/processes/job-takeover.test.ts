@@ -37,17 +37,23 @@ describe('a sheet job whose worker is killed', () => {
     const [job] = await t.knex('sheet_jobs').insert({ batch_id: batch.batchId, total: UNITS, requested_by: planner }).returning('id');
     await wakeJob(t.knex, SHEET_JOBS_LOOP);
 
-    // Kill A once it has done at least two units but not all of them.
+    // Once A has done two units it is frozen mid-job (SIGSTOP: no more units, no heartbeat), a second
+    // worker starts (as under npm start's supervisor or on a second machine), and when that one is up
+    // A is killed. What is timed is the takeover, not how long a cold process takes to start.
     await waitFor('worker A to do two units', async () => (await t.knex('sheet_jobs').where({ id: job.id }).first('done')).done >= 2, 90_000, 20);
+    first.child.kill('SIGSTOP');
+    // What A had committed when it froze (a commit already sent reaches PostgreSQL within moments).
+    await new Promise((resolve) => setTimeout(resolve, 500));
+    const atKill = await t.knex('sheet_jobs').where({ id: job.id }).first('state', 'done', 'lease_token');
+    const second = startRole('worker', 'takeover-worker-b');
+    await printed(second, WORKER_READY, 180_000);
     first.child.kill('SIGKILL');
     await exited(first.child);
     const killedAt = Date.now();
-    const atKill = await t.knex('sheet_jobs').where({ id: job.id }).first('state', 'done', 'lease_token');
     expect(atKill.state).toBe('running');
     expect(atKill.done).toBeLessThan(UNITS); // killed mid-job, not after it
     const leaseA = atKill.lease_token as string;
 
-    const second = startRole('worker', 'takeover-worker-b');
     const finished = await waitFor('another worker to finish the job', async () => {
       const row = await t.knex('sheet_jobs').where({ id: job.id }).first();
       return row.state === 'finished' && row;

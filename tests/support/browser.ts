@@ -1,8 +1,10 @@
-import { chromium, type Browser } from 'playwright-core';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
+import { DEMO_PASSWORD, startTestApp } from './app';
 
 export const SCREENSHOTS = path.resolve('test-results');
 
@@ -24,4 +26,41 @@ export async function listen(app: Express) {
   await new Promise((resolve) => server.once('listening', resolve));
   const { port } = server.address() as AddressInfo;
   return { url: `http://127.0.0.1:${port}`, close: () => new Promise((resolve) => server.close(resolve)) };
+}
+
+/** Where a browser test's app runs: the test app, its URL, and one headless Chromium. */
+export interface BrowserApp {
+  t: ReturnType<typeof startTestApp>;
+  url: string;
+  browser: Browser;
+}
+
+/**
+ * The usual start of a browser test: the app on a real port (wrapped by `wrap`, e.g. to serve a client
+ * built elsewhere), one Chromium, and all three closed after the file's tests.
+ */
+export function useBrowserApp(options: { env?: Record<string, string>; wrap?: (app: Express) => Express } = {}): BrowserApp {
+  const env = {} as BrowserApp;
+  let server: Awaited<ReturnType<typeof listen>> | undefined;
+  beforeAll(async () => {
+    env.t = startTestApp(options.env);
+    server = await listen(options.wrap ? options.wrap(env.t.app) : env.t.app);
+    env.url = server.url;
+    env.browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await env.browser?.close();
+    await server?.close();
+    await env.t?.stop();
+  });
+  return env;
+}
+
+/** Signs in on the sign-in page as a demo account and waits until the app has left that page. */
+export async function signIn(page: Page, baseUrl: string, email: string, password = DEMO_PASSWORD) {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
 }
