@@ -26,7 +26,7 @@ describe('the option designer in a browser', () => {
     const bar = page.getByRole('progressbar', { name: 'Candidates computed' });
     await bar.waitFor();
     // The bar's maximum is the whole space: ≥ 8 distinct stocked devices in the demo seeds, 4 per side.
-    expect(Number(await bar.getAttribute('max'))).toBeGreaterThan(1000);
+    await expect.poll(async () => Number(await bar.getAttribute('max'))).toBeGreaterThan(1000);
     await page.getByRole('button', { name: 'Cancel' }).click();
     await page.getByText(/^Cancelled: \d+ of \d+ candidates computed/).waitFor({ timeout: 30_000 });
 
