@@ -4,6 +4,7 @@
 // substring). Prints figures and targets; asserts nothing.
 import autocannon from 'autocannon';
 import { spawn, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import http from 'node:http';
 import path from 'node:path';
 import { createInterface } from 'node:readline';
@@ -88,7 +89,12 @@ async function runApiBench() {
   const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
   await knex.destroy();
 
-  const env = { ...process.env, DATABASE_URL: url, NODE_ENV: 'production', SESSION_SECRET: 'test-secret-bench-session', PORT: '0' };
+  // Production refuses the repository's published secrets, so each run makes its own.
+  const secret = () => randomBytes(24).toString('hex');
+  const env = {
+    ...process.env, DATABASE_URL: url, NODE_ENV: 'production', PORT: '0',
+    SESSION_SECRET: secret(), PAYMENTS_API_KEY: secret(), PAYMENTS_WEBHOOK_SECRET: secret(), COOKIE_SECURE: 'false',
+  };
   const app = await startServer('app', env);
   const baseline = await startServer('baseline', env);
   try {

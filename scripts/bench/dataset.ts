@@ -214,7 +214,7 @@ export async function ensureDataset(databaseUrl: string, scale: number, log = co
     });
     // The ledger was written in bulk, past the ledger service: set each part's balance to its sum.
     await rebuildBalances(knex);
-    await knex.raw('ANALYZE');
+    await knex.raw('VACUUM ANALYZE');
     const s = await summary(knex, scale);
     const differences = await compareBalances(knex);
     if (differences.length) throw new Error(`${differences.length} part balances differ from the ledger after generating`);

@@ -4,9 +4,16 @@
 // when the new one is at least TOUCH_INTERVAL_MS later; the UPDATE repeats the check, so several
 // processes sharing the table still write at most once a minute. A week's session loses at most
 // a minute of its life.
+//
+// The same read also fetches the signed-in account's row (active accounts only), so a signed-in
+// request costs one query before its handler instead of two; passport's deserializeUser takes it
+// from `userLoadedWithSession` (server/auth/session.ts). It is read on every request as before, so
+// deactivation and role changes still act at once.
 import connectPgSimple from 'connect-pg-simple';
 import session, { type SessionData } from 'express-session';
 import type pg from 'pg';
+import type { SessionUser } from '../../shared/roles';
+import { toSessionUser, type UserRow } from '../services/users';
 
 const PgStore = connectPgSimple(session);
 export const TOUCH_INTERVAL_MS = 60_000;
@@ -15,7 +22,20 @@ export const TOUCH_INTERVAL_MS = 60_000;
 // builds from it and later hands to touch(). Weak, so finished requests leave nothing behind.
 const storedExpiry = new WeakMap<object, number>();
 const STORED = Symbol('stored expiry');
-type Loaded = SessionData & { [STORED]?: number };
+const USER = Symbol('account read with the session');
+type Loaded = SessionData & { [STORED]?: number; [USER]?: SessionUser | null };
+// The account read with each loaded session (null: the session names no active account).
+const loadedUsers = new WeakMap<object, SessionUser | null>();
+
+/**
+ * The account row read together with this request's session: a SessionUser, null when the session
+ * names no active account (deactivated, or signed out), undefined when the session did not come from
+ * the store in this request (then the caller reads the account itself).
+ */
+export const userLoadedWithSession = (sess: object | undefined): SessionUser | null | undefined => (sess ? loadedUsers.get(sess) : undefined);
+
+// The account id in a stored session, as text; only plain integers are looked up.
+const SESSION_USER_ID = `CASE WHEN s.sess->'passport'->>'user' ~ '^[0-9]{1,9}$' THEN (s.sess->'passport'->>'user')::int END`;
 
 const expiryOf = (sess: SessionData) => (sess.cookie?.expires ? new Date(sess.cookie.expires).getTime() : Date.now());
 
@@ -27,12 +47,15 @@ export class ThrottledPgStore extends PgStore {
   override get(sid: string, callback: (err: unknown, session?: SessionData | null) => void): void {
     // "expire" is a timestamp without zone, written through to_timestamp(): read it back through the
     // same zone in SQL, as epoch milliseconds, so the comparison never depends on Node's zone.
-    const sql = `SELECT sess, extract(epoch FROM expire::timestamptz)::float8 * 1000 AS expire_ms FROM "session" WHERE sid = $1 AND expire >= now()`;
-    this.pool.query<{ sess: Loaded; expire_ms: number }>(sql, [sid]).then(
+    const sql = `SELECT s.sess, extract(epoch FROM s.expire::timestamptz)::float8 * 1000 AS expire_ms, to_jsonb(u) - 'password_hash' AS account
+      FROM "session" s LEFT JOIN users u ON u.active AND u.id = ${SESSION_USER_ID}
+      WHERE s.sid = $1 AND s.expire >= now()`;
+    this.pool.query<{ sess: Loaded; expire_ms: number; account: UserRow | null }>(sql, [sid]).then(
       ({ rows: [row] }) => {
         if (!row) return callback(null, null);
         const sess = typeof row.sess === 'string' ? (JSON.parse(row.sess) as Loaded) : row.sess;
         sess[STORED] = row.expire_ms;
+        sess[USER] = row.account ? toSessionUser(row.account) : null;
         callback(null, sess);
       },
       (error: unknown) => callback(error),
@@ -41,8 +64,10 @@ export class ThrottledPgStore extends PgStore {
 
   override createSession(req: Parameters<session.Store['createSession']>[0], sess: Loaded) {
     const stored = sess[STORED];
+    const user = sess[USER];
     const created = super.createSession(req, sess);
     if (stored !== undefined) storedExpiry.set(created, stored);
+    if (user !== undefined) loadedUsers.set(created, user);
     return created;
   }
 

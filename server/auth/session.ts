@@ -1,3 +1,4 @@
+import type { IncomingMessage } from 'node:http';
 import session from 'express-session';
 import passport from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
@@ -6,7 +7,7 @@ import type { Knex } from 'knex';
 import type { SessionUser } from '../../shared/roles';
 import type { Config } from '../config';
 import { authenticate, findActiveUser } from '../services/users';
-import { ThrottledPgStore } from './session-store';
+import { ThrottledPgStore, userLoadedWithSession } from './session-store';
 
 const WEEK_MS = 7 * 24 * 3600 * 1000;
 
@@ -38,7 +39,14 @@ export function createPassport(knex: Knex) {
     }),
   );
   instance.serializeUser((user, done) => done(null, (user as SessionUser).id));
-  instance.deserializeUser((id: number, done) => {
+  // The session store read the account with the session (one query); a session made in this
+  // request (just signed in) has none, so it is read here.
+  instance.deserializeUser<number, IncomingMessage>((req, id, done) => {
+    const loaded = userLoadedWithSession((req as IncomingMessage & { session?: object }).session);
+    if (loaded === null || (loaded && loaded.id === id)) {
+      done(null, loaded ?? false);
+      return;
+    }
     findActiveUser(knex, id).then(
       (user) => done(null, user ?? false),
       (error) => done(error),

@@ -11,7 +11,7 @@ const HASH_ROUNDS = 12;
 // Compared against when the e-mail is unknown, so a miss costs as long as a wrong password.
 const DUMMY_HASH = bcrypt.hashSync('kneepoint-no-such-user', HASH_ROUNDS);
 
-interface UserRow {
+export interface UserRow {
   id: number;
   email: string;
   name: string;
@@ -22,7 +22,8 @@ interface UserRow {
   updated_at: Date | Knex.Raw;
 }
 
-const toSessionUser = (row: UserRow): SessionUser => ({ id: row.id, email: row.email, name: row.name, role: row.role });
+/** The fields of an account a request carries (also used by the session store's combined read). */
+export const toSessionUser = (row: Pick<UserRow, 'id' | 'email' | 'name' | 'role'>): SessionUser => ({ id: row.id, email: row.email, name: row.name, role: row.role });
 
 export const hashPassword = (password: string) => bcrypt.hash(password, HASH_ROUNDS);
 

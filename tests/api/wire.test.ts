@@ -159,3 +159,28 @@ describe('session expiry', () => {
     expect(await row(sid)).toEqual(touched);
   });
 });
+
+describe('the account read with the session', () => {
+  it('costs no query of its own on a signed-in request, and still follows role changes and deactivation at once', async () => {
+    const owner = await signedInAgent(t.app, DEMO.owner);
+    const email = `session-read-${Date.now()}@shop.example`;
+    const created = await owner.post('/api/users').set('X-CSRF-Token', owner.csrf).send({ name: 'Session Read', email, role: 'assembler', password: 'first-password-1' }).expect(201);
+    const person = await signedInAgent(t.app, email, 'first-password-1');
+
+    let accountReads = 0;
+    const count = (q: { sql: string }) => { if (/from "users"/i.test(q.sql)) accountReads += 1; };
+    t.knex.on('query', count);
+    try {
+      const me = await person.get('/api/auth/me').expect(200);
+      expect(me.body.user).toMatchObject({ email, role: 'assembler' });
+      expect(accountReads).toBe(0);
+    } finally {
+      t.knex.off('query', count);
+    }
+
+    await owner.patch(`/api/users/${created.body.user.id}`).set('X-CSRF-Token', owner.csrf).send({ role: 'tester' }).expect(200);
+    expect((await person.get('/api/auth/me').expect(200)).body.user.role).toBe('tester');
+    await owner.patch(`/api/users/${created.body.user.id}`).set('X-CSRF-Token', owner.csrf).send({ active: false }).expect(200);
+    await person.get('/api/auth/me').expect(401);
+  });
+});

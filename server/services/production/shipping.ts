@@ -32,13 +32,15 @@ const STOCK_LIST_LIMIT = 100;
  * in `shipmentList`, so this never grows with the shop's history.
  */
 export async function shippingQueue(db: Db, params: ShippingListQuery) {
-  const base = () => {
-    const q = db('orders as o').join('users as u', 'u.id', 'o.customer_id').whereIn('o.state', params.state ? [params.state] : [...SHIPPING_STATES]);
+  // Every order has its customer (a foreign key): the count joins customers only to search their names.
+  const base = (withCustomer = true) => {
+    const q = db('orders as o').whereIn('o.state', params.state ? [params.state] : [...SHIPPING_STATES]);
+    if (withCustomer) q.join('users as u', 'u.id', 'o.customer_id');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('o.ship_name', like)); }
     return q;
   };
   const orders = await paged(params, {
-    count: base(),
+    count: base(Boolean(params.q)),
     rows: base().select('o.id', 'o.number', 'o.state', 'o.due_at', 'o.ship_name', 'o.ship_city', 'o.ship_country', 'u.name as customer_name')
       .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state <> 'cancelled') AS units"))
       .select(db.raw("(SELECT COUNT(*)::int FROM units WHERE order_id = o.id AND state IN ('passed', 'shipped')) AS passed")),
@@ -53,10 +55,14 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
     ? await db('order_lines').whereIn('order_id', orders.items.map((o) => o.id)).groupBy('order_id').select('order_id', db.raw('SUM(quantity)::int AS ordered'))
     : [];
   const ordered = new Map(sums.map((r: { order_id: number; ordered: number }) => [r.order_id, r.ordered]));
-  const stock = await db('units as u').join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
+  // Passed builds first (they wait for someone), then the newest stock: the newest of each state
+  // come from the finished-stock index (migration 20261204160000), and only those are joined.
+  const newest = (state: 'passed' | 'in_stock') => db('units').where({ state }).whereNull('order_id')
+    .select('id', 'serial', 'state', 'option_id', 'batch_id').orderBy('id', 'desc').limit(STOCK_LIST_LIMIT);
+  const stock = await db.from(db.unionAll([newest('passed'), newest('in_stock')], true).as('u'))
+    .join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
-    .whereIn('u.state', ['passed', 'in_stock']).whereNull('u.order_id').select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
-    // Passed builds first (they wait for someone), then the newest stock.
+    .select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
     .orderByRaw("u.state = 'passed' DESC, u.id DESC").limit(STOCK_LIST_LIMIT);
   const stockByOption = new Map<number, number>();
   for (const u of await db('units').where({ state: 'in_stock' }).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
