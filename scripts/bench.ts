@@ -1,7 +1,8 @@
 // `npm run bench [-- SECTION …]`: prints timing figures, section by section (never asserts timings).
-// Words given run the sections with that key (engine, sheets, loop, jobs, wire, client, design, api); none given runs
+// Words given run the sections with that key (engine, cli, sheets, loop, jobs, wire, client, design, api); none given runs
 // all but `api` (HTTP load over the production-size dataset, a few minutes): `npm run bench -- api [--scale 5]`.
 import { apiSection } from './bench/api';
+import { cliSection } from './bench/cli';
 import { clientSection } from './bench/client';
 import { designSection } from './bench/design';
 import { engineSection, type BenchSection } from './bench/engine';
@@ -10,7 +11,7 @@ import { specSheetSection } from './bench/spec-sheets';
 import { loopSection } from './bench/loop';
 import { wireSection } from './bench/wire';
 
-export const sections: BenchSection[] = [engineSection, specSheetSection, loopSection, jobsSection, wireSection, clientSection, designSection, apiSection];
+export const sections: BenchSection[] = [engineSection, cliSection, specSheetSection, loopSection, jobsSection, wireSection, clientSection, designSection, apiSection];
 
 async function main(): Promise<void> {
   const args = process.argv.slice(2);

@@ -1,7 +1,9 @@
 // `npm run bench -- api [--scale 5]`: HTTP load on every list route over a production-size
 // dataset, against a bare Express + pg baseline measured in the same run. Only 127.0.0.1, 50
 // connections, 10 s a route (KP_BENCH_SECONDS overrides, KP_BENCH_ROUTES picks routes by
-// substring). Prints figures and targets; asserts nothing.
+// substring). Then the web process's event-loop delay while a worker process (the product's own,
+// `scripts/serve.ts worker`) renders a 100-unit spec-sheet archive requested through the API.
+// Prints figures and targets; asserts nothing.
 import autocannon from 'autocannon';
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
@@ -11,6 +13,8 @@ import { createInterface } from 'node:readline';
 import { fileURLToPath } from 'node:url';
 import { gzipSync } from 'node:zlib';
 import { createKnex } from '../../server/db/knex';
+import { createBatch } from '../../server/services/production/planning';
+import { releaseBatch } from '../../server/services/production/release';
 import { benchDatabaseUrl, ensureDataset, scaleFromArgs } from './dataset';
 import type { BenchSection } from './engine';
 
@@ -20,12 +24,15 @@ const SECONDS = Number(process.env.KP_BENCH_SECONDS ?? 10);
 const TARGET_RATIO = 3;
 const TARGET_PAGE_GZIP = 64 * 1024;
 const PASSWORD = 'kneepoint-demo';
+const ARCHIVE_UNITS = 100;
+const ARCHIVE_NOTE = 'api bench: 100-unit spec-sheet archive';
+const TARGET_LOOP_P99_MS = 50;
 
 interface Route { label: string; path: string; as: 'planner' | 'owner' | 'assembler' | 'customer' }
 
 /** Starts one of the two servers in its own process and waits for its port. */
 async function startServer(role: 'app' | 'baseline', env: NodeJS.ProcessEnv): Promise<{ child: ChildProcess; base: string }> {
-  const child = spawn(path.join(ROOT, 'node_modules', '.bin', 'tsx'), ['scripts/bench/api-servers.ts', role], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'inherit'] });
+  const child = spawn(process.execPath, ['--import', 'tsx', 'scripts/bench/api-servers.ts', role], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'inherit', 'ipc'] });
   const lines = createInterface({ input: child.stdout! });
   const port = await new Promise<number>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`${role} server did not start in 60 s`)), 60_000);
@@ -46,8 +53,8 @@ function fetchRaw(url: string, headers: Record<string, string>): Promise<{ statu
   });
 }
 
-/** Signs in through the API as a browser would and returns the session cookie. */
-async function signIn(base: string, email: string): Promise<string> {
+/** Signs in through the API as a browser would and returns the session cookie (and the CSRF token for writes). */
+async function signInWithToken(base: string, email: string): Promise<{ cookie: string; csrf: string }> {
   const csrf = await fetch(`${base}/api/auth/csrf`);
   const cookie = (csrf.headers.getSetCookie()[0] ?? '').split(';')[0];
   const { csrfToken } = (await csrf.json()) as { csrfToken: string };
@@ -56,7 +63,101 @@ async function signIn(base: string, email: string): Promise<string> {
     body: JSON.stringify({ email, password: PASSWORD }),
   });
   if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`);
-  return (res.headers.getSetCookie()[0] ?? cookie).split(';')[0];
+  const body = (await res.json()) as { csrfToken?: string };
+  return { cookie: (res.headers.getSetCookie()[0] ?? cookie).split(';')[0], csrf: body.csrfToken ?? csrfToken };
+}
+const signIn = async (base: string, email: string) => (await signInWithToken(base, email)).cookie;
+
+/**
+ * A released batch of 100 units (25 of each of four options of a demo model) whose sheets the
+ * archive measurement renders. Made once in the dataset and kept, so every run's board sees it.
+ */
+async function ensureArchiveBatch(url: string): Promise<number> {
+  const knex = createKnex(url, 2);
+  try {
+    const existing = await knex('batches').where({ notes: ARCHIVE_NOTE }).whereNot('state', 'cancelled').first('id');
+    if (existing) return existing.id as number;
+    const model = await knex('models as m').whereNotNull('m.active_revision_id')
+      .whereRaw('(SELECT COUNT(*) FROM clipping_options c WHERE c.model_id = m.id) >= 4').orderBy('m.sku').first('m.id', 'm.active_revision_id');
+    const options = await knex('clipping_options').where({ model_id: model.id }).orderBy(['position', 'id']).limit(4);
+    const planner = await knex('users').where({ email: 'planner@shop.example' }).first('id');
+    const { id } = await createBatch(knex, planner.id, {
+      revisionId: model.active_revision_id, orderLineIds: [], notes: ARCHIVE_NOTE,
+      stockBuilds: options.map((o) => ({ optionId: o.id, quantity: ARCHIVE_UNITS / 4 })),
+    });
+    await releaseBatch(knex, planner.id, id, { overrideReason: 'api bench: stock not checked' }, '', ARCHIVE_UNITS);
+    return id as number;
+  } finally {
+    await knex.destroy();
+  }
+}
+
+/** The web process's event-loop delay (p99 and max, ms) and /api/health latencies while `work` runs. */
+async function watchWeb(app: ChildProcess, base: string, work: () => Promise<void>) {
+  const health: number[] = [];
+  let running = true;
+  const poller = (async () => {
+    while (running) {
+      const t = performance.now();
+      await fetch(`${base}/api/health`).then((r) => r.arrayBuffer());
+      health.push(performance.now() - t);
+      await new Promise((resolve) => setTimeout(resolve, 20));
+    }
+  })();
+  const reply = new Promise<{ p99: number; max: number }>((resolve) => app.once('message', (m) => resolve(m as { p99: number; max: number })));
+  app.send('loop:start');
+  const started = performance.now();
+  await work();
+  const seconds = (performance.now() - started) / 1000;
+  app.send('loop:stop');
+  const loop = await reply;
+  running = false;
+  await poller;
+  health.sort((a, b) => a - b);
+  return { ...loop, seconds, healthP95: quantile(health, 0.95), polls: health.length };
+}
+
+/**
+ * Requests the archive of the 100-unit batch through the API and waits for a worker process to
+ * finish it, watching the web process meanwhile; prints one line and returns the p99.
+ */
+async function archiveUnderWatch(app: { child: ChildProcess; base: string }, env: NodeJS.ProcessEnv, url: string, batchId: number) {
+  const knex = createKnex(url, 1);
+  // Cold, as the first archive of a new option is: the option's Monte Carlo band is computed too.
+  await knex('sheet_band_cache').delete();
+  const worker = spawn(process.execPath, ['--import', 'tsx', 'scripts/serve.ts', 'worker'], { cwd: ROOT, env: { ...env, KP_ROLE: 'worker' }, stdio: ['ignore', 'pipe', 'inherit'] });
+  try {
+    await new Promise<void>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error('the worker did not start in 60 s')), 60_000);
+      worker.once('exit', (code) => reject(new Error(`the worker exited with ${code}`)));
+      createInterface({ input: worker.stdout! }).on('line', (line) => { if (line.includes('is running the background jobs')) { clearTimeout(timer); resolve(); } });
+    });
+    const floor = await watchWeb(app.child, app.base, () => new Promise((resolve) => setTimeout(resolve, 3000)));
+    const planner = await signInWithToken(app.base, 'planner@shop.example');
+    let jobState = '';
+    const watched = await watchWeb(app.child, app.base, async () => {
+      const res = await fetch(`${app.base}/api/batches/${batchId}/spec-sheets`, { method: 'POST', headers: { cookie: planner.cookie, 'x-csrf-token': planner.csrf } });
+      if (res.status >= 300) throw new Error(`requesting the archive answered ${res.status}`);
+      const { job } = (await res.json()) as { job: { id: number } };
+      for (;;) {
+        await new Promise((resolve) => setTimeout(resolve, 500));
+        const poll = await fetch(`${app.base}/api/spec-sheet-jobs/${job.id}`, { headers: { cookie: planner.cookie } });
+        jobState = ((await poll.json()) as { job: { state: string } }).job.state;
+        if (jobState !== 'queued' && jobState !== 'running') return;
+      }
+    });
+    console.log(`api archive of ${ARCHIVE_UNITS} units in a worker process: ${jobState} in ${watched.seconds.toFixed(1)} s; web event-loop p99 ${watched.p99.toFixed(0)} ms, max ${watched.max.toFixed(0)} ms` +
+      ` (idle floor p99 ${floor.p99.toFixed(0)} ms); /api/health p95 ${ms(watched.healthP95)} ms over ${watched.polls} polls — target p99 < ${TARGET_LOOP_P99_MS} ms ${watched.p99 < TARGET_LOOP_P99_MS ? 'met' : 'NOT met'}`);
+  } finally {
+    worker.kill('SIGTERM');
+    await new Promise((resolve) => { if (worker.exitCode !== null) resolve(null); else worker.once('exit', resolve); });
+    // The archive and its per-unit rows are the bench's own: leave the dataset as it was.
+    const files = await knex('sheet_jobs').where({ batch_id: batchId }).whereNotNull('archive_file_id').pluck('archive_file_id');
+    await knex('sheet_job_units').whereIn('job_id', knex('sheet_jobs').where({ batch_id: batchId }).select('id')).delete();
+    await knex('sheet_jobs').where({ batch_id: batchId }).delete();
+    if (files.length) await knex('files').whereIn('id', files).delete();
+    await knex.destroy();
+  }
 }
 
 const quantile = (sorted: number[], q: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] : NaN);
@@ -84,6 +185,7 @@ async function runApiBench() {
   const url = benchDatabaseUrl();
   console.log(`\n## API under load (${CONNECTIONS} connections, ${SECONDS} s a route, scale ${scale})`);
   const dataset = await ensureDataset(url, scale);
+  const archiveBatch = await ensureArchiveBatch(url);
   const knex = createKnex(url, 1);
   // A batch of about 50 units for the detail page, and a customer with orders for "my orders".
   const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
@@ -94,6 +196,8 @@ async function runApiBench() {
   const env = {
     ...process.env, DATABASE_URL: url, NODE_ENV: 'production', PORT: '0',
     SESSION_SECRET: secret(), PAYMENTS_API_KEY: secret(), PAYMENTS_WEBHOOK_SECRET: secret(), COOKIE_SECURE: 'false',
+    // Nothing listens there: the bench's worker must not deliver the dataset's mail anywhere.
+    SMTP_PORT: '1',
   };
   const app = await startServer('app', env);
   const baseline = await startServer('baseline', env);
@@ -142,6 +246,7 @@ async function runApiBench() {
     }
     console.log(`api: worst p95 ratio ${worst.ratio.toFixed(1)} (${worst.label}) at ${CONNECTIONS} connections, ${dataset.units} units` +
       ` — target ≤ ${TARGET_RATIO} for every route, no page over 64 KiB gzip`);
+    if (process.env.KP_BENCH_ARCHIVE !== '0') await archiveUnderWatch(app, env, url, archiveBatch);
   } finally {
     app.child.kill('SIGTERM');
     baseline.child.kill('SIGTERM');

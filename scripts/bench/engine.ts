@@ -48,7 +48,7 @@ function time(fn: () => unknown, budgetMs = 400, minReps = 5): Timing {
 }
 
 /** CPU time of this process's finished children so far, ms (Linux /proc; clock ticks of 10 ms). */
-function childCpuMs(): number {
+export function childCpuMs(): number {
   try {
     const stat = readFileSync('/proc/self/stat', 'utf8');
     const f = stat.slice(stat.lastIndexOf(')') + 2).split(' ');

@@ -95,7 +95,7 @@ async function runLoopBench() {
       const { job } = await requestBatchSheets(knex, planner, batchId);
       const claimed = await claimSheetJob(knex);
       if (!claimed || claimed.id !== job.id) throw new Error('another sheet job is waiting in this database: run on a quiet test database');
-      const archive = await measure(base, () => runSheetJob(knex, job.id, config.publicUrl));
+      const archive = await measure(base, () => runSheetJob(knex, job.id, claimed.lease, config.publicUrl));
       line(`archive ${UNITS} units, ${label}`, archive);
       results[label] = archive.p99;
       const profiles = await measure(base, async () => {

@@ -1,0 +1,58 @@
+// `npm run bench -- cli`: the profile CLI as a user runs it, whole processes, from the esbuild bundle
+// (scripts/cli.mjs). Three ways in: the bare bundle, the launcher that checks the bundle is fresh
+// (what `npm run profile` runs), and `npm run --silent profile` itself. Target: under 150 ms.
+// Prints wall (median) and CPU per run (children's CPU from /proc, robust to a loaded machine).
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { childCpuMs, type BenchSection } from './engine';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
+const TARGET_MS = 150;
+// An asymmetric shunt pair with a capacitor: one operating point, as the contract documents.
+const INPUT = {
+  toneHz: 1000, inputPeakV: 0.1, driveGain: 20, railPeakV: 3, harmonics: 10,
+  clipper: { topology: 'shunt', seriesOhms: 2200, shuntFarads: 1e-8, positive: [{ preset: 'si-small-signal' }], negative: [{ preset: 'led-red' }] },
+};
+
+/** Runs the command `reps` times: median wall ms and mean CPU ms per run. */
+function measure(command: string, args: string[], reps: number) {
+  const walls: number[] = [];
+  const cpu0 = childCpuMs();
+  for (let i = 0; i < reps; i++) {
+    const t = performance.now();
+    const r = spawnSync(command, args, { cwd: ROOT, encoding: 'utf8' });
+    walls.push(performance.now() - t);
+    if (r.status !== 0) throw new Error(`${command} ${args.join(' ')} exited ${r.status}: ${r.stderr}`);
+    JSON.parse(r.stdout); // a run counts only when it printed its one JSON object
+  }
+  walls.sort((a, b) => a - b);
+  return { wall: walls[Math.floor(reps / 2)], cpu: (childCpuMs() - cpu0) / reps };
+}
+
+function runCliBench() {
+  console.log(`\nProfile CLI (whole processes; median wall, mean CPU per run; target < ${TARGET_MS} ms)`);
+  const dir = mkdtempSync(path.join(os.tmpdir(), 'kneepoint-cli-bench-'));
+  try {
+    const file = path.join(dir, 'input.json');
+    writeFileSync(file, JSON.stringify(INPUT));
+    // The first run builds the bundle when it is missing or stale; it is not measured.
+    measure(process.execPath, ['scripts/cli.mjs', 'profile', file], 1);
+    const rows: [string, string, string[], number][] = [
+      ['bundle (node …/kneepoint-cli/profile.mjs)', process.execPath, [path.join('node_modules', '.cache', 'kneepoint-cli', 'profile.mjs'), file], 11],
+      ['launcher (node scripts/cli.mjs profile)', process.execPath, ['scripts/cli.mjs', 'profile', file], 11],
+      ['npm run --silent profile', 'npm', ['run', '--silent', 'profile', '--', file], 5],
+    ];
+    for (const [label, command, args, reps] of rows) {
+      const m = measure(command, args, reps);
+      console.log(`  cli ${label.padEnd(44)} wall ${m.wall.toFixed(0).padStart(4)} ms, cpu ${m.cpu.toFixed(0).padStart(4)} ms (${reps} runs)` +
+        `${label.startsWith('launcher') ? ` — target < ${TARGET_MS} ms: wall ${m.wall < TARGET_MS ? 'met' : 'NOT met'}, cpu ${m.cpu < TARGET_MS ? 'met' : 'NOT met'} (on a loaded machine read the cpu figure)` : ''}`);
+    }
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+export const cliSection: BenchSection = { key: 'cli', name: 'profile CLI', run: runCliBench };
