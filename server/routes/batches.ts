@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { PLANNING } from '../../shared/roles';
 import type { Config } from '../config';
-import { applyAssignmentsSchema, batchListSchema, cancelSchema, createBatchSchema, proposePlanSchema, releaseBatchSchema } from '../../shared/schemas/production';
+import { applyAssignmentsSchema, batchListSchema, cancelSchema, candidateLinesSchema, createBatchSchema, proposePlanSchema, releaseBatchSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { pathId } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
@@ -15,7 +15,7 @@ const batchId = (req: Parameters<typeof pathId>[0]) => pathId(req, 'id', 'batch'
 export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl' | 'RELEASE_CHUNK_UNITS'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/batches', allow: PLANNING, handler: async (req, res) => res.json(await listBatches(knex, parseWith(batchListSchema, req.query))) },
-    { method: 'get', path: '/api/batches/candidates', allow: PLANNING, handler: async (_req, res) => res.json(await planningCandidates(knex)) },
+    { method: 'get', path: '/api/batches/candidates', allow: PLANNING, handler: async (req, res) => res.json(await planningCandidates(knex, parseWith(candidateLinesSchema, req.query))) },
     {
       method: 'post', path: '/api/batches', allow: PLANNING,
       handler: async (req, res) => res.status(201).json(await createBatch(knex, currentUser(req).id, parseWith(createBatchSchema, req.body))),

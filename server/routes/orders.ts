@@ -3,7 +3,7 @@ import type { Request } from 'express';
 import { z } from 'zod';
 import { text } from '../../shared/schemas/common';
 import type { Config } from '../config';
-import { markDeliveredSchema, orderFilterSchema, orderNoteSchema, placeOrderSchema } from '../../shared/schemas/orders';
+import { markDeliveredSchema, myOrdersSchema, orderFilterSchema, orderNoteSchema, placeOrderSchema } from '../../shared/schemas/orders';
 import { CUSTOMERS, ORDER_CANCELLERS, PLANNING } from '../../shared/roles';
 import { parseWith } from '../errors';
 import { pathId } from '../http/params';
@@ -21,7 +21,7 @@ const orderId = (req: Request) => pathId(req, 'id', 'order');
 export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
   const payments = { stripe: createPaymentsClient(config), config };
   return [
-    { method: 'get', path: '/api/orders/mine', allow: CUSTOMERS, handler: async (req, res) => res.json({ orders: await orders.myOrders(knex, currentUser(req)) }) },
+    { method: 'get', path: '/api/orders/mine', allow: CUSTOMERS, handler: async (req, res) => res.json(await orders.myOrders(knex, currentUser(req), parseWith(myOrdersSchema, req.query))) },
     {
       method: 'post', path: '/api/orders', allow: CUSTOMERS,
       handler: async (req, res) => {

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { ASSEMBLY, BENCH, PLANNING, STAFF, TESTING } from '../../shared/roles';
 import type { Config } from '../config';
-import { benchListSchema, benchTestSchema, CAPTURE_LIMITS, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
+import { benchListSchema, buildListSchema, benchTestSchema, CAPTURE_LIMITS, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
 import { invalid, parseWith } from '../errors';
 import { pathId } from '../http/params';
 import { singleUpload } from '../http/upload';
@@ -14,7 +14,7 @@ const PHOTO_MAX_BYTES = 8 * 1024 * 1024;
 
 export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
-    { method: 'get', path: '/api/builds', allow: ASSEMBLY, handler: async (req, res) => res.json({ builds: await myBuilds(knex, currentUser(req).id) }) },
+    { method: 'get', path: '/api/builds', allow: ASSEMBLY, handler: async (req, res) => res.json(await myBuilds(knex, currentUser(req).id, parseWith(buildListSchema, req.query))) },
     { method: 'get', path: '/api/bench', allow: BENCH, handler: async (req, res) => res.json(await benchQueue(knex, parseWith(benchListSchema, req.query))) },
     { method: 'get', path: '/api/units/:id', allow: STAFF, handler: async (req, res) => res.json(await getUnit(knex, currentUser(req), pathId(req, 'id', 'unit'))) },
     {

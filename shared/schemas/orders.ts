@@ -53,6 +53,12 @@ export const orderFilterSchema = listQuery(ORDER_SORT_KEYS, { sort: 'createdAt',
 });
 export type OrderFilter = z.infer<typeof orderFilterSchema>;
 
+/** A customer's own orders, newest first, a page at a time (five years of orders add up). */
+export const myOrdersSchema = listQuery(['createdAt', 'number', 'totalCents'] as const, { sort: 'createdAt', dir: 'desc', pageSize: 10 }, {
+  state: z.enum(ORDER_STATES, { message: 'Choose a status from the list' }).optional(),
+});
+export type MyOrdersQuery = z.infer<typeof myOrdersSchema>;
+
 export const orderNoteSchema = z.object({
   note: str().trim().min(1, 'Write the note first').max(2000, 'Use at most 2000 characters'),
 });

@@ -101,5 +101,15 @@ export const shipmentListSchema = listQuery(['shippedAt', 'number', 'carrier', '
 export type ShipmentListQuery = z.infer<typeof shipmentListSchema>;
 
 /** Units built and waiting for their bench test. */
+/** The paid order lines waiting for a batch, for the plan form: a page at a time, for one model when `modelId` is given. */
+export const candidateLinesSchema = listQuery(['dueAt', 'number', 'customerName'] as const, { sort: 'dueAt', dir: 'asc' }, {
+  modelId: idOf('Not a valid model id').optional(),
+});
+export type CandidateLinesQuery = z.infer<typeof candidateLinesSchema>;
+
+/** An assembler's own queue: `queue` is build order (rework, then on the bench, then by planned day); `q` finds a serial or pedal. */
+export const buildListSchema = listQuery(['queue', 'plannedDate', 'serial', 'modelName'] as const, { sort: 'queue', dir: 'asc' });
+export type BuildListQuery = z.infer<typeof buildListSchema>;
+
 export const benchListSchema = listQuery(['serial', 'builtAt', 'modelName'] as const, { sort: 'builtAt', dir: 'asc' });
 export type BenchListQuery = z.infer<typeof benchListSchema>;

@@ -96,9 +96,9 @@ describe('who sees which order', () => {
     await other.post(`/api/orders/${order.id}/cancel`).set('X-CSRF-Token', other.csrf).send({}).expect(404);
     await other.post(`/api/orders/${order.id}/checkout`).set('X-CSRF-Token', other.csrf).send({}).expect(404);
     const mine = await other.get('/api/orders/mine').expect(200);
-    expect(mine.body.orders.map((o: { id: number }) => o.id)).not.toContain(order.id);
+    expect(mine.body.items.map((o: { id: number }) => o.id)).not.toContain(order.id);
     const own = await customer.get('/api/orders/mine').expect(200);
-    expect(own.body.orders.map((o: { id: number }) => o.id)).toContain(order.id);
+    expect(own.body.items.map((o: { id: number }) => o.id)).toContain(order.id);
     const staff = await planner.get(`/api/orders/${order.id}`).expect(200);
     expect(staff.body.order.customer.email).toBe(DEMO.customer);
     const assembler = await signedInAgent(t.app, DEMO.assembler);

@@ -66,10 +66,12 @@ describe('building, testing and shipping a unit', () => {
     expect([404, 409]).toContain(notKitted.status);
     const other = await priya.get(`/api/units/${units[0].id}`);
     expect(other.status).toBe(403);
-    const queue = await priya.get('/api/builds').expect(200);
-    expect(queue.body.builds.map((b: { id: number }) => b.id)).not.toContain(units[0].id);
-    const mine = await juno.get('/api/builds').expect(200);
-    expect(mine.body.builds.map((b: { id: number }) => b.id)).toContain(units[0].id);
+    // The queue is paged; a search by serial finds the unit whatever else is queued.
+    const queue = await priya.get(`/api/builds?q=${units[0].serial}`).expect(200);
+    expect(queue.body.items.map((b: { id: number }) => b.id)).not.toContain(units[0].id);
+    const mine = await juno.get(`/api/builds?q=${units[0].serial}`).expect(200);
+    expect(mine.body.items.map((b: { id: number }) => b.id)).toContain(units[0].id);
+    expect(mine.body.total).toBeGreaterThanOrEqual(1);
   });
 
   it('walks the whole path: kit, build with measured Vf, fail to rework, pass, order ready, ship with a packing slip, deliver', async () => {

@@ -10,8 +10,12 @@ describe('batch planning and release', () => {
     const planner = await signedInAgent(t.app, DEMO.planner);
     const c = await makeCatalog(t.knex);
     const order = await makePaidOrder(t.knex, c.modelId, c.options.sym, 2);
-    const candidates = await planner.get('/api/batches/candidates').expect(200);
-    expect(candidates.body.orderLines.map((l: { id: number }) => l.id)).toContain(order.lineId);
+    // The waiting lines come a page at a time, here for this test's own model only.
+    const candidates = await planner.get(`/api/batches/candidates?modelId=${c.modelId}`).expect(200);
+    expect(candidates.body.orderLines.items.map((l: { id: number }) => l.id)).toContain(order.lineId);
+    expect(candidates.body.orderLines.items.every((l: { modelId: number }) => l.modelId === c.modelId)).toBe(true);
+    expect(candidates.body.orderLines).toMatchObject({ total: 1, page: 1 });
+    expect(candidates.body.revisions.some((r: { id: number }) => r.id === c.revisionId)).toBe(true);
     const created = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf)
       .send({ revisionId: c.revisionId, orderLineIds: [order.lineId], stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
     const batch = await planner.get(`/api/batches/${created.body.id}`).expect(200);
@@ -22,8 +26,9 @@ describe('batch planning and release', () => {
     expect(row(c.parts.led)).toMatchObject({ required: 1 });
     expect(batch.body.batch.state).toBe('draft');
     // A pulled line is no longer offered to another batch.
-    const again = await planner.get('/api/batches/candidates').expect(200);
-    expect(again.body.orderLines.map((l: { id: number }) => l.id)).not.toContain(order.lineId);
+    const again = await planner.get(`/api/batches/candidates?modelId=${c.modelId}`).expect(200);
+    expect(again.body.orderLines.items.map((l: { id: number }) => l.id)).not.toContain(order.lineId);
+    expect(again.body.orderLines.total).toBe(0);
     const twice = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [order.lineId] });
     expect(twice.status).toBe(409);
   });

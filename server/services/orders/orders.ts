@@ -1,7 +1,7 @@
 import { PLANNING } from '../../../shared/roles';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
-import type { OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
+import type { MyOrdersQuery, OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
 import type { OrderState } from '../../../shared/order-states';
 import { notFound } from '../../errors';
 import { containsPattern, paged } from '../../http/paged';
@@ -137,11 +137,19 @@ export function publicOrder(o: OrderRow) {
   };
 }
 
-/** The customer's own orders, newest first, each with its lines. */
-export async function myOrders(knex: Knex, user: SessionUser) {
-  const orders = (await knex('orders').where({ customer_id: user.id }).orderBy('created_at', 'desc').orderBy('id', 'desc')) as OrderRow[];
-  const lines = await linesOf(knex, orders.map((o) => o.id));
-  return orders.map((o) => ({ ...publicOrder(o), lines: lines.filter((l) => l.order_id === o.id) }));
+const MY_ORDER_SORT: Record<MyOrdersQuery['sort'], string> = { createdAt: 'created_at', number: 'id', totalCents: 'total_cents' };
+
+/** The customer's own orders, one page at a time (newest first unless asked), each with its lines; `q` finds an order number. */
+export async function myOrders(knex: Knex, user: SessionUser, params: MyOrdersQuery) {
+  const base = () => {
+    const q = knex('orders').where({ customer_id: user.id });
+    if (params.state) q.where({ state: params.state });
+    if (params.q) q.whereILike('number', containsPattern(params.q));
+    return q;
+  };
+  const page = await paged(params, { count: base(), rows: base().select('*'), sortColumns: MY_ORDER_SORT, tieBreak: 'id', map: (o: OrderRow) => o });
+  const lines = await linesOf(knex, page.items.map((o) => o.id));
+  return { ...page, items: page.items.map((o) => ({ ...publicOrder(o), lines: lines.filter((l) => l.order_id === o.id) })) };
 }
 
 const ORDER_SORT: Record<OrderFilter['sort'], string> = {

@@ -1,9 +1,10 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
-import type { DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
+import type { BuildListQuery, DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
 import { isVfOutOfRange, vfRange } from '../../../shared/production/forward-voltage';
 import { PHOTO_TYPES } from '../../../shared/schemas/catalog';
 import { conflict, forbidden, invalid, notFound } from '../../errors';
+import { containsPattern, paged } from '../../http/paged';
 import { imageTypeOf } from '../image-type';
 import { transitionOrder } from '../orders/transitions';
 import { getSettings } from '../settings';
@@ -24,16 +25,29 @@ function assertBuilder(user: SessionUser, unit: { assembler_id: number | null; s
 }
 
 /** The assembler's queue, in build order. */
-export async function myBuilds(db: Db, userId: number) {
-  const rows = await db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
-    .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id')
-    .where('u.assembler_id', userId).whereIn('u.state', ['waiting', 'building', 'rework'])
-    .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name',
+const BUILD_SORT: Record<BuildListQuery['sort'], string> = { queue: 'queue_rank', plannedDate: 'u.planned_date', serial: 'u.serial', modelName: 'm.name' };
+
+export async function myBuilds(db: Db, userId: number, params: BuildListQuery) {
+  const base = () => {
+    const q = db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id')
+      .where('u.assembler_id', userId).whereIn('u.state', ['waiting', 'building', 'rework']);
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('u.serial', like).orWhereILike('m.name', like).orWhereILike('c.name', like)); }
+    return q;
+  };
+  return paged(params, {
+    count: base(),
+    rows: base().select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name',
       db.raw('(SELECT COUNT(*)::int FROM build_steps s WHERE s.revision_id = b.revision_id) AS steps'),
-      db.raw('(SELECT COUNT(*)::int FROM unit_steps us WHERE us.unit_id = u.id AND us.finished_at IS NOT NULL) AS steps_done'))
-    .orderByRaw("CASE u.state WHEN 'rework' THEN 0 WHEN 'building' THEN 1 ELSE 2 END").orderBy(['u.planned_date', 'u.queue_position', 'u.id']);
-  return rows.map((r) => ({ id: r.id, serial: r.serial, state: r.state, plannedDate: r.planned_date ? toDate(r.planned_date) : null, kitted: r.kitted_at !== null, modelName: r.model_name, optionName: r.option_name, steps: r.steps, stepsDone: r.steps_done }));
+      db.raw('(SELECT COUNT(*)::int FROM unit_steps us WHERE us.unit_id = u.id AND us.finished_at IS NOT NULL) AS steps_done'),
+      // Build order over the whole queue (rework, then on the bench, then by planned day), so pages follow it.
+      db.raw("row_number() OVER (ORDER BY CASE u.state WHEN 'rework' THEN 0 WHEN 'building' THEN 1 ELSE 2 END, u.planned_date, u.queue_position, u.id) AS queue_rank")),
+    sortColumns: BUILD_SORT, tieBreak: 'u.id',
+    map: (r: BuildRowDb) => ({ queueRank: Number(r.queue_rank), id: r.id, serial: r.serial, state: r.state, plannedDate: r.planned_date ? toDate(r.planned_date) : null, kitted: r.kitted_at !== null, modelName: r.model_name, optionName: r.option_name, steps: r.steps, stepsDone: r.steps_done }),
+  });
 }
+
+interface BuildRowDb { queue_rank: string; id: number; serial: string; state: string; planned_date: Date | null; kitted_at: Date | null; model_name: string; option_name: string; steps: number; steps_done: number }
 
 /** Everything the unit page shows: checklist, devices to match, lots, photos, tests and history. */
 export async function getUnit(db: Db, user: SessionUser, unitId: number) {

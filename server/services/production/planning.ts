@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { stringify } from 'csv-stringify/sync';
-import type { BatchListQuery, CreateBatchInput } from '../../../shared/schemas/production';
+import type { BatchListQuery, CandidateLinesQuery, CreateBatchInput } from '../../../shared/schemas/production';
 import { containsPattern, paged } from '../../http/paged';
 import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../../shared/production/states';
 import { batchLabel } from '../../../shared/production/serials';
@@ -12,28 +12,42 @@ import { earliestStart, explodeBom } from './requirements';
 type Db = Knex | Knex.Transaction;
 
 /** Revisions a batch can be planned for, with the paid order lines still waiting for a batch. */
-export async function planningCandidates(db: Db) {
+const CANDIDATE_SORT: Record<CandidateLinesQuery['sort'], string> = { dueAt: 'o.due_at', number: 'o.id', customerName: 'u.name' };
+
+/** What a new batch can be made of: every model revision with its options, and one page of the paid order lines waiting for a batch. */
+export async function planningCandidates(db: Db, params: CandidateLinesQuery) {
   const revisions = await db('model_revisions as r').join('models as m', 'm.id', 'r.model_id')
     .select('r.id', 'r.number', 'r.label', 'r.frozen_at', 'm.id as model_id', 'm.name as model_name', 'm.active_revision_id')
     .orderBy(['m.name', { column: 'r.number', order: 'desc' }]);
   const options = await db('clipping_options').select('id', 'model_id', 'code', 'name').orderBy(['model_id', 'position', 'id']);
-  const lines = await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
-    .where('o.state', 'paid').whereNull('l.batch_id')
-    .whereNotExists((q) => q.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereNot('b.state', 'cancelled'))
-    .select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.description', 'o.number as order_number', 'o.due_at', 'u.name as customer_name')
-    .orderBy([{ column: 'o.due_at', order: 'asc', nulls: 'last' }, 'l.id']);
+  const base = () => {
+    const q = db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
+      .where('o.state', 'paid').whereNull('l.batch_id')
+      .whereNotExists((w) => w.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereNot('b.state', 'cancelled'));
+    if (params.modelId) q.where('l.model_id', params.modelId);
+    if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('l.description', like)); }
+    return q;
+  };
+  const orderLines = await paged(params, {
+    count: base(),
+    rows: base().select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.description', 'o.number as order_number', 'o.due_at', 'u.name as customer_name'),
+    sortColumns: CANDIDATE_SORT, tieBreak: 'l.id',
+    map: (l: CandidateLineRow) => ({
+      id: l.id, modelId: l.model_id, optionId: l.option_id, quantity: l.quantity, description: l.description,
+      orderNumber: l.order_number, dueAt: l.due_at, customerName: l.customer_name,
+    }),
+  });
   return {
     revisions: revisions.map((r) => ({
       id: r.id, modelId: r.model_id, modelName: r.model_name, number: r.number, label: r.label,
       active: r.active_revision_id === r.id, frozen: r.frozen_at !== null,
       options: options.filter((o) => o.model_id === r.model_id).map((o) => ({ id: o.id, code: o.code, name: o.name })),
     })),
-    orderLines: lines.map((l) => ({
-      id: l.id, modelId: l.model_id, optionId: l.option_id, quantity: l.quantity, description: l.description,
-      orderNumber: l.order_number, dueAt: l.due_at, customerName: l.customer_name,
-    })),
+    orderLines,
   };
 }
+
+interface CandidateLineRow { id: number; model_id: number; option_id: number; quantity: number; description: string; order_number: string; due_at: Date | null; customer_name: string }
 
 /** A new batch in planning, pulling the given order lines and stock builds. All or nothing. */
 export async function createBatch(knex: Knex, userId: number, input: CreateBatchInput) {

@@ -1,29 +1,35 @@
 import type { ColumnDef } from '@tanstack/react-table';
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
 import { Link } from 'react-router';
 import { UNIT_STATE_LABELS } from '../../../shared/production/states';
 import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useSession } from '../auth/api';
+import type { BuildListQuery } from '../../../shared/schemas/production';
 import { useMyBuilds, type BuildRow } from './api';
 
 /** The assembler's own queue, rework first, then what is on the bench, then by planned day. */
 export default function BuildsPage() {
-  const builds = useMyBuilds();
+  const [view, setView] = useState<{ sort: BuildListQuery['sort']; dir: 'asc' | 'desc'; page: number }>({ sort: 'queue', dir: 'asc', page: 1 });
+  const builds = useMyBuilds(view);
   const { data: user } = useSession();
   const columns = useMemo<ColumnDef<BuildRow, unknown>[]>(() => [
+    { id: 'queue', accessorKey: 'queueRank', header: 'Build order', cell: ({ row }) => <span className="num">{row.original.queueRank}</span> },
     { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Link to={`/builds/${row.original.id}`} className="inline-flex min-h-11 items-center whitespace-nowrap font-mono font-semibold text-spruce-800 underline">{row.original.serial}</Link> },
-    { accessorKey: 'modelName', header: 'Pedal', cell: ({ row }) => `${row.original.modelName} — ${row.original.optionName}` },
+    { id: 'modelName', accessorKey: 'modelName', header: 'Pedal', cell: ({ row }) => `${row.original.modelName} — ${row.original.optionName}` },
     { accessorKey: 'plannedDate', header: 'Planned day', cell: ({ row }) => row.original.plannedDate ?? '—' },
-    { accessorKey: 'stepsDone', header: 'Steps', cell: ({ row }) => `${row.original.stepsDone} of ${row.original.steps}` },
-    { accessorKey: 'state', header: 'State', cell: ({ row }) => `${UNIT_STATE_LABELS[row.original.state]}${row.original.kitted ? '' : ' · waiting for its kit'}` },
+    { accessorKey: 'stepsDone', header: 'Steps', enableSorting: false, cell: ({ row }) => `${row.original.stepsDone} of ${row.original.steps}` },
+    { accessorKey: 'state', header: 'State', enableSorting: false, cell: ({ row }) => `${UNIT_STATE_LABELS[row.original.state]}${row.original.kitted ? '' : ' · waiting for its kit'}` },
   ], []);
   return (
     <>
       <PageHeader title="My builds" />
       {builds.isPending ? <Loading /> : builds.isError ? <ErrorState error={builds.error} retry={() => builds.refetch()} />
-        : builds.data.length === 0 ? <EmptyState title={`Nothing assigned to you yet${user ? `, ${user.name.split(' ')[0]}` : ''}`}>Units assigned to you appear here in build order.</EmptyState>
-        : <DataTable data={builds.data} columns={columns} caption="My builds" rowClassName={(r) => (r.state === 'rework' ? 'bg-amber-400/20' : '')} />}
+        : builds.data.total === 0 ? <EmptyState title={`Nothing assigned to you yet${user ? `, ${user.name.split(' ')[0]}` : ''}`}>Units assigned to you appear here in build order.</EmptyState>
+        : <DataTable data={builds.data.items} columns={columns} caption="My builds" rowClassName={(r) => (r.state === 'rework' ? 'bg-amber-400/20' : '')} server={{
+            sort: view.sort, dir: view.dir, page: builds.data, noun: ['unit', 'units'],
+            onSort: (sort, dir) => setView({ sort: sort as BuildListQuery['sort'], dir, page: 1 }), onPage: (page) => setView((v) => ({ ...v, page })),
+          }} />}
     </>
   );
 }

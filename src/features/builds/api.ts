@@ -1,9 +1,10 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
+import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { listSearch, type Page } from '../../../shared/schemas/list';
+import type { BuildListQuery, DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
 import type { UnitState } from '../../../shared/production/states';
 import { api } from '../../lib/api';
 
-export interface BuildRow { id: number; serial: string; state: UnitState; plannedDate: string | null; kitted: boolean; modelName: string; optionName: string; steps: number; stepsDone: number }
+export interface BuildRow { queueRank: number; id: number; serial: string; state: UnitState; plannedDate: string | null; kitted: boolean; modelName: string; optionName: string; steps: number; stepsDone: number }
 export interface UnitDetail {
   unit: { id: number; serial: string; state: UnitState; kitted: boolean; plannedDate: string | null; assemblerName: string | null; modelName: string; revisionNumber: number; optionName: string; optionCode: string; predicted: { thdPercent: number; fromMeasuredVf: boolean; harmonics: { order: number; dbc: number }[] } | null };
   testCurrentMa: number;
@@ -17,13 +18,17 @@ export interface UnitDetail {
 
 const keys = {
   all: ['builds'] as const,
-  mine: () => [...keys.all, 'mine'] as const,
+  mine: (params: BuildListParams) => [...keys.all, 'mine', params] as const,
   unit: (id: number) => [...keys.all, 'unit', id] as const,
 };
 
-export const myBuildsQuery = () => queryOptions({ queryKey: keys.mine(), queryFn: () => api.get<{ builds: BuildRow[] }>('/api/builds').then((b) => b.builds) });
+/** What the assembler's queue asks for: sort and page (the server's defaults fill the rest). */
+export type BuildListParams = Partial<BuildListQuery>;
+/** One page of the assembler's own queue, in build order unless asked otherwise. */
+export const myBuildsQuery = (params: BuildListParams) =>
+  queryOptions({ queryKey: keys.mine(params), queryFn: () => api.get<Page<BuildRow>>(`/api/builds${listSearch(params)}`), placeholderData: keepPreviousData });
 export const buildUnitQuery = (id: number) => queryOptions({ queryKey: keys.unit(id), queryFn: () => api.get<UnitDetail>(`/api/units/${id}`) });
-export const useMyBuilds = () => useQuery(myBuildsQuery());
+export const useMyBuilds = (params: BuildListParams) => useQuery(myBuildsQuery(params));
 export const useBuildUnit = (id: number) => useQuery(buildUnitQuery(id));
 
 function useUnitMutation<I, O>(fn: (input: I) => Promise<O>) {

@@ -1,4 +1,6 @@
+import { useState } from 'react';
 import { Link } from 'react-router';
+import { Pager } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useFormatters } from '../../lib/format';
 import { orderPath, paths } from '../../lib/navigation';
@@ -6,18 +8,20 @@ import { useMyOrders } from './api';
 import { OrderProgress } from './OrderProgress';
 
 export default function MyOrdersPage() {
-  const orders = useMyOrders();
+  // Newest first, ten to a page: a regular customer's five years of orders stay quick to open.
+  const [page, setPage] = useState(1);
+  const orders = useMyOrders({ page });
   const { money, date } = useFormatters();
   return (
     <>
       <PageHeader title="My orders" />
       {orders.isPending ? <Loading label="Loading your orders…" /> : null}
       {orders.isError ? <ErrorState error={orders.error} retry={() => orders.refetch()} /> : null}
-      {orders.data?.length === 0 ? (
+      {orders.data?.total === 0 ? (
         <EmptyState title="No orders yet"><Link to={paths.shop} className="font-semibold text-copper-700 underline">Choose a pedal</Link></EmptyState>
       ) : null}
       <ul className="flex flex-col gap-4">
-        {orders.data?.map((o) => (
+        {orders.data?.items.map((o) => (
           <li key={o.id} className="rounded-lg border border-spruce-700/20 bg-white p-4">
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <h2 className="text-xl font-bold text-spruce-900">Order {o.number}</h2>
@@ -32,6 +36,11 @@ export default function MyOrdersPage() {
           </li>
         ))}
       </ul>
+      {orders.data && orders.data.total > orders.data.pageSize ? (
+        <div className="mt-4">
+          <Pager label="Your orders" listing={{ sort: 'createdAt', dir: 'desc', onSort: () => undefined, page: orders.data, onPage: setPage, noun: ['order', 'orders'] }} />
+        </div>
+      ) : null}
     </>
   );
 }

@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { OrderState } from '../../../shared/order-states';
-import type { OrderFilter } from '../../../shared/schemas/orders';
+import type { MyOrdersQuery, OrderFilter } from '../../../shared/schemas/orders';
 import { listSearch, type Page } from '../../../shared/schemas/list';
 
 /** What the order desk asks for: filters, sort and page (the server's defaults fill the rest). */
@@ -71,14 +71,18 @@ export interface OrderListRow {
 
 export const orderKeys = {
   all: ['orders'] as const,
-  mine: () => [...orderKeys.all, 'mine'] as const,
+  mine: (params: MyOrderParams) => [...orderKeys.all, 'mine', params] as const,
   lists: () => [...orderKeys.all, 'list'] as const,
   list: (filter: OrderListParams) => [...orderKeys.lists(), filter] as const,
   detail: (id: number) => [...orderKeys.all, 'detail', id] as const,
 };
 
 
-export const myOrdersQuery = () => queryOptions({ queryKey: orderKeys.mine(), queryFn: () => api.get<{ orders: (Order & { lines: OrderLine[] })[] }>('/api/orders/mine').then((b) => b.orders) });
+/** What the customer's own list asks for (the server's defaults fill the rest). */
+export type MyOrderParams = Partial<MyOrdersQuery>;
+/** One page of the customer's own orders, newest first, each with its lines. */
+export const myOrdersQuery = (params: MyOrderParams) =>
+  queryOptions({ queryKey: orderKeys.mine(params), queryFn: () => api.get<Page<Order & { lines: OrderLine[] }>>(`/api/orders/mine${listSearch(params)}`), placeholderData: keepPreviousData });
 /** One page of the order desk, as the server filters, sorts and pages it. */
 export const ordersQuery = (filter: OrderListParams) =>
   queryOptions({ queryKey: orderKeys.list(filter), queryFn: () => api.get<Page<OrderListRow>>(`/api/orders${listSearch(filter)}`), placeholderData: keepPreviousData });
@@ -99,7 +103,7 @@ function pollWhileConfirming(back: PaymentReturn, since: number) {
 export const orderQuery = (id: number, back: PaymentReturn = null, since = Date.now()) =>
   queryOptions({ queryKey: orderKeys.detail(id), queryFn: () => api.get<OrderDetail>(`/api/orders/${id}`), refetchInterval: pollWhileConfirming(back, since) });
 
-export const useMyOrders = () => useQuery(myOrdersQuery());
+export const useMyOrders = (params: MyOrderParams) => useQuery(myOrdersQuery(params));
 export const useOrders = (filter: OrderListParams) => useQuery(ordersQuery(filter));
 export const useOrder = (id: number, back: PaymentReturn = null, since?: number) => useQuery(orderQuery(id, back, since));
 

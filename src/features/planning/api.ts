@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import type { ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, CandidateLinesQuery, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
 import { listSearch, type Page } from '../../../shared/schemas/list';
 import type { BatchState, UnitState } from '../../../shared/production/states';
 import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
@@ -24,7 +24,8 @@ export interface BatchDetail {
 }
 export interface Candidates {
   revisions: { id: number; modelId: number; modelName: string; number: number; label: string; active: boolean; frozen: boolean; options: { id: number; code: string; name: string }[] }[];
-  orderLines: { id: number; modelId: number; optionId: number; quantity: number; description: string; orderNumber: string; dueAt: string | null; customerName: string }[];
+  /** One page of the paid order lines waiting for a batch (for one model when asked). */
+  orderLines: Page<{ id: number; modelId: number; optionId: number; quantity: number; description: string; orderNumber: string; dueAt: string | null; customerName: string }>;
 }
 export interface PlanProposal { startDate: string; jobs: PlanJob[]; assemblers: PlanAssembler[]; builds: PlannedBuild[]; unassignable: number[]; load: DayLoad[]; late: number[] }
 
@@ -33,7 +34,7 @@ const keys = {
   lists: () => [...keys.all, 'list'] as const,
   list: (params: BatchListParams) => [...keys.lists(), params] as const,
   detail: (id: number) => [...keys.all, 'detail', id] as const,
-  candidates: () => [...keys.all, 'candidates'] as const,
+  candidates: (params: CandidateParams) => [...keys.all, 'candidates', params] as const,
 };
 
 export type BatchListParams = Partial<BatchListQuery>;
@@ -44,12 +45,15 @@ export const batchQuery = (id: number) => queryOptions({
   // While the release job makes the units, follow its progress.
   refetchInterval: (query) => (query.state.data?.batch.state === 'releasing' ? 1000 : false),
 });
-export const candidatesQuery = () => queryOptions({ queryKey: keys.candidates(), queryFn: () => api.get<Candidates>('/api/batches/candidates') });
+export type CandidateParams = Partial<CandidateLinesQuery>;
+/** Revisions with their options, and one page of waiting order lines (filtered by model, sorted by due date). */
+export const candidatesQuery = (params: CandidateParams) =>
+  queryOptions({ queryKey: keys.candidates(params), queryFn: () => api.get<Candidates>(`/api/batches/candidates${listSearch(params)}`), placeholderData: keepPreviousData });
 export const assemblersQuery = () => queryOptions({ queryKey: ['assemblers', 'list'], queryFn: () => api.get<{ assemblers: PlanAssembler[] }>('/api/assemblers').then((b) => b.assemblers) });
 
 export const useBatches = (params: BatchListParams) => useQuery(batchesQuery(params));
 export const useBatch = (id: number) => useQuery(batchQuery(id));
-export const useCandidates = () => useQuery(candidatesQuery());
+export const useCandidates = (params: CandidateParams) => useQuery(candidatesQuery(params));
 export const useAssemblers = () => useQuery(assemblersQuery());
 
 /** Every batch change refreshes the whole batches tree (list, detail, candidates). */
