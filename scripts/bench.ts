@@ -1,5 +1,5 @@
 // `npm run bench [-- SECTION …]`: prints timing figures, section by section (never asserts timings).
-// Words given run the sections with that key (engine, cli, sheets, loop, jobs, wire, client, design, api); none given runs
+// Words given run the sections with that key (engine, cli, sheets, loop, jobs, wire, client, design, match, api); none given runs
 // all but `api` (HTTP load over the production-size dataset, a few minutes): `npm run bench -- api [--scale 5]`.
 import { apiSection } from './bench/api';
 import { cliSection } from './bench/cli';
@@ -9,9 +9,10 @@ import { engineSection, type BenchSection } from './bench/engine';
 import { jobsSection } from './bench/jobs';
 import { specSheetSection } from './bench/spec-sheets';
 import { loopSection } from './bench/loop';
+import { matchSection } from './bench/match';
 import { wireSection } from './bench/wire';
 
-export const sections: BenchSection[] = [engineSection, cliSection, specSheetSection, loopSection, jobsSection, wireSection, clientSection, designSection, apiSection];
+export const sections: BenchSection[] = [engineSection, cliSection, specSheetSection, loopSection, jobsSection, wireSection, clientSection, designSection, matchSection, apiSection];
 
 async function main(): Promise<void> {
   const args = process.argv.slice(2);
