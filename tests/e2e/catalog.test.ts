@@ -149,7 +149,7 @@ describe('the catalog in a browser', () => {
     await row.getByText('clipper series resistor, 1 % only').waitFor();
     await page.screenshot({ path: path.join(SCREENSHOTS, 'catalog-revision.png'), fullPage: true });
     await page.close();
-  }, 60_000);
+  }, 120_000);
 
   it('adds a custom device from datasheet points, draws I–V curves, and compares options on the same axes', async () => {
     const page = await env.browser.newPage({ viewport: { width: 1366, height: 1000 } });
