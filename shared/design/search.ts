@@ -139,14 +139,20 @@ function resistorValues(input: DesignInput): number[] {
 
 const capacitorValues = (input: DesignInput): number[] => [...new Set(input.capacitorFarads ?? [0])];
 
-/** Ordered (positive, negative) side pairs the symmetry choice allows; numbers index the distinct devices. */
+/**
+ * (positive, negative) side pairs the symmetry choice allows; numbers index the distinct devices. A pair
+ * and its mirror image (the sides swapped) give the same harmonic levels, THD and fundamental, only the
+ * DC offset changes sign, so only the pair whose positive side comes first in the list of sides is kept.
+ */
 function sidePairs(input: DesignInput, deviceCount: number): [number, number, number, number][] {
   const sides: [number, number][] = [];
   for (let d = 0; d < deviceCount; d++) for (let c = 1; c <= input.maxPerSide; c++) sides.push([d, c]);
   const pairs: [number, number, number, number][] = [];
-  for (const [pd, pc] of sides) {
-    for (const [nd, nc] of sides) {
-      const same = pd === nd && pc === nc;
+  for (let i = 0; i < sides.length; i++) {
+    const [pd, pc] = sides[i];
+    for (let j = i; j < sides.length; j++) {
+      const [nd, nc] = sides[j];
+      const same = i === j;
       if (input.symmetry === 'symmetric' && !same) continue;
       if (input.symmetry === 'asymmetric' && same) continue;
       pairs.push([pd, pc, nd, nc]);
@@ -155,10 +161,13 @@ function sidePairs(input: DesignInput, deviceCount: number): [number, number, nu
   return pairs;
 }
 
-/** Size of the space, e.g. 2 distinct devices × up to 2 per side, shunt with 3 resistors: (2·2)² · 3 = 48. */
+/**
+ * Size of the space without mirror images, e.g. 2 distinct devices × up to 2 per side (s = 4 strings),
+ * shunt with 3 resistors: s(s + 1)/2 · 3 = 30.
+ */
 export function countCandidates({ input, devices }: ParsedDesign): number {
   const s = devices.length * input.maxPerSide;
-  const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? s * s - s : s * s;
+  const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? (s * (s - 1)) / 2 : (s * (s + 1)) / 2;
   const caps = capacitorValues(input).length;
   let n = 0;
   for (const t of input.topologies) n += t === 'none' ? 1 : t === 'shunt' ? pairs * resistorValues(input).length * caps : pairs * caps;
@@ -169,7 +178,8 @@ interface Planned { clipper: ClippingNetwork; strings: DesignCandidate['strings'
 
 /**
  * Every candidate in a fixed order: per topology (as listed), per resistor, per capacitor, per
- * (positive device, count) and (negative device, count). A string is 1…maxPerSide devices of one kind.
+ * (positive device, count) and (negative device, count), mirror images left out (see sidePairs).
+ * A string is 1…maxPerSide devices of one kind.
  */
 export function* enumerateCandidates(input: DesignInput, devices: SpaceDevice[]): Generator<Planned> {
   const pairs = sidePairs(input, devices.length);

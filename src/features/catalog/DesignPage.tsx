@@ -124,7 +124,7 @@ export default function DesignPage() {
       <PageHeader title={`Design an option — ${model.data.name}`}>
         <Link to={`/catalog/models/${id}`} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Back to {model.data.name}</Link>
       </PageHeader>
-      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range.</p>
+      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range. A pair and its mirror image (the two sides swapped) give the same harmonic levels, so each pair is searched and shown once.</p>
       <form onSubmit={onSubmit} noValidate className="grid gap-4 rounded-lg bg-white p-4 shadow-sm md:grid-cols-4">
         <TextField label="THD_F from (%)" inputMode="decimal" error={errors.thdLo?.message} {...form.register('thdLo')} />
         <TextField label="THD_F to (%)" inputMode="decimal" error={errors.thdHi?.message} {...form.register('thdHi')} />
