@@ -51,7 +51,8 @@ const resistorsSchema = z.union([
     .refine((r) => eSeriesValues(r.eSeries, r.min, r.max).length > 0, 'no E-series value lies in that range'),
 ], { error: `seriesOhms is a list of 1…${DESIGN_LIMITS.resistorValues} resistances or {eSeries: "E6"|"E12"|"E24", min, max}` });
 
-export const designTargetSchema = z.object({
+/** The ranges a target can set at one drive level. */
+const levelRanges = {
   /** THD_F (√(Σ_{k≥2} V_k²)/V_1) in percent. */
   thdFPercent: range('thdFPercent').optional(),
   /** H2 level minus H3 level, dB (positive = even-dominant). */
@@ -60,8 +61,33 @@ export const designTargetSchema = z.object({
   evenSharePercent: range('evenSharePercent').optional(),
   /** Peak of the output's fundamental, volts. */
   fundamentalPeakV: range('fundamentalPeakV').optional(),
-}).strict().refine((t) => Object.values(t).some((v) => v !== undefined), 'give at least one target range');
+};
+const someRange = (t: object) => Object.values(t).some((v) => Array.isArray(v));
+
+/** Ranges at a second drive gain, e.g. {driveGain: 120, thdFPercent: [20, 40]}. */
+export const secondLevelSchema = z.object({
+  driveGain: finite('second.driveGain').positive('second.driveGain must be > 0').max(CONTRACT_LIMITS.driveGain.max),
+  ...levelRanges,
+}).strict().refine(someRange, 'give at least one range at the second drive');
+
+export const designTargetSchema = z.object({
+  ...levelRanges,
+  /**
+   * Clipping onset: the drive control's rotation, in % (0…100), where THD_F passes 1 %, found as the
+   * profile finds it (a 25-point sweep over the control, interpolated). Needs the input's `drive`.
+   */
+  onsetDrivePercent: range('onsetDrivePercent').optional(),
+  second: secondLevelSchema.optional(),
+}).strict().refine((t) => someRange(t) || t.second !== undefined, 'give at least one target range');
 export type DesignTarget = z.infer<typeof designTargetSchema>;
+export type LevelTarget = Omit<DesignTarget, 'onsetDrivePercent' | 'second'>;
+
+/** The drive control of the stage (its gain law), needed for an onset target, e.g. {minGain: 1, maxGain: 200, taper: 'log'}. */
+const driveControlSchema = z.object({
+  minGain: finite('drive.minGain').positive().max(CONTRACT_LIMITS.driveGain.max),
+  maxGain: finite('drive.maxGain').positive().max(CONTRACT_LIMITS.driveGain.max),
+  taper: z.enum(['linear', 'log']),
+}).strict().refine((d) => d.minGain <= d.maxGain, { error: 'drive.maxGain must be ≥ drive.minGain', path: ['maxGain'] });
 
 export const designInputSchema = z.object({
   toneHz: finite('toneHz').min(CONTRACT_LIMITS.toneHz.min).max(CONTRACT_LIMITS.toneHz.max),
@@ -81,9 +107,12 @@ export const designInputSchema = z.object({
   /** Capacitor values to try across the devices (0 = none), farads; default [0]. */
   capacitorFarads: z.array(finite('capacitorFarads[]').min(CONTRACT_LIMITS.farads.min).max(CONTRACT_LIMITS.farads.max))
     .min(1).max(DESIGN_LIMITS.capacitorValues).optional(),
+  /** The drive control, for an onset target. */
+  drive: driveControlSchema.optional(),
   target: designTargetSchema,
   limit: z.number().int().min(1).max(DESIGN_LIMITS.limit).default(10),
 }).strict()
+  .refine((d) => d.target.onsetDrivePercent === undefined || d.drive !== undefined, { error: 'drive {minGain, maxGain, taper} is required for an onset target', path: ['drive'] })
   .refine((d) => !d.topologies.includes('shunt') || d.seriesOhms !== undefined, { error: 'seriesOhms is required for the shunt topology', path: ['seriesOhms'] })
   .refine((d) => !d.topologies.includes('feedback') || d.feedbackOhms !== undefined, { error: 'feedbackOhms is required for the feedback topology', path: ['feedbackOhms'] })
   .refine((d) => !d.topologies.includes('feedback') || d.groundOhms !== undefined, { error: 'groundOhms is required for the feedback topology', path: ['groundOhms'] });

@@ -6,9 +6,9 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { ONSET_NEVER_PERCENT, countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
 import { eSeriesValues } from '../../shared/design/schema';
-import { DEVICE_PRESETS, findPreset, runContract, type ContractOutput } from '../../shared/engine/index';
+import { DEVICE_PRESETS, clippingOnset, computeProfile, driveSweep, findPreset, onsetDrive, runContract, type CircuitSpec, type ContractOutput } from '../../shared/engine/index';
 
 const STAGE = { toneHz: 1000, inputPeakV: 0.1, driveGain: 40, railPeakV: 4.5, temperatureC: 27, harmonics: 10 };
 const PRESETS = ['si-small-signal', 'led-red', 'germanium-point-contact'];
@@ -146,6 +146,59 @@ describe('option designer: ranking', () => {
     expect(targetDistance({ thdFPercent: [5, 10] }, v)).toBeCloseTo(0.4, 12);
     expect(targetDistance({ thdFPercent: [5, 10], h2MinusH3Db: [0, 0] }, v)).toBeCloseTo(0.4 + 3, 12);
     expect(targetDistance({ fundamentalPeakV: [0.5, 2], evenSharePercent: [40, 60] }, v)).toBe(0);
+  });
+});
+
+describe('option designer: the onset and a second drive level', () => {
+  const CONTROL = { minGain: 1, maxGain: 200, taper: 'log' as const };
+  const SMALL = { ...STAGE, devices: PRESETS, maxPerSide: 1, topologies: ['shunt', 'feedback'], seriesOhms: [4700], feedbackOhms: 100000, groundOhms: 4700, drive: CONTROL, limit: 50 };
+  const circuitOf = (clipper: unknown, shuntFarads = 0): CircuitSpec => ({
+    clipper: { ...(clipper as object), ...(shuntFarads ? { shuntFarads } : {}) }, toneHz: 1000, temperatureC: 27,
+    drive: { ...CONTROL, inputPeakV: STAGE.inputPeakV, railPeakV: STAGE.railPeakV },
+  });
+
+  it("finds the onset as the profile's 25-point sweep does, computing only up to the crossing", () => {
+    const si = { topology: 'shunt', seriesOhms: 4700, positive: [{ preset: 'si-small-signal' }], negative: [{ preset: 'led-red' }, { preset: 'led-red' }] };
+    for (const spec of [circuitOf(si), circuitOf(si, 4.7e-8), circuitOf({ topology: 'none' })]) {
+      expect(onsetDrive(spec)).toBe(computeProfile(spec).clippingOnsetDrive);
+      expect(onsetDrive(spec)).toBe(clippingOnset(driveSweep(spec, 25)));
+    }
+  });
+
+  it("gives every candidate the profile's onset and the profile CLI's output at the second gain", () => {
+    const r = runDesign({ ...SMALL, target: { onsetDrivePercent: [0, 100], second: { driveGain: 150, thdFPercent: [0, 100] } } });
+    expect(r.searched).toBe(2 * 6);
+    for (const c of r.candidates) {
+      expect(c.onsetDrive).toBe(computeProfile(circuitOf(roundTrip(c.clipper))).clippingOnsetDrive);
+      const { evenEnergyShare, ...second } = c.second!;
+      expect(evenEnergyShare).toBeGreaterThanOrEqual(0);
+      expect(roundTrip(second)).toEqual(runContract({ ...STAGE, driveGain: 150, clipper: roundTrip(c.clipper) }));
+    }
+  });
+
+  it('finds an onset and a second-drive THD_F copied from one circuit at distance 0, exactly the circuits that meet both', () => {
+    const all = runDesign({ ...SMALL, target: { onsetDrivePercent: [0, 100], second: { driveGain: 150, thdFPercent: [0, 100] } } }).candidates;
+    const chosen = all.find((c) => c.onsetDrive !== null && c.strings.negative?.name === 'led-red')!;
+    const onset = chosen.onsetDrive! * 100;
+    const thd2 = chosen.second!.thdF * 100;
+    const r = runDesign({ ...SMALL, target: { onsetDrivePercent: [onset, onset], second: { driveGain: 150, thdFPercent: [thd2, thd2] } } });
+    const expected = all.filter((c) => c.onsetDrive !== null && c.onsetDrive! * 100 === onset && c.second!.thdF * 100 === thd2);
+    const zero = r.candidates.filter((c) => c.distance === 0);
+    expect(zero.length).toBeGreaterThanOrEqual(1);
+    expect(zero.map((c) => c.strings)).toEqual(expected.map((c) => c.strings));
+    // The onset term of the distance: (how far outside) / max(width, 5 % of the control).
+    const wide = runDesign({ ...SMALL, target: { onsetDrivePercent: [onset + 10, onset + 30] } }).candidates.find((c) => JSON.stringify(c.strings) === JSON.stringify(chosen.strings))!;
+    expect(wide.distance).toBeCloseTo(10 / 20, 9);
+    // A candidate that never reaches 1 % counts as onset one sweep step past the top.
+    const none = runDesign({ ...SMALL, topologies: ['none'], railPeakV: 1000, target: { onsetDrivePercent: [0, 50] } }).candidates[0];
+    expect(none.onsetDrive).toBeNull();
+    expect(none.distance).toBeCloseTo((ONSET_NEVER_PERCENT - 50) / 50, 9);
+  });
+
+  it('refuses an onset target without the drive control, and a second level without a range', () => {
+    const { drive: _drive, ...noDrive } = SMALL;
+    expect(() => runDesign({ ...noDrive, target: { onsetDrivePercent: [10, 20] } })).toThrow(expect.objectContaining({ path: 'drive' }));
+    expect(() => runDesign({ ...SMALL, target: { second: { driveGain: 100 } } })).toThrow(expect.objectContaining({ path: 'target.second' }));
   });
 });
 
