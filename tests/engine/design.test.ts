@@ -7,6 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { ONSET_NEVER_PERCENT, countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { candidateBom, capacitanceFromValue, suggestedSurchargeCents } from '../../shared/design/costing';
 import { eSeriesValues } from '../../shared/design/schema';
 import { DEVICE_PRESETS, clippingOnset, computeProfile, driveSweep, findPreset, onsetDrive, runContract, type CircuitSpec, type ContractOutput } from '../../shared/engine/index';
 
@@ -266,5 +267,39 @@ describe('option designer: progress, cancellation, input', () => {
     const c: DesignCandidate = r.candidates[0];
     expect(c.clipper.positive).toEqual([findPreset('led-red')!.model]);
     expect(c.strings.positive).toEqual({ device: 0, name: 'led-red', count: 1 });
+  });
+});
+
+describe('option designer: parts, cost and surcharge of a candidate', () => {
+  it('reads capacitances from part values', () => {
+    expect(capacitanceFromValue('47 nF film 63 V')).toBe(4.7e-8);
+    expect(capacitanceFromValue('100 pF C0G 50 V')).toBe(1e-10);
+    expect(capacitanceFromValue('1 µF film 63 V')).toBe(1e-6);
+    expect(capacitanceFromValue('2k2 1 % 0.25 W')).toBeNull();
+  });
+
+  it('adds one linked part per device and the capacitor, and names devices without a part', () => {
+    const devices = [
+      { name: 'Si', partId: 1, partNumber: 'D-SI', unitCostCents: 5 },
+      { name: 'Red', partId: 2, partNumber: 'D-RED', unitCostCents: 12 },
+      { name: 'Loose', partId: null, partNumber: null, unitCostCents: null },
+    ];
+    const cap = { partId: 9, partNumber: 'C-47N', farads: 4.7e-8, unitCostCents: 16 };
+    const bom = candidateBom({ positive: { device: 0, count: 2 }, negative: { device: 1, count: 1 } }, devices, cap);
+    expect(bom.lines).toEqual([{ partNumber: 'D-SI', quantity: 2, unitCostCents: 5 }, { partNumber: 'D-RED', quantity: 1, unitCostCents: 12 }, { partNumber: 'C-47N', quantity: 1, unitCostCents: 16 }]);
+    expect(bom.cents).toBe(2 * 5 + 12 + 16);
+    const same = candidateBom({ positive: { device: 0, count: 1 }, negative: { device: 0, count: 3 } }, devices, null);
+    expect(same.lines).toEqual([{ partNumber: 'D-SI', quantity: 4, unitCostCents: 5 }]);
+    expect(candidateBom({ positive: { device: 2, count: 1 }, negative: { device: 0, count: 1 } }, devices, null).unlinked).toEqual(['Loose']);
+  });
+
+  it("suggests the model's margin on the cost beyond the cheapest option, rounded up to 0.50", () => {
+    // 40 ¢ more, price 199.00 on a cost of 50.00: 40 × 3.98 = 159.2 ¢ → 200 ¢.
+    expect(suggestedSurchargeCents(60, 20, 19900, 5000)).toBe(200);
+    expect(suggestedSurchargeCents(20, 20, 19900, 5000)).toBe(0);
+    expect(suggestedSurchargeCents(10, 20, 19900, 5000)).toBe(0);
+    // No known cost: the extra cost passed on as it is, rounded up.
+    expect(suggestedSurchargeCents(120, 20, 19900, null)).toBe(100);
+    expect(suggestedSurchargeCents(121, 20, 19900, null)).toBe(150);
   });
 });
