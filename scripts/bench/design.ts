@@ -4,11 +4,14 @@ import { countCandidates, designSearch, parseDesignInput } from '../../shared/de
 import { DEVICE_PRESETS } from '../../shared/engine/index';
 import type { BenchSection } from './engine';
 
-/** Every preset, 1…3 per side, shunt at six E6 values and feedback, no capacitor: 27² · 7 = 5103. */
+/**
+ * Every preset (9), 1…4 per side (36 strings, 36·37/2 = 666 pairs without mirror images), shunt at
+ * seven E6 values and feedback, no capacitor: 666 · 8 = 5328.
+ */
 export const BENCH_DESIGN_INPUT = {
   toneHz: 1000, inputPeakV: 0.1, driveGain: 40, railPeakV: 4.5, temperatureC: 27, harmonics: 10,
-  devices: DEVICE_PRESETS.map((p) => p.id), maxPerSide: 3, topologies: ['shunt', 'feedback'],
-  seriesOhms: { eSeries: 'E6', min: 1000, max: 6800 }, feedbackOhms: 100000, groundOhms: 4700,
+  devices: DEVICE_PRESETS.map((p) => p.id), maxPerSide: 4, topologies: ['shunt', 'feedback'],
+  seriesOhms: { eSeries: 'E6', min: 1000, max: 10000 }, feedbackOhms: 100000, groundOhms: 4700,
   target: { thdFPercent: [5, 10], h2MinusH3Db: [0, 6] }, limit: 10,
 };
 

@@ -2,6 +2,7 @@
 // One zod schema, used by the design CLI, the browser worker and the screen's form.
 import { z } from 'zod';
 import { CONTRACT_LIMITS } from '../engine/contract';
+import { gainAtDrive } from '../engine/network';
 import { findPreset } from '../engine/presets';
 
 /**
@@ -51,7 +52,8 @@ const resistorsSchema = z.union([
     .refine((r) => eSeriesValues(r.eSeries, r.min, r.max).length > 0, 'no E-series value lies in that range'),
 ], { error: `seriesOhms is a list of 1…${DESIGN_LIMITS.resistorValues} resistances or {eSeries: "E6"|"E12"|"E24", min, max}` });
 
-export const designTargetSchema = z.object({
+/** The ranges a target can set at one drive level. */
+const levelRanges = {
   /** THD_F (√(Σ_{k≥2} V_k²)/V_1) in percent. */
   thdFPercent: range('thdFPercent').optional(),
   /** H2 level minus H3 level, dB (positive = even-dominant). */
@@ -60,8 +62,34 @@ export const designTargetSchema = z.object({
   evenSharePercent: range('evenSharePercent').optional(),
   /** Peak of the output's fundamental, volts. */
   fundamentalPeakV: range('fundamentalPeakV').optional(),
-}).strict().refine((t) => Object.values(t).some((v) => v !== undefined), 'give at least one target range');
+};
+const someRange = (t: object) => Object.values(t).some((v) => Array.isArray(v));
+
+/** Ranges at a second drive gain, e.g. {driveGain: 120, thdFPercent: [20, 40]}. */
+export const secondLevelSchema = z.object({
+  driveGain: finite('second.driveGain').positive('second.driveGain must be > 0').max(CONTRACT_LIMITS.driveGain.max),
+  ...levelRanges,
+}).strict().refine(someRange, 'give at least one range at the second drive');
+
+export const designTargetSchema = z.object({
+  ...levelRanges,
+  /**
+   * Clipping onset: the drive control's rotation, in % (0…100), where THD_F passes 1 %, found as the
+   * profile finds it (a 25-point sweep over the control, interpolated). Needs the input's `drive`.
+   */
+  onsetDrivePercent: range('onsetDrivePercent').optional(),
+  second: secondLevelSchema.optional(),
+}).strict().refine((t) => someRange(t) || t.second !== undefined, 'give at least one target range');
 export type DesignTarget = z.infer<typeof designTargetSchema>;
+export type DriveControl = z.infer<typeof driveControlSchema>;
+export type LevelTarget = Omit<DesignTarget, 'onsetDrivePercent' | 'second'>;
+
+/** The drive control of the stage (its gain law), needed for an onset target, e.g. {minGain: 1, maxGain: 200, taper: 'log'}. */
+const driveControlSchema = z.object({
+  minGain: finite('drive.minGain').positive().max(CONTRACT_LIMITS.driveGain.max),
+  maxGain: finite('drive.maxGain').positive().max(CONTRACT_LIMITS.driveGain.max),
+  taper: z.enum(['linear', 'log']),
+}).strict().refine((d) => d.minGain <= d.maxGain, { error: 'drive.maxGain must be ≥ drive.minGain', path: ['maxGain'] });
 
 export const designInputSchema = z.object({
   toneHz: finite('toneHz').min(CONTRACT_LIMITS.toneHz.min).max(CONTRACT_LIMITS.toneHz.max),
@@ -81,9 +109,12 @@ export const designInputSchema = z.object({
   /** Capacitor values to try across the devices (0 = none), farads; default [0]. */
   capacitorFarads: z.array(finite('capacitorFarads[]').min(CONTRACT_LIMITS.farads.min).max(CONTRACT_LIMITS.farads.max))
     .min(1).max(DESIGN_LIMITS.capacitorValues).optional(),
+  /** The drive control, for an onset target. */
+  drive: driveControlSchema.optional(),
   target: designTargetSchema,
   limit: z.number().int().min(1).max(DESIGN_LIMITS.limit).default(10),
 }).strict()
+  .refine((d) => d.target.onsetDrivePercent === undefined || d.drive !== undefined, { error: 'drive {minGain, maxGain, taper} is required for an onset target', path: ['drive'] })
   .refine((d) => !d.topologies.includes('shunt') || d.seriesOhms !== undefined, { error: 'seriesOhms is required for the shunt topology', path: ['seriesOhms'] })
   .refine((d) => !d.topologies.includes('feedback') || d.feedbackOhms !== undefined, { error: 'feedbackOhms is required for the feedback topology', path: ['feedbackOhms'] })
   .refine((d) => !d.topologies.includes('feedback') || d.groundOhms !== undefined, { error: 'groundOhms is required for the feedback topology', path: ['groundOhms'] });
@@ -104,6 +135,14 @@ export const designFormSchema = z.object({
   h2h3Hi: optionalNum,
   v1Lo: optionalNum,
   v1Hi: optionalNum,
+  onsetLo: optionalNum,
+  onsetHi: optionalNum,
+  secondDrive: optionalNum,
+  secondThdLo: optionalNum,
+  secondThdHi: optionalNum,
+  /** Capacitor part ids (checkbox values) to try across the devices, besides none. */
+  caps: z.union([z.array(z.string()), z.literal(false), z.string()]).optional()
+    .transform((v) => (v === undefined || v === false ? [] : Array.isArray(v) ? v : [v]).map(Number)),
   space: z.enum(['stocked', 'library']),
   symmetry: z.enum(['any', 'symmetric', 'asymmetric']),
   maxPerSide: z.coerce.number().int().min(1, 'At least 1').max(4, 'At most 4 per side on the screen'),
@@ -119,21 +158,42 @@ export const designFormSchema = z.object({
   .refine((f) => f.seriesMin <= f.seriesMax, { error: 'The smallest must not exceed the largest', path: ['seriesMax'] })
   .refine((f) => (f.h2h3Lo === undefined) === (f.h2h3Hi === undefined), { error: 'Give both ends or neither', path: ['h2h3Hi'] })
   .refine((f) => (f.v1Lo === undefined) === (f.v1Hi === undefined), { error: 'Give both ends or neither', path: ['v1Hi'] })
+  .refine((f) => (f.onsetLo === undefined) === (f.onsetHi === undefined), { error: 'Give both ends or neither', path: ['onsetHi'] })
+  .refine((f) => f.onsetLo === undefined || (f.onsetLo >= 0 && f.onsetHi! <= 100 && f.onsetLo <= f.onsetHi!), { error: 'Between 0 and 100 %, low end first', path: ['onsetHi'] })
+  .refine((f) => f.secondDrive === undefined || (f.secondDrive >= 0 && f.secondDrive <= 100), { error: 'Between 0 and 100 %', path: ['secondDrive'] })
+  .refine((f) => (f.secondDrive === undefined) === (f.secondThdLo === undefined) && (f.secondThdLo === undefined) === (f.secondThdHi === undefined),
+    { error: 'Give the second drive and both ends of its THD_F range, or none of them', path: ['secondThdHi'] })
+  .refine((f) => f.secondThdLo === undefined || (f.secondThdLo >= 0 && f.secondThdLo <= f.secondThdHi!), { error: 'The low end must not exceed the high end', path: ['secondThdHi'] })
   .refine((f) => f.shunt || f.feedback, { error: 'Choose at least one topology', path: ['feedback'] });
 export type DesignForm = z.infer<typeof designFormSchema>;
 
 /** The stage a revision gives the search: tone, input level, the gain at the reference drive, the rail. */
 export interface DesignStage { toneHz: number; inputPeakV: number; driveGain: number; railPeakV: number | null; temperatureC: number }
 
-/** A design input from the screen's form, e.g. for the devices in stock, 1…2 per side, E12 1 k…10 k. */
-export function designInputFromForm(f: DesignForm, stage: DesignStage, devices: { name: string; is: number; n: number; rs: number; eg?: number; xti?: number }[]): DesignInputJson {
+/**
+ * A design input from the screen's form, e.g. for the devices in stock, 1…2 per side, E12 1 k…10 k.
+ * `control` is the revision's drive control (for the onset and the second drive, given in % of its rotation);
+ * `capacitorFarads` the chosen capacitors' values (none is always tried too).
+ */
+export function designInputFromForm(
+  f: DesignForm, stage: DesignStage, devices: { name: string; is: number; n: number; rs: number; eg?: number; xti?: number }[],
+  control: DriveControl, capacitorFarads: number[] = [],
+): DesignInputJson {
   const pair = (lo?: number, hi?: number): [number, number] | undefined => (lo === undefined || hi === undefined ? undefined : [lo, hi]);
+  const secondThd = pair(f.secondThdLo, f.secondThdHi);
+  const second = f.secondDrive === undefined || !secondThd ? undefined
+    : { driveGain: gainAtDrive({ ...control, inputPeakV: stage.inputPeakV, railPeakV: stage.railPeakV }, f.secondDrive / 100), thdFPercent: secondThd };
   return {
     ...stage, harmonics: 10, devices, maxPerSide: f.maxPerSide, symmetry: f.symmetry,
     topologies: [...(f.shunt ? ['shunt' as const] : []), ...(f.feedback ? ['feedback' as const] : [])],
     seriesOhms: { eSeries: f.eSeries, min: f.seriesMin, max: f.seriesMax },
     feedbackOhms: f.feedbackOhms, groundOhms: f.groundOhms,
-    target: { thdFPercent: [f.thdLo, f.thdHi], h2MinusH3Db: pair(f.h2h3Lo, f.h2h3Hi), fundamentalPeakV: pair(f.v1Lo, f.v1Hi) },
+    ...(capacitorFarads.length > 0 ? { capacitorFarads: [0, ...capacitorFarads] } : {}),
+    drive: control,
+    target: {
+      thdFPercent: [f.thdLo, f.thdHi], h2MinusH3Db: pair(f.h2h3Lo, f.h2h3Hi), fundamentalPeakV: pair(f.v1Lo, f.v1Hi),
+      onsetDrivePercent: pair(f.onsetLo, f.onsetHi), second,
+    },
     limit: 10,
   };
 }

@@ -7,8 +7,8 @@ import type { DeviceModel } from '../engine/device';
 import { EngineInputError } from '../engine/errors';
 import type { ClippingNetwork, Topology } from '../engine/network';
 import { findPreset } from '../engine/presets';
-import type { Spectrum } from '../engine/spectrum';
-import { DESIGN_LIMITS, designInputSchema, eSeriesValues, type DesignInput, type DesignTarget } from './schema';
+import { onsetDrive } from '../engine/profile';
+import { DESIGN_LIMITS, designInputSchema, eSeriesValues, type DesignInput, type DesignTarget, type LevelTarget } from './schema';
 
 /** One device of the search space, resolved: its position in the input's devices, display name and SPICE parameters. */
 export interface SpaceDevice { index: number; name: string; model: DeviceModel }
@@ -27,6 +27,10 @@ export interface DesignCandidate {
   strings: { positive: SideChoice | null; negative: SideChoice | null };
   /** Share of the distortion energy in even orders (0…1), from the same spectrum as `at`. */
   evenEnergyShare: number;
+  /** With a second-drive target: the profile CLI's output at that gain, and its even share. */
+  second?: ContractOutput & { evenEnergyShare: number };
+  /** With an onset target: the drive rotation (0…1) where THD_F passes 1 %, null when it never does. */
+  onsetDrive?: number | null;
 }
 
 export interface DesignResult {
@@ -54,10 +58,18 @@ export interface SearchOptions {
  * Scale of one unit of distance per target quantity, used when a range is narrower than it (a range
  * of width zero is allowed: a target copied from an existing circuit).
  */
-export const DISTANCE_FLOORS = { thdFPercent: 0.1, h2MinusH3Db: 1, evenSharePercent: 1, fundamentalPeakV: 0.01 } as const;
+export const DISTANCE_FLOORS = { thdFPercent: 0.1, h2MinusH3Db: 1, evenSharePercent: 1, fundamentalPeakV: 0.01, onsetDrivePercent: 5 } as const;
 
-/** The measured quantities a target ranges over, for one computed candidate. */
-export function targetQuantities(at: ContractOutput, evenEnergyShare: number): Record<keyof DesignTarget, number> {
+type RangeKey = keyof typeof DISTANCE_FLOORS;
+type Quantities = Partial<Record<RangeKey, number>>;
+
+/** Points of the onset sweep, as in computeProfile. */
+export const ONSET_SWEEP_POINTS = 25;
+/** A candidate whose THD_F never reaches 1 % counts as onset one sweep step past the top: 100 + 100/24 %. */
+export const ONSET_NEVER_PERCENT = 100 + 100 / (ONSET_SWEEP_POINTS - 1);
+
+/** The measured quantities a target ranges over, for one computed operating point. */
+export function targetQuantities(at: ContractOutput, evenEnergyShare: number): Record<keyof LevelTarget, number> {
   return {
     thdFPercent: at.thdF * 100,
     h2MinusH3Db: at.harmonics[1].dbc - at.harmonics[2].dbc,
@@ -66,23 +78,30 @@ export function targetQuantities(at: ContractOutput, evenEnergyShare: number): R
   };
 }
 
-/**
- * Distance of a candidate to the target: the sum over the target's ranges of
- *   (how far the value lies outside [lo, hi]) / max(hi − lo, floor),
- * with the floors in DISTANCE_FLOORS. It is 0 exactly when the value is inside every range, and one
- * unit means "one range-width outside", so quantities in different units add up comparably.
- */
-export function targetDistance(target: DesignTarget, values: Record<keyof DesignTarget, number>): number {
+function rangesDistance(ranges: Partial<Record<RangeKey, [number, number]>>, values: Quantities): number {
   let d = 0;
-  for (const key of Object.keys(DISTANCE_FLOORS) as (keyof DesignTarget)[]) {
-    const r = target[key];
-    if (!r) continue;
-    const [lo, hi] = r;
+  for (const key of Object.keys(DISTANCE_FLOORS) as RangeKey[]) {
+    const r = ranges[key];
     const v = values[key];
+    if (!r || v === undefined) continue;
+    const [lo, hi] = r;
     const outside = v < lo ? lo - v : v > hi ? v - hi : 0;
     if (outside > 0) d += outside / Math.max(hi - lo, DISTANCE_FLOORS[key]);
   }
   return d;
+}
+
+/**
+ * Distance of a candidate to the target: the sum over the target's ranges (at the reference drive, the
+ * onset, and at the second drive) of
+ *   (how far the value lies outside [lo, hi]) / max(hi − lo, floor),
+ * with the floors in DISTANCE_FLOORS. It is 0 exactly when the value is inside every range, and one
+ * unit means "one range-width outside", so quantities in different units add up comparably. An onset
+ * that never happens counts as ONSET_NEVER_PERCENT.
+ */
+export function targetDistance(target: DesignTarget, values: Quantities, second?: Quantities): number {
+  const { second: secondTarget, ...ranges } = target;
+  return rangesDistance(ranges, values) + (secondTarget && second ? rangesDistance(secondTarget, second) : 0);
 }
 
 /** Same SPICE parameters (EG and XTI at their defaults when absent) = the same device for the engine. */
@@ -139,14 +158,20 @@ function resistorValues(input: DesignInput): number[] {
 
 const capacitorValues = (input: DesignInput): number[] => [...new Set(input.capacitorFarads ?? [0])];
 
-/** Ordered (positive, negative) side pairs the symmetry choice allows; numbers index the distinct devices. */
+/**
+ * (positive, negative) side pairs the symmetry choice allows; numbers index the distinct devices. A pair
+ * and its mirror image (the sides swapped) give the same harmonic levels, THD and fundamental, only the
+ * DC offset changes sign, so only the pair whose positive side comes first in the list of sides is kept.
+ */
 function sidePairs(input: DesignInput, deviceCount: number): [number, number, number, number][] {
   const sides: [number, number][] = [];
   for (let d = 0; d < deviceCount; d++) for (let c = 1; c <= input.maxPerSide; c++) sides.push([d, c]);
   const pairs: [number, number, number, number][] = [];
-  for (const [pd, pc] of sides) {
-    for (const [nd, nc] of sides) {
-      const same = pd === nd && pc === nc;
+  for (let i = 0; i < sides.length; i++) {
+    const [pd, pc] = sides[i];
+    for (let j = i; j < sides.length; j++) {
+      const [nd, nc] = sides[j];
+      const same = i === j;
       if (input.symmetry === 'symmetric' && !same) continue;
       if (input.symmetry === 'asymmetric' && same) continue;
       pairs.push([pd, pc, nd, nc]);
@@ -155,21 +180,25 @@ function sidePairs(input: DesignInput, deviceCount: number): [number, number, nu
   return pairs;
 }
 
-/** Size of the space, e.g. 2 distinct devices × up to 2 per side, shunt with 3 resistors: (2·2)² · 3 = 48. */
+/**
+ * Size of the space without mirror images, e.g. 2 distinct devices × up to 2 per side (s = 4 strings),
+ * shunt with 3 resistors: s(s + 1)/2 · 3 = 30.
+ */
 export function countCandidates({ input, devices }: ParsedDesign): number {
   const s = devices.length * input.maxPerSide;
-  const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? s * s - s : s * s;
+  const pairs = input.symmetry === 'symmetric' ? s : input.symmetry === 'asymmetric' ? (s * (s - 1)) / 2 : (s * (s + 1)) / 2;
   const caps = capacitorValues(input).length;
   let n = 0;
   for (const t of input.topologies) n += t === 'none' ? 1 : t === 'shunt' ? pairs * resistorValues(input).length * caps : pairs * caps;
   return n;
 }
 
-interface Planned { clipper: ClippingNetwork; strings: DesignCandidate['strings'] }
+export interface Planned { clipper: ClippingNetwork; strings: DesignCandidate['strings'] }
 
 /**
  * Every candidate in a fixed order: per topology (as listed), per resistor, per capacitor, per
- * (positive device, count) and (negative device, count). A string is 1…maxPerSide devices of one kind.
+ * (positive device, count) and (negative device, count), mirror images left out (see sidePairs).
+ * A string is 1…maxPerSide devices of one kind.
  */
 export function* enumerateCandidates(input: DesignInput, devices: SpaceDevice[]): Generator<Planned> {
   const pairs = sidePairs(input, devices.length);
@@ -208,6 +237,33 @@ export function contractInputFor(input: DesignInput, clipper: ClippingNetwork): 
   };
 }
 
+/**
+ * Compute one candidate: the operating point at the stage (always), at the second drive and the onset
+ * sweep (when the target asks), then its distance. Throws when the engine cannot solve it.
+ */
+export function computeCandidate(input: DesignInput, planned: Planned): DesignCandidate {
+  const { target } = input;
+  const spectrum = analyseOperatingPoint(contractInputFor(input, planned.clipper));
+  const at = toContractOutput(spectrum);
+  const c: DesignCandidate = { ...planned, distance: 0, at, evenEnergyShare: spectrum.evenEnergyShare };
+  const values: Partial<Record<keyof typeof DISTANCE_FLOORS, number>> = targetQuantities(at, spectrum.evenEnergyShare);
+  let secondValues: Record<keyof LevelTarget, number> | undefined;
+  if (target.second) {
+    const s2 = analyseOperatingPoint({ ...contractInputFor(input, planned.clipper), driveGain: target.second.driveGain });
+    c.second = { ...toContractOutput(s2), evenEnergyShare: s2.evenEnergyShare };
+    secondValues = targetQuantities(c.second, s2.evenEnergyShare);
+  }
+  if (target.onsetDrivePercent && input.drive) {
+    c.onsetDrive = onsetDrive({
+      network: planned.clipper, toneHz: input.toneHz, temperatureC: input.temperatureC, referenceDrive: 0.5,
+      drive: { ...input.drive, inputPeakV: input.inputPeakV, railPeakV: input.railPeakV ?? null },
+    }, ONSET_SWEEP_POINTS);
+    values.onsetDrivePercent = c.onsetDrive === null ? ONSET_NEVER_PERCENT : c.onsetDrive * 100;
+  }
+  c.distance = targetDistance(target, values, secondValues);
+  return c;
+}
+
 /** Keep `list` sorted by (distance, order) and at most `limit` long. */
 function keepBest(list: { c: DesignCandidate; order: number }[], item: { c: DesignCandidate; order: number }, limit: number): void {
   if (list.length >= limit && item.c.distance >= list[list.length - 1].c.distance) return;
@@ -227,17 +283,13 @@ function* searchSteps({ input, devices }: ParsedDesign, options: SearchOptions, 
   let cancelled = false;
   for (const planned of enumerateCandidates(input, devices)) {
     if (options.signal?.aborted || options.shouldStop?.()) { cancelled = true; break; }
-    let spectrum: Spectrum | null = null;
+    let computed: DesignCandidate | null = null;
     try {
-      spectrum = analyseOperatingPoint(contractInputFor(input, planned.clipper));
+      computed = computeCandidate(input, planned);
     } catch {
       failed++;
     }
-    if (spectrum) {
-      const at = toContractOutput(spectrum);
-      const distance = targetDistance(input.target, targetQuantities(at, spectrum.evenEnergyShare));
-      keepBest(best, { c: { ...planned, distance, at, evenEnergyShare: spectrum.evenEnergyShare }, order: searched }, input.limit);
-    }
+    if (computed) keepBest(best, { c: computed, order: searched }, input.limit);
     searched++;
     if (searched % every === 0) options.onProgress?.(searched, total);
     if (searched % chunk === 0) yield;

@@ -9,7 +9,7 @@
  *   errorBody(err: unknown): {message, path}                     the contract's error shape for any thrown error
  * Profiles (catalog clipping option + model revision drive stage = CircuitSpec):
  *   computeProfile(spec, options?): HarmonicProfile   reference spectrum, 25-point sweep, onset, transfer, bands
- *   driveSweep(spec, points?), clippingOnset(sweep), transferCurve(spec, {drive, points, rangeV}?)
+ *   driveSweep(spec, points?), clippingOnset(sweep), onsetDrive(spec), transferCurve(spec, {drive, points, rangeV}?)
  *   monteCarlo(spec, {draws, seed, vfSigmaV, emissionSigma, resistorTolerance, capacitorTolerance}?): ToleranceBands
  *   monteCarloDraws(spec, options?): the seeded circuits it runs; DRAW_SAMPLING the draws' sampling where error allows
  *   perUnitDevices(network, measured), perUnitCircuit(spec, measured)   IS refit from measured Vf, N kept

@@ -56,11 +56,10 @@ export function driveSweep(spec: CircuitSpec | Circuit, points = 25, sampling: S
   return sweepWithPeriods(spec, points, sampling).sweep;
 }
 
-function sweepWithPeriods(spec: CircuitSpec | Circuit, points: number, sampling: SamplingOptions): { sweep: SweepPoint[]; periods: Float64Array[] } {
+/** The sweep's points in order, each computed only when asked for (so a caller may stop early). */
+function* sweepSteps(spec: CircuitSpec | Circuit, points: number, sampling: SamplingOptions): Generator<{ point: SweepPoint; period: Float64Array }> {
   checkRange(points, 2, 1001, 'sweepPoints');
-  const periods: Float64Array[] = [];
   const c = resolveCircuit(spec);
-  const out: SweepPoint[] = [];
   // Warm start of the periodic steady state: extrapolate the capacitor state from the last two drive points.
   const states: number[] = [];
   for (let i = 0; i < points; i++) {
@@ -69,30 +68,48 @@ function sweepWithPeriods(spec: CircuitSpec | Circuit, points: number, sampling:
     const guess = k >= 2 ? 2 * states[k - 1] - states[k - 2] : k === 1 ? states[0] : NaN;
     const ss = steadyState(setupAtDrive(c, drive), sampling, guess);
     states.push(ss.initialState);
-    periods.push(ss.samples);
     const s = analyse(ss.samples, 7);
-    out.push({
-      drive, gain: gainAtDrive(c.drive, drive), thdF: s.thdF, thdR: s.thdR,
-      harmonicsDbc: s.harmonics.slice(1, 7).map((h) => h.dbc),
-      fundamentalPeakV: s.fundamentalPeakV, outputRmsV: s.rmsV, dcV: s.dcV,
-    });
+    yield {
+      period: ss.samples,
+      point: {
+        drive, gain: gainAtDrive(c.drive, drive), thdF: s.thdF, thdR: s.thdR,
+        harmonicsDbc: s.harmonics.slice(1, 7).map((h) => h.dbc),
+        fundamentalPeakV: s.fundamentalPeakV, outputRmsV: s.rmsV, dcV: s.dcV,
+      },
+    };
   }
-  return { sweep: out, periods };
+}
+
+function sweepWithPeriods(spec: CircuitSpec | Circuit, points: number, sampling: SamplingOptions): { sweep: SweepPoint[]; periods: Float64Array[] } {
+  const sweep: SweepPoint[] = [];
+  const periods: Float64Array[] = [];
+  for (const step of sweepSteps(spec, points, sampling)) {
+    sweep.push(step.point);
+    periods.push(step.period);
+  }
+  return { sweep, periods };
+}
+
+/**
+ * The clipping onset of computeProfile (its 25-point sweep) without computing the sweep past the crossing:
+ * equal to clippingOnset(driveSweep(spec, points)), e.g. onsetDrive(spec) ≈ 0.31.
+ */
+export function onsetDrive(spec: CircuitSpec | Circuit, points = 25, sampling: SamplingOptions = {}): Ratio | null {
+  return clippingOnset((function* () { for (const step of sweepSteps(spec, points, sampling)) yield step.point; })());
 }
 
 /** Drive where THD_F first reaches 1 %, interpolated in log10(THD_F), e.g. 0.31; 0 if above from the start, null if never. */
-export function clippingOnset(sweep: readonly SweepPoint[], level: Ratio = CLIPPING_ONSET_THD): Ratio | null {
-  if (sweep.length === 0) return null;
-  if (sweep[0].thdF >= level) return sweep[0].drive;
-  for (let i = 1; i < sweep.length; i++) {
-    const a = sweep[i - 1];
-    const b = sweep[i];
+export function clippingOnset(sweep: Iterable<SweepPoint>, level: Ratio = CLIPPING_ONSET_THD): Ratio | null {
+  let a: SweepPoint | null = null;
+  for (const b of sweep) {
     if (b.thdF >= level) {
+      if (a === null) return b.drive;
       const la = Math.log10(Math.max(a.thdF, 1e-300));
       const lb = Math.log10(b.thdF);
       const t = (Math.log10(level) - la) / (lb - la);
       return a.drive + t * (b.drive - a.drive);
     }
+    a = b;
   }
   return null;
 }

@@ -38,22 +38,39 @@ describe('the option designer in a browser', () => {
     await page.getByLabel('Series resistor to (Ω)').fill('4700');
     await page.getByLabel('THD_F from (%)').fill('0');
     await page.getByLabel('THD_F to (%)').fill('100');
+    // The onset anywhere on the control and any THD_F at full drive: every candidate still meets the target,
+    // and each row shows its onset and its THD_F at the second drive.
+    await page.getByLabel('Clipping onset from (% drive)').fill('0');
+    await page.getByLabel('Clipping onset to (% drive)').fill('100');
+    await page.getByLabel('Second drive (%)').fill('100');
+    await page.getByLabel('THD_F there from (%)').fill('0');
+    await page.getByLabel('THD_F there to (%)').fill('100');
     await page.getByRole('button', { name: 'Search' }).click();
     const results = page.getByRole('region', { name: 'Design results' });
     await results.waitFor({ timeout: 60_000 });
     const summary = await results.getByText(/candidates computed/).textContent();
     const [, searched, total] = /(\d+) of (\d+) candidates/.exec(summary ?? '') ?? [];
     expect(Number(searched)).toBe(Number(total));
-    // (stocked devices)² pairs × 3 resistors (2200, 3300, 4700).
-    expect(Math.sqrt(Number(total) / 3) % 1).toBe(0);
+    // n distinct stocked devices: n(n + 1)/2 pairs without mirror images, × 3 resistors (2200, 3300, 4700).
+    const pairs = Number(total) / 3;
+    expect(Math.sqrt(8 * pairs + 1) % 1).toBe(0);
     const rows = results.getByRole('table', { name: 'The nearest ten' }).getByRole('row');
     expect(await rows.count()).toBe(1 + Math.min(10, Number(total)));
-    await expect(rows.nth(1).getByRole('cell').nth(8).textContent()).resolves.toBe('0.000');
+    const first = rows.nth(1).getByRole('cell');
+    await expect(first.nth(14).textContent()).resolves.toBe('0.000');
+    expect(await first.nth(8).textContent()).toMatch(/^(\d+ %|never)$/);
+    expect(await first.nth(9).textContent()).toMatch(/%$/);
+    // The demo seeds link every stocked device to a part with a cost: the parts added (one line per part) and their cost show.
+    expect(await first.nth(10).textContent()).toMatch(/^\d × \S+/);
+    expect(await first.nth(11).textContent()).toMatch(/\d/);
+    const surcharge = await first.nth(13).textContent();
     await page.screenshot({ path: path.join(SCREENSHOTS, 'designer.png'), fullPage: true });
 
     await rows.nth(1).getByRole('button', { name: 'Create option from this' }).click();
     await page.waitForURL(/\/catalog\/models\/\d+\/options\/\d+$/);
     await page.getByRole('heading', { name: /Designed 1: 1× .+ \/ 1× / }).waitFor();
+    // The created option carries the suggested surcharge.
+    expect(await page.getByText('Surcharge', { exact: true }).locator('xpath=following-sibling::dd').textContent()).toBe(surcharge);
     await page.close();
   });
 });

@@ -6,9 +6,10 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { ONSET_NEVER_PERCENT, countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { candidateBom, capacitanceFromValue, suggestedSurchargeCents } from '../../shared/design/costing';
 import { eSeriesValues } from '../../shared/design/schema';
-import { DEVICE_PRESETS, findPreset, runContract, type ContractOutput } from '../../shared/engine/index';
+import { DEVICE_PRESETS, clippingOnset, computeProfile, driveSweep, findPreset, onsetDrive, runContract, type CircuitSpec, type ContractOutput } from '../../shared/engine/index';
 
 const STAGE = { toneHz: 1000, inputPeakV: 0.1, driveGain: 40, railPeakV: 4.5, temperatureC: 27, harmonics: 10 };
 const PRESETS = ['si-small-signal', 'led-red', 'germanium-point-contact'];
@@ -37,9 +38,10 @@ function independentSpace(): { clipper: Record<string, unknown>; at: ContractOut
     { topology: 'feedback', feedbackOhms: 100000, groundOhms: 4700 },
   ];
   for (const net of networks) {
-    for (const positive of sides) {
-      for (const negative of sides) {
-        const clipper = { ...net, positive, negative };
+    for (let i = 0; i < sides.length; i++) {
+      // Mirror images (the sides swapped) are one candidate: the pair with the earlier string on the positive side.
+      for (let j = i; j < sides.length; j++) {
+        const clipper = { ...net, positive: sides[i], negative: sides[j] };
         out.push({ clipper, at: runContract({ ...STAGE, clipper }) });
       }
     }
@@ -52,18 +54,34 @@ const quantities = (at: ContractOutput) => ({ thd: at.thdF * 100, h2h3: at.harmo
 describe('option designer: enumeration and the profile contract', () => {
   const all = runDesign({ ...SPACE, target: { thdFPercent: [0, 100] }, limit: 200 });
 
-  it('enumerates devices × 1…maxPerSide on each side independently, per topology and resistor', () => {
-    // 3 devices × 2 counts = 6 strings per side; 36 ordered pairs; shunt × 2 resistors + feedback.
-    expect(all.total).toBe(36 * 3);
-    expect(all.searched).toBe(108);
+  it('enumerates devices × 1…maxPerSide on each side independently, per topology and resistor, without mirror images', () => {
+    // 3 devices × 2 counts = 6 strings per side; 6·7/2 = 21 pairs once mirror images are left out;
+    // shunt × 2 resistors + feedback.
+    expect(all.total).toBe(21 * 3);
+    expect(all.searched).toBe(63);
     expect(all.failed).toBe(0);
-    expect(all.candidates).toHaveLength(108);
-    const keys = new Set(all.candidates.map((c) => JSON.stringify([c.clipper.topology, c.clipper.seriesOhms, c.strings])));
-    expect(keys.size).toBe(108);
+    expect(all.candidates).toHaveLength(63);
+    const key = (t: string, r: number, p: unknown, n: unknown) => JSON.stringify([t, r, p, n]);
+    const keys = new Set(all.candidates.map((c) => key(c.clipper.topology, c.clipper.seriesOhms, c.strings.positive, c.strings.negative)));
+    expect(keys.size).toBe(63);
+    // No candidate's mirror image is also in the list, except the symmetric ones (their own mirror).
+    const mirrored = all.candidates.filter((c) => keys.has(key(c.clipper.topology, c.clipper.seriesOhms, c.strings.negative, c.strings.positive)));
+    expect(mirrored.every((c) => JSON.stringify(c.strings.positive) === JSON.stringify(c.strings.negative))).toBe(true);
+    expect(mirrored).toHaveLength(6 * 3);
     const sym = parseDesignInput({ ...SPACE, symmetry: 'symmetric', target: { thdFPercent: [0, 1] } });
     expect(countCandidates(sym)).toBe(6 * 3);
     const asym = parseDesignInput({ ...SPACE, symmetry: 'asymmetric', topologies: ['shunt', 'none'], target: { thdFPercent: [0, 1] } });
-    expect(countCandidates(asym)).toBe(30 * 2 + 1);
+    expect(countCandidates(asym)).toBe(15 * 2 + 1);
+  });
+
+  it('leaves out only mirror images: swapping the sides keeps THD_F, every harmonic and the fundamental, and flips DC', () => {
+    for (const c of all.candidates.filter((x) => x.clipper.negative.length !== x.clipper.positive.length || x.strings.positive!.device !== x.strings.negative!.device)) {
+      const mirror = runContract({ ...STAGE, clipper: { ...roundTrip(c.clipper), positive: roundTrip(c.clipper.negative), negative: roundTrip(c.clipper.positive) } });
+      expect(mirror.thdF).toBeCloseTo(c.at.thdF, 12);
+      expect(mirror.fundamentalPeakV).toBeCloseTo(c.at.fundamentalPeakV, 12);
+      mirror.harmonics.forEach((h, i) => expect(h.dbc).toBeCloseTo(c.at.harmonics[i].dbc, 9));
+      expect(mirror.dcV).toBeCloseTo(-c.at.dcV, 9);
+    }
   });
 
   it("gives every candidate the contract function's output for its clipper, through JSON", () => {
@@ -76,7 +94,7 @@ describe('option designer: enumeration and the profile contract', () => {
 
   it("matches the profile CLI's own output for sampled candidates, and the design CLI matches the function", () => {
     // Each spawn starts npm and tsx (seconds on a loaded machine): two samples, one per topology.
-    for (const i of [0, 107]) {
+    for (const i of [0, 62]) {
       const c = all.candidates[i];
       const r = cli('profile', `p${i}.json`, { ...STAGE, clipper: c.clipper });
       expect(r.status).toBe(0);
@@ -132,6 +150,59 @@ describe('option designer: ranking', () => {
   });
 });
 
+describe('option designer: the onset and a second drive level', () => {
+  const CONTROL = { minGain: 1, maxGain: 200, taper: 'log' as const };
+  const SMALL = { ...STAGE, devices: PRESETS, maxPerSide: 1, topologies: ['shunt', 'feedback'], seriesOhms: [4700], feedbackOhms: 100000, groundOhms: 4700, drive: CONTROL, limit: 50 };
+  const circuitOf = (clipper: unknown, shuntFarads = 0): CircuitSpec => ({
+    clipper: { ...(clipper as object), ...(shuntFarads ? { shuntFarads } : {}) }, toneHz: 1000, temperatureC: 27,
+    drive: { ...CONTROL, inputPeakV: STAGE.inputPeakV, railPeakV: STAGE.railPeakV },
+  });
+
+  it("finds the onset as the profile's 25-point sweep does, computing only up to the crossing", () => {
+    const si = { topology: 'shunt', seriesOhms: 4700, positive: [{ preset: 'si-small-signal' }], negative: [{ preset: 'led-red' }, { preset: 'led-red' }] };
+    for (const spec of [circuitOf(si), circuitOf(si, 4.7e-8), circuitOf({ topology: 'none' })]) {
+      expect(onsetDrive(spec)).toBe(computeProfile(spec).clippingOnsetDrive);
+      expect(onsetDrive(spec)).toBe(clippingOnset(driveSweep(spec, 25)));
+    }
+  });
+
+  it("gives every candidate the profile's onset and the profile CLI's output at the second gain", () => {
+    const r = runDesign({ ...SMALL, target: { onsetDrivePercent: [0, 100], second: { driveGain: 150, thdFPercent: [0, 100] } } });
+    expect(r.searched).toBe(2 * 6);
+    for (const c of r.candidates) {
+      expect(c.onsetDrive).toBe(computeProfile(circuitOf(roundTrip(c.clipper))).clippingOnsetDrive);
+      const { evenEnergyShare, ...second } = c.second!;
+      expect(evenEnergyShare).toBeGreaterThanOrEqual(0);
+      expect(roundTrip(second)).toEqual(runContract({ ...STAGE, driveGain: 150, clipper: roundTrip(c.clipper) }));
+    }
+  });
+
+  it('finds an onset and a second-drive THD_F copied from one circuit at distance 0, exactly the circuits that meet both', () => {
+    const all = runDesign({ ...SMALL, target: { onsetDrivePercent: [0, 100], second: { driveGain: 150, thdFPercent: [0, 100] } } }).candidates;
+    const chosen = all.find((c) => c.onsetDrive !== null && c.strings.negative?.name === 'led-red')!;
+    const onset = chosen.onsetDrive! * 100;
+    const thd2 = chosen.second!.thdF * 100;
+    const r = runDesign({ ...SMALL, target: { onsetDrivePercent: [onset, onset], second: { driveGain: 150, thdFPercent: [thd2, thd2] } } });
+    const expected = all.filter((c) => c.onsetDrive !== null && c.onsetDrive! * 100 === onset && c.second!.thdF * 100 === thd2);
+    const zero = r.candidates.filter((c) => c.distance === 0);
+    expect(zero.length).toBeGreaterThanOrEqual(1);
+    expect(zero.map((c) => c.strings)).toEqual(expected.map((c) => c.strings));
+    // The onset term of the distance: (how far outside) / max(width, 5 % of the control).
+    const wide = runDesign({ ...SMALL, target: { onsetDrivePercent: [onset + 10, onset + 30] } }).candidates.find((c) => JSON.stringify(c.strings) === JSON.stringify(chosen.strings))!;
+    expect(wide.distance).toBeCloseTo(10 / 20, 9);
+    // A candidate that never reaches 1 % counts as onset one sweep step past the top.
+    const none = runDesign({ ...SMALL, topologies: ['none'], railPeakV: 1000, target: { onsetDrivePercent: [0, 50] } }).candidates[0];
+    expect(none.onsetDrive).toBeNull();
+    expect(none.distance).toBeCloseTo((ONSET_NEVER_PERCENT - 50) / 50, 9);
+  });
+
+  it('refuses an onset target without the drive control, and a second level without a range', () => {
+    const { drive: _drive, ...noDrive } = SMALL;
+    expect(() => runDesign({ ...noDrive, target: { onsetDrivePercent: [10, 20] } })).toThrow(expect.objectContaining({ path: 'drive' }));
+    expect(() => runDesign({ ...SMALL, target: { second: { driveGain: 100 } } })).toThrow(expect.objectContaining({ path: 'target.second' }));
+  });
+});
+
 describe('option designer: progress, cancellation, input', () => {
   it('reports progress and stops between candidates when asked', () => {
     const seen: number[] = [];
@@ -159,7 +230,7 @@ describe('option designer: progress, cancellation, input', () => {
       [{ ...SPACE, target: {} }, 'target'],
       [{ ...SPACE, seriesOhms: undefined, target: { thdFPercent: [1, 2] } }, 'seriesOhms'],
       [{ ...SPACE, seriesOhms: eSeriesValues('E24', 10, 1e7), target: { thdFPercent: [1, 2] } }, 'seriesOhms'],
-      [{ ...SPACE, devices: DEVICE_PRESETS.map((p) => p.id), maxPerSide: 6, seriesOhms: eSeriesValues('E24', 1000, 9100), capacitorFarads: [0, 1e-9, 1e-8], target: { thdFPercent: [1, 2] } }, ''],
+      [{ ...SPACE, devices: DEVICE_PRESETS.map((p) => p.id), maxPerSide: 6, seriesOhms: { eSeries: 'E24', min: 10, max: 9100 }, capacitorFarads: [0, 1e-9, 1e-8], target: { thdFPercent: [1, 2] } }, ''],
     ];
     for (const [body, path] of cases) {
       expect(() => runDesign(body)).toThrow(expect.objectContaining({ name: 'EngineInputError', path }));
@@ -181,7 +252,7 @@ describe('option designer: progress, cancellation, input', () => {
     const parsed = parseDesignInput({ ...SPACE, devices: [...copies.slice(0, 1), ...PRESETS, ...copies.slice(1)], target: { thdFPercent: [0, 1] } });
     // The first copy stands for the preset too (same parameters): 3 distinct devices, positions 0, 2, 3.
     expect(parsed.devices.map((d) => [d.index, d.name])).toEqual([[0, 'silicon copy 0'], [2, 'led-red'], [3, 'germanium-point-contact']]);
-    expect(countCandidates(parsed)).toBe(36 * 3);
+    expect(countCandidates(parsed)).toBe(21 * 3);
     const r = designSearch(parsed, {});
     expect(r.candidates.every((c) => [0, 2, 3].includes(c.strings.positive!.device))).toBe(true);
     // 45 distinct devices, one per side, symmetric, shunt at one value: 45 candidates, searched in full.
@@ -196,5 +267,39 @@ describe('option designer: progress, cancellation, input', () => {
     const c: DesignCandidate = r.candidates[0];
     expect(c.clipper.positive).toEqual([findPreset('led-red')!.model]);
     expect(c.strings.positive).toEqual({ device: 0, name: 'led-red', count: 1 });
+  });
+});
+
+describe('option designer: parts, cost and surcharge of a candidate', () => {
+  it('reads capacitances from part values', () => {
+    expect(capacitanceFromValue('47 nF film 63 V')).toBe(4.7e-8);
+    expect(capacitanceFromValue('100 pF C0G 50 V')).toBe(1e-10);
+    expect(capacitanceFromValue('1 µF film 63 V')).toBe(1e-6);
+    expect(capacitanceFromValue('2k2 1 % 0.25 W')).toBeNull();
+  });
+
+  it('adds one linked part per device and the capacitor, and names devices without a part', () => {
+    const devices = [
+      { name: 'Si', partId: 1, partNumber: 'D-SI', unitCostCents: 5 },
+      { name: 'Red', partId: 2, partNumber: 'D-RED', unitCostCents: 12 },
+      { name: 'Loose', partId: null, partNumber: null, unitCostCents: null },
+    ];
+    const cap = { partId: 9, partNumber: 'C-47N', farads: 4.7e-8, unitCostCents: 16 };
+    const bom = candidateBom({ positive: { device: 0, count: 2 }, negative: { device: 1, count: 1 } }, devices, cap);
+    expect(bom.lines).toEqual([{ partNumber: 'D-SI', quantity: 2, unitCostCents: 5 }, { partNumber: 'D-RED', quantity: 1, unitCostCents: 12 }, { partNumber: 'C-47N', quantity: 1, unitCostCents: 16 }]);
+    expect(bom.cents).toBe(2 * 5 + 12 + 16);
+    const same = candidateBom({ positive: { device: 0, count: 1 }, negative: { device: 0, count: 3 } }, devices, null);
+    expect(same.lines).toEqual([{ partNumber: 'D-SI', quantity: 4, unitCostCents: 5 }]);
+    expect(candidateBom({ positive: { device: 2, count: 1 }, negative: { device: 0, count: 1 } }, devices, null).unlinked).toEqual(['Loose']);
+  });
+
+  it("suggests the model's margin on the cost beyond the cheapest option, rounded up to 0.50", () => {
+    // 40 ¢ more, price 199.00 on a cost of 50.00: 40 × 3.98 = 159.2 ¢ → 200 ¢.
+    expect(suggestedSurchargeCents(60, 20, 19900, 5000)).toBe(200);
+    expect(suggestedSurchargeCents(20, 20, 19900, 5000)).toBe(0);
+    expect(suggestedSurchargeCents(10, 20, 19900, 5000)).toBe(0);
+    // No known cost: the extra cost passed on as it is, rounded up.
+    expect(suggestedSurchargeCents(120, 20, 19900, null)).toBe(100);
+    expect(suggestedSurchargeCents(121, 20, 19900, null)).toBe(150);
   });
 });

@@ -6,11 +6,11 @@ import type { CustomDeviceInput } from '../../../shared/schemas/catalog';
 import { invalid, isUniqueViolation, notFound } from '../../errors';
 import { deviceView, type DeviceRow } from './options-data';
 
-const COLS = ['d.id', 'd.name', 'd.kind', 'd.preset_key', 'd.is_amps', 'd.n', 'd.rs_ohms', 'd.eg_ev', 'd.xti', 'd.part_id', 'd.provenance', 'd.fit_points', 'p.part_number', 's.available'];
+const COLS = ['d.id', 'd.name', 'd.kind', 'd.preset_key', 'd.is_amps', 'd.n', 'd.rs_ohms', 'd.eg_ev', 'd.xti', 'd.part_id', 'd.provenance', 'd.fit_points', 'p.part_number', 'p.unit_cost_cents', 's.available'];
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 function view(r: any) {
-  return { ...deviceView(r as DeviceRow), provenance: r.provenance as string, fitPoints: r.fit_points, partNumber: r.part_number ?? null, available: r.available ?? null };
+  return { ...deviceView(r as DeviceRow), provenance: r.provenance as string, fitPoints: r.fit_points, partNumber: r.part_number ?? null, unitCostCents: r.unit_cost_cents ?? null, available: r.available ?? null };
 }
 
 const query = (knex: Knex) => knex('devices as d').leftJoin('parts as p', 'p.id', 'd.part_id').leftJoin('part_stock as s', 's.part_id', 'd.part_id');

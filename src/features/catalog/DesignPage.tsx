@@ -3,14 +3,16 @@ import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router';
 import { engineDriveStage } from '../../../shared/catalog/circuit';
-import { DESIGN_LIMITS, designFormSchema, designInputFromForm, type DesignForm, type DesignInputJson, type DesignStage } from '../../../shared/design/schema';
+import { candidateBom, capacitanceFromValue, suggestedSurchargeCents, type CapacitorPart } from '../../../shared/design/costing';
+import { DESIGN_LIMITS, designFormSchema, designInputFromForm, type DesignForm, type DesignInputJson, type DesignStage, type DriveControl } from '../../../shared/design/schema';
 import { countCandidates, parseDesignInput } from '../../../shared/design/search';
 import { gainAtDrive } from '../../../shared/engine/index';
 import { SpectrumBars, ThdDriveChart } from '../../components/charts';
 import { Button } from '../../components/ui/Button';
 import { TextField } from '../../components/ui/TextField';
 import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
-import { useCreateOption, useDevices, useModel, type Device } from './api';
+import { useFormatters } from '../../lib/format';
+import { useCreateOption, useDevices, useModel, usePartsPage, type Device, type ModelDetail } from './api';
 import type { DesignedCandidate, DesignRequest, DesignResponse } from './design-messages';
 import { dbc, percent } from './units';
 
@@ -53,6 +55,11 @@ const side = (s: DesignedCandidate['strings']['positive']) => (s ? `${s.count}×
 
 const clip = (s: string, max: number) => (s.length <= max ? s : `${s.slice(0, max - 1)}…`);
 
+/** A short option code for a designed option, e.g. "DK3F9Q" (from the clock, in base 36). */
+function newOptionCode(): string {
+  return `D${Date.now().toString(36).slice(-5).toUpperCase()}`;
+}
+
 const count = (n: number) => n.toLocaleString('en-GB');
 
 /**
@@ -67,12 +74,13 @@ function spaceDevices(all: Device[], space: DesignForm['space']): Device[] {
 type Plan = { input: DesignInputJson; devices: Device[]; total: number } | { problem: string };
 
 /** The search a form describes, counted before it starts (the same parse the worker runs). */
-function planSearch(f: DesignForm, stage: DesignStage, all: Device[]): Plan {
+function planSearch(f: DesignForm, stage: DesignStage, all: Device[], control: DriveControl, caps: CapacitorPart[]): Plan {
   const devices = spaceDevices(all, f.space);
   if (devices.length === 0) {
     return { problem: f.space === 'stocked' ? 'No device in the library is in stock: search the whole library, or receive stock first' : 'the device library is empty' };
   }
-  const input = designInputFromForm(f, stage, devices.map((d) => ({ name: d.name, is: d.is, n: d.n, rs: d.rs, eg: d.eg, xti: d.xti })));
+  const farads = caps.filter((c) => f.caps.includes(c.partId)).map((c) => c.farads);
+  const input = designInputFromForm(f, stage, devices.map((d) => ({ name: d.name, is: d.is, n: d.n, rs: d.rs, eg: d.eg, xti: d.xti })), control, farads);
   try {
     return { input, devices, total: countCandidates(parseDesignInput(input)) };
   } catch (e) {
@@ -85,37 +93,49 @@ export default function DesignPage() {
   const id = Number(useParams().id);
   const model = useModel(id);
   const devices = useDevices();
+  const capParts = usePartsPage({ q: '', category: 'capacitor', lowStock: false, sort: 'partNumber', dir: 'asc', page: 1, pageSize: 100 });
   const search = useDesignWorker();
   const create = useCreateOption(id);
   const navigate = useNavigate();
   const form = useForm<DesignForm>({ resolver: zodResolver(designFormSchema) as never, defaultValues: DEFAULTS });
   const [space, setSpace] = useState<Device[]>([]);
   const [refused, setRefused] = useState<string | null>(null);
-  if (model.isPending || devices.isPending) return <Loading />;
+  if (model.isPending || devices.isPending || capParts.isPending) return <Loading />;
+  if (capParts.isError) return <ErrorState error={capParts.error} retry={() => capParts.refetch()} />;
   if (model.isError) return <ErrorState error={model.error} retry={() => model.refetch()} />;
   if (devices.isError) return <ErrorState error={devices.error} retry={() => devices.refetch()} />;
   const rev = model.data.activeRevision;
   if (!rev) return <Notice tone="alarm">This model has no active revision to design for.</Notice>;
   const drive = engineDriveStage(rev.drive);
   const stage = { toneHz: 1000, inputPeakV: drive.inputPeakV, driveGain: gainAtDrive(drive, rev.drive.referenceDrive), railPeakV: drive.railPeakV, temperatureC: 27 };
+  const control: DriveControl = { minGain: drive.minGain, maxGain: drive.maxGain, taper: drive.taper };
+  // Capacitors in stock whose value reads as a capacitance the engine takes (≤ 1 µF), smallest first.
+  const caps: CapacitorPart[] = capParts.data.items
+    .map((p) => ({ partId: p.id, partNumber: p.partNumber, farads: capacitanceFromValue(p.value) ?? 0, unitCostCents: p.unitCostCents, available: p.available }))
+    .filter((p) => p.farads > 0 && p.farads <= 1e-6 && p.available > 0)
+    .sort((a, b) => a.farads - b.farads);
   const errors = form.formState.errors;
   const onSubmit = form.handleSubmit((f) => {
-    const plan = planSearch(f, stage, devices.data);
+    const plan = planSearch(f, stage, devices.data, control, caps);
     if ('problem' in plan) { setRefused(plan.problem); return; }
     setRefused(null);
     setSpace(plan.devices);
     search.run(plan.input, drive, plan.total);
   });
+  const costing = (c: DesignedCandidate) => candidateCosting(c, space, caps, model.data);
   const createFrom = (c: DesignedCandidate, rank: number) => {
     const ids = (s: DesignedCandidate['strings']['positive']) => (s ? Array.from({ length: s.count }, () => space[s.device].deviceId) : []);
     const topology = c.clipper.topology === 'feedback' ? 'feedback' : 'shunt';
-    const network = topology === 'shunt' ? { seriesOhms: c.clipper.seriesOhms } : { feedbackOhms: c.clipper.feedbackOhms, groundOhms: c.clipper.groundOhms };
-    const code = `D${Date.now().toString(36).slice(-5).toUpperCase()}`;
+    const network = topology === 'shunt'
+      ? { seriesOhms: c.clipper.seriesOhms, shuntFarads: c.clipper.shuntFarads }
+      : { feedbackOhms: c.clipper.feedbackOhms, groundOhms: c.clipper.groundOhms, feedbackFarads: c.clipper.feedbackFarads };
+    const costs = costing(c);
+    const code = newOptionCode();
     create.mutate({
       // Option names hold at most 80 characters; long device names are cut with an ellipsis.
       code, name: clip(`Designed ${rank}: ${side(c.strings.positive)} / ${side(c.strings.negative)}`, 80),
       description: `Found by the option designer at THD_F ${percent(c.at.thdF)} (distance ${c.distance.toFixed(3)}).`,
-      topology, network, positive: ids(c.strings.positive), negative: ids(c.strings.negative), surchargeCents: 0, published: false,
+      topology, network, positive: ids(c.strings.positive), negative: ids(c.strings.negative), surchargeCents: costs.surchargeCents, published: false,
     }, { onSuccess: (r) => void navigate(`/catalog/models/${id}/options/${r.optionId}`) });
   };
   const p = search.progress;
@@ -124,7 +144,7 @@ export default function DesignPage() {
       <PageHeader title={`Design an option — ${model.data.name}`}>
         <Link to={`/catalog/models/${id}`} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Back to {model.data.name}</Link>
       </PageHeader>
-      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range.</p>
+      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range. A pair and its mirror image (the two sides swapped) give the same harmonic levels, so each pair is searched and shown once.</p>
       <form onSubmit={onSubmit} noValidate className="grid gap-4 rounded-lg bg-white p-4 shadow-sm md:grid-cols-4">
         <TextField label="THD_F from (%)" inputMode="decimal" error={errors.thdLo?.message} {...form.register('thdLo')} />
         <TextField label="THD_F to (%)" inputMode="decimal" error={errors.thdHi?.message} {...form.register('thdHi')} />
@@ -132,6 +152,13 @@ export default function DesignPage() {
         <TextField label="H2 − H3 to (dB)" inputMode="decimal" error={errors.h2h3Hi?.message} {...form.register('h2h3Hi')} />
         <TextField label="Output fundamental from (V peak)" hint="optional" inputMode="decimal" error={errors.v1Lo?.message} {...form.register('v1Lo')} />
         <TextField label="Output fundamental to (V peak)" inputMode="decimal" error={errors.v1Hi?.message} {...form.register('v1Hi')} />
+        <TextField label="Clipping onset from (% drive)" hint="optional; where THD_F passes 1 %" inputMode="decimal" error={errors.onsetLo?.message} {...form.register('onsetLo')} />
+        <TextField label="Clipping onset to (% drive)" inputMode="decimal" error={errors.onsetHi?.message} {...form.register('onsetHi')} />
+        <TextField label="Second drive (%)" hint="optional; a THD_F range there" inputMode="decimal" error={errors.secondDrive?.message} {...form.register('secondDrive')} />
+        <div className="grid grid-cols-2 gap-2">
+          <TextField label="THD_F there from (%)" inputMode="decimal" error={errors.secondThdLo?.message} {...form.register('secondThdLo')} />
+          <TextField label="THD_F there to (%)" inputMode="decimal" error={errors.secondThdHi?.message} {...form.register('secondThdHi')} />
+        </div>
         <div className="flex flex-col gap-1"><label htmlFor="design-space" className="font-semibold">Devices</label>
           <select id="design-space" className="min-h-11 rounded-md border px-2" {...form.register('space')}><option value="stocked">In stock</option><option value="library">Whole library</option></select></div>
         <div className="flex flex-col gap-1"><label htmlFor="design-symmetry" className="font-semibold">Symmetry</label>
@@ -148,6 +175,11 @@ export default function DesignPage() {
           <label className="flex min-h-11 items-center gap-2"><input type="checkbox" className="size-6" {...form.register('feedback')} /> Feedback</label>
           {errors.feedback ? <span className="text-sm font-semibold text-alarm-700">{errors.feedback.message}</span> : null}
         </fieldset>
+        <fieldset className="md:col-span-3 flex flex-wrap items-center gap-x-4"><legend className="font-semibold">Capacitor across the devices (in stock; none is always tried)</legend>
+          {caps.length === 0 ? <span className="text-ink-soft">No capacitor up to 1 µF is in stock.</span> : caps.map((c) => (
+            <label key={c.partId} className="flex min-h-11 items-center gap-2"><input type="checkbox" className="size-6" value={String(c.partId)} {...form.register('caps')} /> {c.partNumber}</label>
+          ))}
+        </fieldset>
         <div className="flex items-end gap-2">
           <Button type="submit" disabled={p !== null}>Search</Button>
           {p ? <Button type="button" variant="secondary" onClick={search.cancel}>Cancel</Button> : null}
@@ -162,13 +194,33 @@ export default function DesignPage() {
       {refused ? <Notice tone="alarm">Not started: {refused}. One search computes at most {count(DESIGN_LIMITS.candidates)} candidates; devices with the same parameters count once.</Notice> : null}
       {search.error ? <Notice tone="alarm">{search.error}</Notice> : null}
       {create.isError ? <Notice tone="alarm">The option was not created: {create.error.message}</Notice> : null}
-      {search.result ? <Results result={search.result} onCreate={createFrom} busy={create.isPending} /> : null}
+      {search.result ? <Results result={search.result} onCreate={createFrom} busy={create.isPending} costing={costing} /> : null}
     </>
   );
 }
 
-function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => void; busy: boolean }) {
+type Costing = ReturnType<typeof candidateCosting>;
+
+/** A candidate's BOM delta, its parts cost, the unit cost with it, and the suggested surcharge. */
+function candidateCosting(c: DesignedCandidate, space: Device[], caps: CapacitorPart[], model: ModelDetail) {
+  const farads = c.clipper.topology === 'feedback' ? c.clipper.feedbackFarads : c.clipper.shuntFarads;
+  const capacitor = farads > 0 ? caps.find((p) => p.farads === farads) ?? null : null;
+  const bom = candidateBom(c.strings, space, capacitor);
+  const cheapest = Math.min(...model.options.map((o) => o.deviceCents ?? 0), Number.POSITIVE_INFINITY);
+  const baseline = Number.isFinite(cheapest) ? cheapest : 0;
+  const unitCost = model.cost ? model.cost.totalCents + bom.cents : null;
+  return { bom, unitCostCents: unitCost, surchargeCents: suggestedSurchargeCents(bom.cents, baseline, model.basePriceCents, model.cost?.totalCents ?? null) };
+}
+
+function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => void; busy: boolean; costing: (c: DesignedCandidate) => Costing }) {
+  const { money } = useFormatters();
   const top = result.candidates;
+  const onset = (c: DesignedCandidate) => (c.onsetDrive === undefined ? '—' : c.onsetDrive === null ? 'never' : `${Math.round(c.onsetDrive * 100)} %`);
+  const circuit = (c: DesignedCandidate) => {
+    const f = c.clipper.topology === 'feedback' ? c.clipper.feedbackFarads : c.clipper.shuntFarads;
+    const cap = f > 0 ? ` + ${Number((f * 1e9).toPrecision(3))} nF` : '';
+    return c.clipper.topology === 'shunt' ? `shunt, ${c.clipper.seriesOhms} Ω${cap}` : `feedback${cap}`;
+  };
   return (
     <section className="mt-6 flex flex-col gap-4" aria-label="Design results">
       <Notice tone={top[0]?.distance === 0 ? 'good' : 'info'}>
@@ -179,20 +231,27 @@ function Results({ result, onCreate, busy }: { result: Done; onCreate: (c: Desig
         <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} />
         <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} />
       </div>
+      <p className="text-sm text-ink-soft">Parts cost is what the candidate's devices (and capacitor) add to the bill of materials. The suggested surcharge keeps the model's margin (base price ÷ unit cost) on the cost beyond the cheapest existing option, rounded up to 0.50; it is set on an option created from a candidate and can be changed there.</p>
+      <div className="overflow-x-auto">
       <table className="w-full rounded-lg bg-white text-left shadow-sm">
         <caption className="p-2 text-left font-semibold text-spruce-900">The nearest ten</caption>
-        <thead className="bg-spruce-100"><tr><th className="p-2">#</th><th className="p-2">Circuit</th><th className="p-2">Positive</th><th className="p-2">Negative</th><th className="p-2">THD_F</th><th className="p-2">H2</th><th className="p-2">H3</th><th className="p-2">Out (V pk)</th><th className="p-2">Distance</th><th className="p-2" /></tr></thead>
-        <tbody>{top.map((c, i) => (
+        <thead className="bg-spruce-100"><tr><th className="p-2">#</th><th className="p-2">Circuit</th><th className="p-2">Positive</th><th className="p-2">Negative</th><th className="p-2">THD_F</th><th className="p-2">H2</th><th className="p-2">H3</th><th className="p-2">Out (V pk)</th><th className="p-2">Onset</th><th className="p-2">THD_F at 2nd</th><th className="p-2">Parts added</th><th className="p-2">Parts cost</th><th className="p-2">Unit cost</th><th className="p-2">Suggested surcharge</th><th className="p-2">Distance</th><th className="p-2" /></tr></thead>
+        <tbody>{top.map((c, i) => { const k = costing(c); return (
           <tr key={i} className="border-t">
             <td className="p-2">{i + 1}</td>
-            <td className="p-2">{c.clipper.topology === 'shunt' ? `shunt, ${c.clipper.seriesOhms} Ω` : 'feedback'}</td>
+            <td className="p-2">{circuit(c)}</td>
             <td className="p-2">{side(c.strings.positive)}</td><td className="p-2">{side(c.strings.negative)}</td>
             <td className="p-2 font-mono">{percent(c.at.thdF)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[1].dbc)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[2].dbc)}</td>
-            <td className="p-2 font-mono">{c.at.fundamentalPeakV.toFixed(2)}</td><td className="p-2 font-mono">{c.distance.toFixed(3)}</td>
+            <td className="p-2 font-mono">{c.at.fundamentalPeakV.toFixed(2)}</td>
+            <td className="p-2 font-mono">{onset(c)}</td><td className="p-2 font-mono">{c.second ? percent(c.second.thdF) : '—'}</td>
+            <td className="p-2 text-sm">{k.bom.lines.map((l) => `${l.quantity} × ${l.partNumber}`).join(', ') || 'none'}{k.bom.unlinked.length ? ` (no part linked: ${k.bom.unlinked.join(', ')})` : ''}</td>
+            <td className="p-2 font-mono">{money(k.bom.cents)}</td><td className="p-2 font-mono">{k.unitCostCents === null ? '—' : money(k.unitCostCents)}</td><td className="p-2 font-mono">{money(k.surchargeCents)}</td>
+            <td className="p-2 font-mono">{c.distance.toFixed(3)}</td>
             <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => onCreate(c, i + 1)}>Create option from this</Button></td>
           </tr>
-        ))}</tbody>
+        ); })}</tbody>
       </table>
+      </div>
     </section>
   );
 }

@@ -18,7 +18,7 @@ export interface PartsPage extends Page<PartRow> { lowStockTotal: number }
 export interface PartsQuery { q: string; category: string; lowStock: boolean; sort: string; dir: 'asc' | 'desc'; page: number; pageSize: number }
 export interface Supplier { id: number; name: string }
 export interface StringDevice { deviceId: number; name: string; kind: string; presetKey: string | null; is: number; n: number; rs: number; eg: number; xti: number; vfAt1mA: number; vfAt10mA: number; partId?: number | null }
-export interface Device extends StringDevice { provenance: string; fitPoints: { vf: number; current: number }[] | null; partNumber: string | null; available: number | null }
+export interface Device extends StringDevice { provenance: string; fitPoints: { vf: number; current: number }[] | null; partNumber: string | null; unitCostCents: number | null; available: number | null }
 export interface Cost { partsCents: number; labourMinutes: number; labourCents: number; totalCents: number }
 export interface OptionView {
   id: number; code: string; name: string; description: string; topology: 'shunt' | 'feedback' | 'none'; network: NetworkValues; surchargeCents: number;
