@@ -46,9 +46,8 @@ describe('invoices', () => {
   it('issues a numbered invoice PDF on payment, with rate per line and the VAT id, attached to the receipt', async () => {
     const { order, invoice } = await paidOrder();
     expect(invoice.number).toMatch(/^INV-\d{6}$/);
-    expect(invoice.file_id).not.toBeNull();
     const mail = await env.t.knex('outbox').where({ dedupe_key: `order-received:${order.id}` }).first();
-    expect(mail.attachments).toEqual([{ filename: `invoice-${invoice.number}.pdf`, fileId: invoice.file_id }]);
+    expect(mail.attachments).toEqual([{ filename: `invoice-${invoice.number}.pdf`, invoiceId: invoice.id }]);
     expect(mail.data).toMatchObject({ invoiceNumber: invoice.number, taxRate: '19 %' });
     const text = await pdfText(await pdfOf(customer, invoice.id));
     const settings = await env.t.knex('settings').where({ id: 1 }).first();
@@ -62,6 +61,8 @@ describe('invoices', () => {
     const detail = await customer.get(`/api/orders/${order.id}`).expect(200);
     expect(detail.body.documents).toMatchObject([{ kind: 'invoice', number: invoice.number, url: `/api/invoices/${invoice.id}/pdf` }]);
     await planner.get(`/api/invoices/${invoice.id}/pdf`).expect(200);
+    // Rendered once, on first use, and kept.
+    expect((await env.t.knex('invoices').where({ id: invoice.id }).first()).file_id).not.toBeNull();
     await other.get(`/api/invoices/${invoice.id}/pdf`).expect(404);
   });
 
@@ -106,7 +107,7 @@ describe('credit notes', () => {
     expect(note).toMatchObject({ refers_to_invoice_id: invoice.id, total_cents: invoice.total_cents, tax_cents: invoice.tax_cents });
     expect(note.number).toMatch(/^CN-\d{6}$/);
     const mail = await env.t.knex('outbox').where({ dedupe_key: `order-refunded:${order.id}` }).first();
-    expect(mail.attachments).toEqual([{ filename: `credit-note-${note.number}.pdf`, fileId: note.file_id }]);
+    expect(mail.attachments).toEqual([{ filename: `credit-note-${note.number}.pdf`, invoiceId: note.id }]);
     expect(mail.data.creditNoteNumber).toBe(note.number);
     const text = await pdfText(await pdfOf(customer, note.id));
     expect(text).toContain(`Credit note ${note.number}`);

@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import type { Config } from '../../config';
-import { enqueueMail } from './outbox';
+import { enqueueMail, type MailAttachment } from './outbox';
 
 /** A VAT rate as mail text, e.g. "19 %" or "25.5 %" (empty when unknown). */
 export const taxRateText = (basisPoints: number | null | undefined) => (basisPoints === null || basisPoints === undefined ? '' : `${basisPoints / 100} %`);
@@ -28,7 +28,7 @@ export async function orderMailData(trx: Knex | Knex.Transaction, orderId: numbe
 /** Queues an order mail in the caller's transaction; `key` makes it once per event. */
 export async function enqueueOrderMail(
   trx: Knex.Transaction, config: Pick<Config, 'publicUrl'>, orderId: number, template: string, key: string,
-  extra: Record<string, unknown> = {}, attachments: { filename: string; fileId: number }[] = [],
+  extra: Record<string, unknown> = {}, attachments: MailAttachment[] = [],
 ) {
   const { to, data } = await orderMailData(trx, orderId, config.publicUrl);
   return enqueueMail(trx, { dedupeKey: `${template}:${key}`, template, to, data: { ...data, ...extra }, attachments });

@@ -20,7 +20,6 @@ export interface IssuedDocument {
   id: number;
   kind: DocumentKind;
   number: string;
-  fileId: number;
   filename: string;
 }
 
@@ -33,7 +32,7 @@ export async function nextDocumentNumber(trx: Knex.Transaction, kind: DocumentKi
 
 const filenameOf = (kind: DocumentKind, number: string) => `${kind === 'invoice' ? 'invoice' : 'credit-note'}-${number}.pdf`;
 
-async function renderAndStore(trx: Knex.Transaction, row: InvoiceRow, orderNumber: string, refersTo: string | null): Promise<IssuedDocument> {
+async function renderAndStore(trx: Knex.Transaction, row: InvoiceRow, orderNumber: string, refersTo: string | null): Promise<number> {
   const settings = await getSettings(trx);
   const logo = settings.logo_file_id ? await trx('files').where({ id: settings.logo_file_id }).first('data') : null;
   const doc: InvoiceDocument = {
@@ -46,7 +45,7 @@ async function renderAndStore(trx: Knex.Transaction, row: InvoiceRow, orderNumbe
   const filename = filenameOf(row.kind, row.number);
   const [file] = await trx('files').insert({ purpose: row.kind, filename, content_type: 'application/pdf', size_bytes: pdf.length, data: pdf }).returning('id');
   await trx('invoices').where({ id: row.id }).update({ file_id: file.id });
-  return { id: row.id, kind: row.kind, number: row.number, fileId: file.id, filename };
+  return file.id as number;
 }
 
 interface InvoiceRow {
@@ -78,10 +77,9 @@ interface InvoiceRow {
 export async function issueInvoice(trx: Knex.Transaction, orderId: number): Promise<IssuedDocument> {
   const sourceKey = `order:${orderId}`;
   const existing = await trx('invoices').where({ kind: 'invoice', source_key: sourceKey }).first();
-  if (existing?.file_id) return { id: existing.id, kind: 'invoice', number: existing.number, fileId: existing.file_id, filename: filenameOf('invoice', existing.number) };
+  if (existing) return issued(existing);
   const order = await trx('orders').where({ id: orderId }).first();
   if (!order) throw notFound('No such order');
-  if (existing) return renderAndStore(trx, existing, order.number, null);
   const settings = await getSettings(trx);
   const orderLines = await trx('order_lines').where({ order_id: orderId }).orderBy('id');
   const rate = order.tax_rate_basis_points ?? 0;
@@ -101,7 +99,22 @@ export async function issueInvoice(trx: Knex.Transaction, orderId: number): Prom
     buyer: JSON.stringify({ name: order.ship_name, address: [order.ship_line1, order.ship_line2, `${order.ship_postcode} ${order.ship_city}`, order.ship_country].filter(Boolean) }),
     lines: JSON.stringify(lines),
   }).returning('*');
-  return renderAndStore(trx, row, order.number, null);
+  return issued(row);
+}
+
+const issued = (row: { id: number; kind: DocumentKind; number: string }): IssuedDocument =>
+  ({ id: row.id, kind: row.kind, number: row.number, filename: filenameOf(row.kind, row.number) });
+
+/** The document's PDF file id, rendering and storing it first when it has none (under the row's lock, so once). */
+export async function documentFile(knex: Knex, id: number): Promise<number> {
+  return knex.transaction(async (trx) => {
+    const row = await trx('invoices').where({ id }).forUpdate().first() as InvoiceRow | undefined;
+    if (!row) throw notFound('No such document');
+    if (row.file_id) return row.file_id;
+    const order = await trx('orders').where({ id: row.order_id }).first('number');
+    const refersTo = row.refers_to_invoice_id ? (await trx('invoices').where({ id: row.refers_to_invoice_id }).first('number')).number as string : null;
+    return renderAndStore(trx, row, order.number, refersTo);
+  });
 }
 
 /**
@@ -111,11 +124,9 @@ export async function issueInvoice(trx: Knex.Transaction, orderId: number): Prom
 export async function issueCreditNote(trx: Knex.Transaction, orderId: number, refundKey: string): Promise<IssuedDocument> {
   const sourceKey = `refund:${refundKey}`;
   const existing = await trx('invoices').where({ kind: 'credit-note', source_key: sourceKey }).first();
-  if (existing?.file_id) return { id: existing.id, kind: 'credit-note', number: existing.number, fileId: existing.file_id, filename: filenameOf('credit-note', existing.number) };
+  if (existing) return issued(existing);
   const invoice = await issueInvoice(trx, orderId);
   const original = await trx('invoices').where({ id: invoice.id }).first() as InvoiceRow;
-  const order = await trx('orders').where({ id: orderId }).first('number');
-  if (existing) return renderAndStore(trx, existing, order.number, original.number);
   const sequence = await nextDocumentNumber(trx, 'credit-note');
   const [row] = await trx('invoices').insert({
     kind: 'credit-note', sequence, number: documentNumber('credit-note', sequence), order_id: orderId, refers_to_invoice_id: original.id, source_key: sourceKey,
@@ -123,20 +134,20 @@ export async function issueCreditNote(trx: Knex.Transaction, orderId: number, re
     tax_rate_basis_points: original.tax_rate_basis_points, tax_regime: original.tax_regime, tax_note: original.tax_note,
     seller: JSON.stringify(original.seller), buyer: JSON.stringify(original.buyer), lines: JSON.stringify(original.lines),
   }).returning('*');
-  return renderAndStore(trx, row, order.number, original.number);
+  return issued(row);
 }
 
 /** The order's invoices and credit notes, for its page. */
 export async function documentsOf(db: Knex | Knex.Transaction, orderId: number) {
-  const rows = await db('invoices').where({ order_id: orderId }).orderBy('id').select('id', 'kind', 'number', 'issued_at', 'total_cents', 'file_id');
-  return rows.map((r) => ({ id: r.id, kind: r.kind as DocumentKind, number: r.number, issuedAt: r.issued_at, totalCents: r.total_cents, url: r.file_id ? `/api/invoices/${r.id}/pdf` : null }));
+  const rows = await db('invoices').where({ order_id: orderId }).orderBy('id').select('id', 'kind', 'number', 'issued_at', 'total_cents');
+  return rows.map((r) => ({ id: r.id, kind: r.kind as DocumentKind, number: r.number, issuedAt: r.issued_at, totalCents: r.total_cents, url: `/api/invoices/${r.id}/pdf` }));
 }
 
 /** A document's PDF for its order's customer or order staff; anyone else gets 404, as for the order. */
 export async function documentPdf(db: Knex, user: SessionUser, id: number) {
-  const row = await db('invoices as i').join('orders as o', 'o.id', 'i.order_id').join('files as f', 'f.id', 'i.file_id')
-    .where('i.id', id).first('o.customer_id', 'f.filename', 'f.data');
+  const row = await db('invoices as i').join('orders as o', 'o.id', 'i.order_id').where('i.id', id).first('o.customer_id');
   const staff = (PLANNING as readonly string[]).includes(user.role);
   if (!row || (!staff && row.customer_id !== user.id)) throw notFound('No such document');
-  return { filename: row.filename as string, data: row.data as Buffer };
+  const file = await db('files').where({ id: await documentFile(db, id) }).first('filename', 'data');
+  return { filename: file.filename as string, data: file.data as Buffer };
 }

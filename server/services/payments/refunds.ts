@@ -53,7 +53,7 @@ export async function applyRefunds(trx: Knex.Transaction, { config }: PaymentsDe
   await transitionOrder(trx, orderId, 'refunded', meta);
   // A full refund credits the invoice in full: a numbered credit note, attached to the refund mail.
   const note = await issueCreditNote(trx, orderId, `order-refunded:${orderId}`);
-  await enqueueOrderMail(trx, config, orderId, 'order-refunded', String(orderId), { amountCents: refunded, creditNoteNumber: note.number }, [{ filename: note.filename, fileId: note.fileId }]);
+  await enqueueOrderMail(trx, config, orderId, 'order-refunded', String(orderId), { amountCents: refunded, creditNoteNumber: note.number }, [{ filename: note.filename, invoiceId: note.id }]);
   return true;
 }
 

@@ -62,7 +62,7 @@ async function applyEvent(trx: Knex.Transaction, deps: PaymentsDeps, event: Stri
         });
         // The invoice is numbered in this transaction (gap-free) and goes with the receipt.
         const invoice = await issueInvoice(trx, orderId);
-        await enqueueOrderMail(trx, deps.config, orderId, 'order-received', String(orderId), { invoiceNumber: invoice.number }, [{ filename: invoice.filename, fileId: invoice.fileId }]);
+        await enqueueOrderMail(trx, deps.config, orderId, 'order-received', String(orderId), { invoiceNumber: invoice.number }, [{ filename: invoice.filename, invoiceId: invoice.id }]);
         await applyRefunds(trx, deps, orderId, { message: 'Refunded at the payments provider (the refund was reported before the payment)' });
         return done('processed');
       }
