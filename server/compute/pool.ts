@@ -62,6 +62,7 @@ export const compute = {
   specSheetPdf: async (data: Arg<'specSheetPdf'>) => bytes(await run('specSheetPdf', data)),
   zipArchive: async (entries: Arg<'zipEntries'>) => bytes(await run('zipEntries', entries)),
   packingSlipPdf: async (input: Arg<'packingSlipPdf'>) => bytes(await run('packingSlipPdf', input)),
+  invoicePdf: async (input: Arg<'invoicePdf'>) => bytes(await run('invoicePdf', input)),
   wavCapture: (file: Arg<'wavCapture'>) => run('wavCapture', file),
   unitPrediction: (a: Arg<'unitPrediction'>) => run('unitPrediction', a),
   batchMatching: (a: Arg<'batchMatching'>) => run('batchMatching', a),

@@ -5,6 +5,7 @@ import { computeProfile, forwardVoltage, perUnitCircuit, type CircuitSpec, type 
 import { EngineInputError } from '../../shared/engine/errors';
 import { planBatchMatching, type PlanInput } from '../../shared/matching/batch';
 import { DomainError, invalid } from '../errors';
+import { renderInvoice, type InvoiceDocument } from '../pdf/invoice';
 import { renderPackingSlip, type SlipInput } from '../pdf/packing-slip';
 import { renderSpecSheet } from '../pdf/spec-sheet';
 import type { SpecSheetData } from '../pdf/spec-sheet-data';
@@ -41,6 +42,9 @@ export const specSheetPdf = (data: SpecSheetData) => outcome(async () => new Uin
 /** A batch archive's zip bytes (entries' bytes arrive as plain Uint8Arrays). */
 export const zipEntries = (entries: { name: string; data: Uint8Array; date: Date }[]) =>
   outcome(async () => new Uint8Array(await zipArchive(entries.map((e) => ({ ...e, data: Buffer.from(e.data.buffer, e.data.byteOffset, e.data.byteLength) })))));
+
+/** An invoice's or credit note's PDF bytes. */
+export const invoicePdf = (input: InvoiceDocument) => outcome(async () => new Uint8Array(await renderInvoice(input)));
 
 /** The packing slip's PDF bytes. */
 export const packingSlipPdf = (input: SlipInput) => outcome(async () => new Uint8Array(await renderPackingSlip(input)));

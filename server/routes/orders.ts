@@ -8,6 +8,7 @@ import { CUSTOMERS, ORDER_CANCELLERS, PLANNING } from '../../shared/roles';
 import { parseWith } from '../errors';
 import { pathId } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
+import { documentPdf } from '../services/orders/invoices';
 import * as orders from '../services/orders/orders';
 import { cancelOrder } from '../services/payments/cancel';
 import { startCheckout } from '../services/payments/checkout';
@@ -53,6 +54,16 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
       handler: async (req, res) => {
         await orders.markDelivered(knex, currentUser(req), orderId(req), parseWith(markDeliveredSchema, req.body).message);
         res.json(await orders.orderDetail(knex, currentUser(req), orderId(req)));
+      },
+    },
+    {
+      // An invoice or credit note: its order's customer, or order staff (anyone else: 404).
+      method: 'get', path: '/api/invoices/:id/pdf', allow: 'signed-in',
+      handler: async (req, res) => {
+        const pdf = await documentPdf(knex, currentUser(req), pathId(req, 'id', 'document'));
+        res.set('Content-Type', 'application/pdf');
+        res.set('Content-Disposition', `inline; filename="${pdf.filename}"`);
+        res.send(pdf.data);
       },
     },
   ];

@@ -49,7 +49,7 @@ export const shippingZoneSchema = z.object({
   id: id('Not a valid zone id').optional(),
   name: text(60).min(1, 'Name the zone'),
   countries: z.array(country, { error: 'List the countries of this zone' }).min(1, 'Add at least one country').max(250),
-  rateCents: z.coerce.number({ error: 'Enter the rate in cents' }).int('Enter whole cents').min(0, 'The rate cannot be negative').max(1_000_000, 'At most 10,000.00'),
+  rateCents: z.coerce.number({ error: 'Enter the rate' }).int('Enter whole cents').min(0, 'The rate cannot be negative').max(1_000_000, 'At most 10,000.00'),
 });
 export type ShippingZoneInput = z.infer<typeof shippingZoneSchema>;
 

@@ -3,7 +3,9 @@ import { Suspense } from 'react';
 import { ROLE_LABELS } from '../../shared/roles';
 import { useLogout, useSession } from '../features/auth/api';
 import { navFor, paths } from '../lib/navigation';
+import { usePublicSettings } from '../lib/format';
 import { Logo } from './Logo';
+import { ShopIdentity } from './ShopIdentity';
 import { ErrorState, Loading } from './ui/states';
 
 /** The signed-in frame: the role's navigation beside the page. */
@@ -12,6 +14,7 @@ export function AppShell() {
   const logout = useLogout();
   const navigate = useNavigate();
   const location = useLocation();
+  const shopName = usePublicSettings().data?.shopName;
   if (session.isPending) return <Loading label="Checking your session…" />;
   if (session.isError) return <div className="p-6"><ErrorState error={session.error} retry={() => session.refetch()} /></div>;
   const user = session.data;
@@ -24,11 +27,17 @@ export function AppShell() {
       </a>
       <aside className="bg-spruce-900 text-spruce-100 md:min-h-screen">
         <div className="flex items-center gap-3 px-4 py-4">
-          <Logo />
-          <div>
-            <p className="text-xl font-bold tracking-tight text-white">Kneepoint</p>
-            <p className="text-xs text-spruce-200">Workshop production</p>
-          </div>
+          {user.role === 'customer' ? (
+            <span className="text-white"><ShopIdentity /></span>
+          ) : (
+            <>
+              <Logo />
+              <div>
+                <p className="text-xl font-bold tracking-tight text-white">Kneepoint</p>
+                <p className="text-xs text-spruce-200">{shopName ? `Production at ${shopName}` : 'Workshop production'}</p>
+              </div>
+            </>
+          )}
         </div>
         <nav aria-label="Main" className="flex gap-1 overflow-x-auto px-2 pb-3 md:flex-col md:overflow-visible">
           {navFor(user.role).map((item) => (

@@ -8,6 +8,7 @@ export const paths = {
   resetPassword: '/reset-password',
   account: '/account',
   users: '/users',
+  settings: '/settings',
   board: '/board',
   builds: '/builds',
   bench: '/bench',
@@ -64,6 +65,7 @@ export const NAV: NavItem[] = [
   { to: paths.shop, label: 'Pedals', roles: CUSTOMERS },
   { to: paths.myOrders, label: 'My orders', roles: CUSTOMERS },
   { to: paths.users, label: 'People & roles', roles: OWNER_ONLY },
+  { to: paths.settings, label: 'Shop settings', roles: OWNER_ONLY },
   { to: paths.account, label: 'My account', roles: ROLES },
 ];
 

@@ -1,7 +1,7 @@
 import { Link, Outlet, useLocation } from 'react-router';
 import { Suspense } from 'react';
 import { AppShell } from '../components/AppShell';
-import { Logo } from '../components/Logo';
+import { ShopIdentity } from '../components/ShopIdentity';
 import { Loading } from '../components/ui/states';
 import { useSession } from '../features/auth/api';
 import { paths } from '../lib/navigation';
@@ -16,8 +16,7 @@ export function ShopFrame() {
     <div className="min-h-screen">
       <header className="flex flex-wrap items-center justify-between gap-3 bg-spruce-900 px-4 py-3 text-white">
         <Link to={paths.shop} className="flex min-h-11 items-center gap-3 font-bold">
-          <Logo />
-          <span className="text-xl tracking-tight">Kneepoint shop</span>
+          <ShopIdentity />
         </Link>
         <nav aria-label="Visitor" className="flex flex-wrap gap-2">
           <Link to={paths.cart} className="flex min-h-11 items-center rounded-md px-3 font-semibold hover:bg-spruce-800">Cart</Link>

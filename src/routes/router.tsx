@@ -26,6 +26,7 @@ export const router = createBrowserRouter([
     children: [
       { path: paths.account, lazy: page(() => import('../features/auth/AccountPage')) },
       { path: paths.users, lazy: page(() => import('../features/users/UsersPage')) },
+      { path: paths.settings, lazy: page(() => import('../features/settings/SettingsPage')) },
       { path: paths.board, lazy: page(() => import('../features/board/BoardPage')) },
       { path: paths.builds, lazy: page(() => import('../features/builds/BuildsPage')) },
       { path: paths.buildUnit, lazy: page(() => import('../features/builds/UnitBuildPage')) },

@@ -68,6 +68,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/orders': ['customer'],
   'GET /api/orders': ['owner', 'planner'],
   'GET /api/orders/:id': 'signed-in',
+  'GET /api/invoices/:id/pdf': 'signed-in',
   'POST /api/orders/:id/checkout': ['customer'],
   'POST /api/orders/:id/cancel': ['customer', 'owner', 'planner'],
   'POST /api/orders/:id/notes': ['owner', 'planner'],

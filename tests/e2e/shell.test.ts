@@ -4,7 +4,7 @@ import { DEMO } from '../support/app';
 import { SCREENSHOTS, signIn, useBrowserApp } from '../support/browser';
 
 const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> = {
-  owner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Mail inbox', 'People & roles', 'My account'] },
+  owner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Mail inbox', 'People & roles', 'Shop settings', 'My account'] },
   planner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Mail inbox', 'My account'] },
   assembler: { home: '/builds', nav: ['My builds', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
   tester: { home: '/bench', nav: ['Test bench', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },

@@ -4,6 +4,8 @@ import { wakeJob } from '../../jobs/wake';
 /** The worker loop that sends the outbox (server/jobs/outbox-worker.ts). */
 export const OUTBOX_LOOP = 'mail-outbox';
 
+export type MailAttachment = { filename: string; fileId: number } | { filename: string; invoiceId: number };
+
 export interface OutgoingMail {
   /** One mail per event: a second enqueue with the same key is ignored (e.g. `order-received:42`). */
   dedupeKey: string;
@@ -12,8 +14,11 @@ export interface OutgoingMail {
   to: string;
   /** What the template needs; stored as JSON. */
   data: Record<string, unknown>;
-  /** Files to attach, by `files.id` (e.g. a unit's stored spec sheet). */
-  attachments?: { filename: string; fileId: number }[];
+  /**
+   * Files to attach: by `files.id` (e.g. a unit's stored spec sheet), or an invoice / credit note by
+   * `invoices.id`, whose PDF the sender renders (compute pool) when it is not stored yet.
+   */
+  attachments?: MailAttachment[];
 }
 
 /**

@@ -18,6 +18,10 @@ export interface RenderContext {
   timeZone: string;
   shopName: string;
   shopAddress: string;
+  /** The shop's VAT id, shown under its address when set. */
+  shopVatId?: string;
+  /** BCP 47: how money and dates are written (the shop's setting; en-GB when absent). */
+  locale?: string;
 }
 
 type Scope = Record<string, unknown>;
@@ -30,8 +34,8 @@ function lookup(scope: Scope, key: string): unknown {
 
 function format(helper: string | undefined, value: unknown, ctx: RenderContext): string {
   if (value === undefined || value === null) return '';
-  if (helper === 'money') return new Intl.NumberFormat('en-GB', { style: 'currency', currency: ctx.currency }).format(Number(value) / 100);
-  if (helper === 'date') return new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: ctx.timeZone }).format(new Date(String(value)));
+  if (helper === 'money') return new Intl.NumberFormat(ctx.locale ?? 'en-GB', { style: 'currency', currency: ctx.currency }).format(Number(value) / 100);
+  if (helper === 'date') return new Intl.DateTimeFormat(ctx.locale ?? 'en-GB', { dateStyle: 'long', timeZone: ctx.timeZone }).format(new Date(String(value)));
   return String(value);
 }
 
@@ -79,7 +83,7 @@ export const TEMPLATES = ['welcome', 'account-exists', 'order-received', 'paymen
  */
 export function renderMail(name: string, data: Scope, ctx: RenderContext) {
   if (!(TEMPLATES as readonly string[]).includes(name)) throw new Error(`Unknown mail template "${name}"`);
-  const scope = { ...data, shopName: ctx.shopName, shopAddress: ctx.shopAddress };
+  const scope = { ...data, shopName: ctx.shopName, shopAddress: ctx.shopAddress, shopVatId: ctx.shopVatId ?? '' };
   const [subjectLine, ...textLines] = loadWithPartials(`${name}.txt`).split('\n');
   const subject = renderString(subjectLine.replace(/^Subject:\s*/, ''), scope, ctx, false);
   const textBody = renderString(textLines.join('\n').trim(), scope, ctx, false);

@@ -2,7 +2,8 @@ import nodemailer, { type Transporter } from 'nodemailer';
 import type { Knex } from 'knex';
 import type { Config } from '../../config';
 import { getSettings } from '../settings';
-import { withoutSecrets } from './outbox';
+import { documentFile } from '../orders/invoices';
+import { withoutSecrets, type MailAttachment } from './outbox';
 import { renderMail } from './render';
 
 /** nodemailer over SMTP: the mail fake in development and tests, a real server in production. */
@@ -25,7 +26,7 @@ interface OutboxRow {
   template: string;
   to_address: string;
   data: Record<string, unknown>;
-  attachments: { filename: string; fileId: number }[];
+  attachments: MailAttachment[];
   attempts: number;
 }
 
@@ -41,7 +42,7 @@ export const backoffSeconds = (attempts: number, base: number) => Math.min(base 
  */
 export async function sendDueMail(knex: Knex, mailer: Transporter, config: Config, limit = 20): Promise<{ sent: number; failed: number }> {
   const settings = await getSettings(knex);
-  const ctx = { currency: settings.currency, timeZone: settings.time_zone, shopName: settings.shop_name, shopAddress: settings.shop_address };
+  const ctx = { currency: settings.currency, timeZone: settings.time_zone, shopName: settings.shop_name, shopAddress: settings.shop_address, shopVatId: settings.vat_id, locale: settings.locale };
   const fromAddress = config.MAIL_FROM.match(/<([^>]+)>/)?.[1] ?? config.MAIL_FROM.trim();
   const domain = fromAddress.split('@')[1] ?? 'kneepoint.local';
   let sent = 0;
@@ -54,8 +55,11 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
       let stage: 'render' | 'send' = 'render';
       try {
         const rendered = renderMail(row.template, { shopUrl: config.publicUrl, ...row.data }, ctx);
-        const files = row.attachments.length
-          ? await trx('files').whereIn('id', row.attachments.map((a) => a.fileId)).select('id', 'content_type', 'data')
+        // An invoice's PDF is rendered on first use (its own short transaction), then read like any file.
+        const attachments: { filename: string; fileId: number }[] = [];
+        for (const a of row.attachments) attachments.push('invoiceId' in a ? { filename: a.filename, fileId: await documentFile(knex, a.invoiceId) } : a);
+        const files = attachments.length
+          ? await trx('files').whereIn('id', attachments.map((a) => a.fileId)).select('id', 'content_type', 'data')
           : [];
         stage = 'send';
         await mailer.sendMail({
@@ -66,7 +70,7 @@ export async function sendDueMail(knex: Knex, mailer: Transporter, config: Confi
           text: rendered.text,
           html: rendered.html,
           messageId: `<${row.dedupe_key.replace(/[^\w.-]/g, '.')}.${row.id}@${domain}>`,
-          attachments: row.attachments.map((a) => {
+          attachments: attachments.map((a) => {
             const file = files.find((f) => f.id === a.fileId);
             if (!file) throw new Error(`Attachment file ${a.fileId} is missing`);
             return { filename: a.filename, content: file.data as Buffer, contentType: file.content_type };

@@ -20,9 +20,12 @@ export async function startCheckout(knex: Knex, { stripe, config }: PaymentsDeps
   const lines = await knex('order_lines').where({ order_id: order.id }).orderBy('id');
   const currency = order.currency.toLowerCase();
   const item = (name: string, cents: number, quantity: number) => ({ price_data: { currency, unit_amount: cents, product_data: { name } }, quantity });
-  const lineItems = lines.map((l) => item(l.description, l.unit_price_cents, l.quantity));
+  // Each line as paid (VAT of the destination included); a line whose amount does not split evenly
+  // over its quantity goes as one item, so the session's total is the order's to the cent.
+  const lineItems = lines.map((l) => (l.line_total_cents % l.quantity === 0
+    ? item(l.description, l.line_total_cents / l.quantity, l.quantity)
+    : item(`${l.quantity} × ${l.description}`, l.line_total_cents, 1)));
   lineItems.push(item('Shipping', order.shipping_cents, 1));
-  if (order.total_cents > order.subtotal_cents + order.shipping_cents) lineItems.push(item('Tax', order.tax_cents, 1));
   const metadata = { order_id: String(order.id), order_number: order.number };
   const back = `${config.publicUrl}/orders/${order.id}`;
   const customer = await knex('users').where({ id: order.customer_id }).first('email');

@@ -6,6 +6,7 @@
 //    transaction. A retry (a second click, a redelivered event) repeats the same request safely.
 import type { Knex } from 'knex';
 import { enqueueOrderMail } from '../mail/order-mail';
+import { issueCreditNote } from '../orders/invoices';
 import { transitionOrder } from '../orders/transitions';
 import { withProvider, type PaymentsDeps } from './client';
 
@@ -50,7 +51,9 @@ export async function applyRefunds(trx: Knex.Transaction, { config }: PaymentsDe
   const refunded = await refundedCents(trx, order.payment_intent_id);
   if (refunded < order.total_cents) return false;
   await transitionOrder(trx, orderId, 'refunded', meta);
-  await enqueueOrderMail(trx, config, orderId, 'order-refunded', String(orderId), { amountCents: refunded });
+  // A full refund credits the invoice in full: a numbered credit note, attached to the refund mail.
+  const note = await issueCreditNote(trx, orderId, `order-refunded:${orderId}`);
+  await enqueueOrderMail(trx, config, orderId, 'order-refunded', String(orderId), { amountCents: refunded, creditNoteNumber: note.number }, [{ filename: note.filename, invoiceId: note.id }]);
   return true;
 }
 

@@ -2,6 +2,7 @@ import type Stripe from 'stripe';
 import type { Knex } from 'knex';
 import { invalid } from '../../errors';
 import { enqueueOrderMail } from '../mail/order-mail';
+import { issueInvoice } from '../orders/invoices';
 import { transitionOrder } from '../orders/transitions';
 import type { PaymentsDeps } from './client';
 import { applyRefunds, recordProviderRefund, refundedCents, requestRefund, settleRefunds } from './refunds';
@@ -59,7 +60,9 @@ async function applyEvent(trx: Knex.Transaction, deps: PaymentsDeps, event: Stri
         await transitionOrder(trx, orderId, 'paid', {
           message: 'Payment received', patch: { paid_at: trx.fn.now(), payment_intent_id: intentId, last_payment_error: null },
         });
-        await enqueueOrderMail(trx, deps.config, orderId, 'order-received', String(orderId));
+        // The invoice is numbered in this transaction (gap-free) and goes with the receipt.
+        const invoice = await issueInvoice(trx, orderId);
+        await enqueueOrderMail(trx, deps.config, orderId, 'order-received', String(orderId), { invoiceNumber: invoice.number }, [{ filename: invoice.filename, invoiceId: invoice.id }]);
         await applyRefunds(trx, deps, orderId, { message: 'Refunded at the payments provider (the refund was reported before the payment)' });
         return done('processed');
       }

@@ -1,16 +1,15 @@
 import type { ReactNode } from 'react';
 import { Link } from 'react-router';
-import { Logo } from '../../components/Logo';
 import { paths } from '../../lib/navigation';
+import { ShopIdentity } from '../../components/ShopIdentity';
 
 /** The frame of the sign-in, registration and password reset pages, with the way back to the shop. */
 export function AuthLayout({ title, children }: { title: string; children: ReactNode }) {
   return (
     <div className="flex min-h-screen flex-col items-center justify-center bg-spruce-900 px-4 py-10">
       <div className="mb-6 flex items-center gap-3 text-white">
-        <Logo size={44} />
         <div>
-          <p className="text-3xl font-bold tracking-tight">Kneepoint</p>
+          <p><ShopIdentity size="lg" /></p>
           <p className="text-spruce-200">Hand-built pedals, from bench to box</p>
         </div>
       </div>
