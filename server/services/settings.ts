@@ -25,6 +25,8 @@ export interface ShopSettings {
   thd_tolerance_percent: number;
   max_current_draw_ma: number;
   fast_step_percent: number;
+  /** ± dB on each harmonic's level at the bench test. */
+  harmonic_tolerance_db: number;
   paper_size: 'A4' | 'Letter';
   sheet_staff_names: 'names' | 'initials';
   serial_prefix: string;
