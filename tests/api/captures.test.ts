@@ -1,5 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import wavefile from 'wavefile';
+import { PDFParse } from 'pdf-parse';
+import { formatDbc, formatPercent } from '../../server/pdf/spec-sheet';
 import { anonymousAgent, DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
 import { makeCatalog } from './production-fixture';
 
@@ -74,6 +76,16 @@ function captureOfPrediction(predicted: { order: number; dbc: number }[], shiftD
     return 0.5 * 10 ** ((h.dbc + (shiftDb[k + 1] ?? 0)) / 20);
   });
   return wav(amplitudes);
+}
+
+/** The unit's spec sheet as text (pdf-parse). */
+async function sheetText(serial: string) {
+  const res = await planner.get(`/api/units/${serial}/spec-sheet.pdf`).buffer(true)
+    .parse((r, cb) => { const b: Buffer[] = []; r.on('data', (d: Buffer) => b.push(d)); r.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
+  const parser = new PDFParse({ data: new Uint8Array(res.body as Buffer) });
+  const { text } = await parser.getText();
+  await parser.destroy();
+  return text;
 }
 
 const analyse = (agent: TestAgent) => agent.post('/api/captures/analyse').set('X-CSRF-Token', agent.csrf);
@@ -229,6 +241,20 @@ describe('saving a bench test', () => {
     expect(page.body.tests[0].measuredHarmonics).toHaveLength(10);
     expect(page.body.tests[0].measuredThdRPercent).toBeCloseTo(record.measured_thd_r_percent, 9);
     expect(page.body.harmonicToleranceDb).toBe(3);
+
+    // The stored spec sheet prints the measured column beside the reference prediction: H1…H8, THD_F, THD_R.
+    const text = await sheetText(unit.serial);
+    const lines = text.split('\n');
+    expect(lines.find((l) => l.includes('Harmonic (dBc)'))).toMatch(/Reference \(50 %\)\s+Measured\s+High drive/);
+    const measured = record.measured_harmonics as { order: number; dbc: number }[];
+    for (const order of [2, 3]) {
+      const row = lines.find((l) => l.trim().startsWith(`H${order}`))!;
+      // Columns: low, reference, measured, high; the measured one is the capture's level to one decimal.
+      expect(row.trim().split(/\s+/)[3]).toBe(formatDbc(measured[order - 1].dbc));
+    }
+    expect(lines.find((l) => l.trim().startsWith('THD_F') && l.includes('%'))).toContain(formatPercent(record.measured_thd_percent / 100));
+    expect(lines.find((l) => l.trim().startsWith('THD_R') && l.includes('%'))).toContain(formatPercent(record.measured_thd_r_percent / 100));
+    expect(text).toContain('read from its WAV capture');
   });
 
   it('keeps a typed THD when there is no capture, with no harmonics', async () => {
@@ -239,5 +265,9 @@ describe('saving a bench test', () => {
     expect(record.measured_thd_percent).toBe(Number(typed));
     expect(record.measured_harmonics).toBeNull();
     expect(record.measured_thd_r_percent).toBeNull();
+    // The sheet's measured column has the typed THD_F and a dash where nothing was measured.
+    const lines = (await sheetText(unit.serial)).split('\n');
+    expect(lines.find((l) => l.trim().startsWith('H2'))!.trim().split(/\s+/)[3]).toBe('—');
+    expect(lines.find((l) => l.trim().startsWith('THD_F') && l.includes('%'))).toContain(formatPercent(Number(typed) / 100));
   });
 });
