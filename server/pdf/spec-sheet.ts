@@ -166,7 +166,7 @@ export async function renderSpecSheet(data: SpecSheetData): Promise<Buffer> {
   const measuredSpectrum = data.qa?.measuredHarmonicsDbc ?? null;
   spectrumBars(
     doc, { x: m + 18, y: chartTop, width: half - 18, height: 110 }, reference.harmonicsDbc,
-    `Spectrum at the reference setting (${Math.round(reference.drive * 100)} % drive)${measuredSpectrum ? ': bars predicted, outlines measured' : ''}`, -80, measuredSpectrum,
+    measuredSpectrum ? `Spectrum at ${Math.round(reference.drive * 100)} % drive: bars predicted, outlines measured` : `Spectrum at the reference setting (${Math.round(reference.drive * 100)} % drive)`, -80, measuredSpectrum,
   );
   thdAgainstDrive(doc, { x: ox + 28, y: chartTop, width: half - 28, height: 110 }, data.profile.sweep, data.profile.band, 'THD_F against drive (shaded: the option’s P5–P95 spread)');
   y = chartTop + 126;

@@ -7,7 +7,7 @@ import { SERIES_COLOURS } from '../../components/charts';
 const CHART_FLOOR_DBC = -100;
 const clampDb = (db: number) => Math.max(CHART_FLOOR_DBC, Math.min(0, db));
 const percent = (x: number) => `${x.toFixed(2)} %`;
-const band = (low: number | null, high: number) => (low === null ? `up to ${formatDbcLevel(high)}` : `${formatDbcLevel(low)} to ${formatDbcLevel(high)}`);
+const band = (low: number | null, high: number) => (low === null ? `at most ${formatDbcLevel(high)}` : `${formatDbcLevel(low)} to ${formatDbcLevel(high)}`);
 
 function Result({ within }: { within: boolean | null }) {
   if (within === null) return <span className="text-ink-soft">not measured</span>;
@@ -22,7 +22,7 @@ export function ComparisonTable({ comparison, thdR, caption }: { comparison: Cap
   const { thd, tolerances } = comparison;
   return (
     <div className="overflow-x-auto">
-      <table className="w-full min-w-[36rem] border-collapse text-left">
+      <table className="w-full min-w-[40rem] border-collapse text-left">
         <caption className="mb-2 text-left font-semibold text-spruce-900">{caption}</caption>
         <thead>
           <tr className="border-b border-spruce-700/30">
@@ -33,7 +33,7 @@ export function ComparisonTable({ comparison, thdR, caption }: { comparison: Cap
             <th scope="col" className="py-2">Result</th>
           </tr>
         </thead>
-        <tbody className="font-mono text-sm">
+        <tbody className="whitespace-nowrap font-mono text-sm">
           {comparison.harmonics.map((h) => (
             <tr key={h.order} className="border-b border-spruce-700/10">
               <th scope="row" className="py-1.5 pr-3 font-sans font-semibold">H{h.order}</th>
@@ -61,7 +61,7 @@ export function ComparisonTable({ comparison, thdR, caption }: { comparison: Cap
           ) : null}
         </tbody>
       </table>
-      <p className="mt-1 text-sm text-ink-soft">Harmonic bands are ±{tolerances.harmonicDb} dB around the prediction; levels below {formatDbcLevel(HARMONIC_FLOOR_DBC)} count as agreeing (the bench cannot tell them apart).</p>
+      <p className="mt-1 text-sm text-ink-soft">Harmonic bands are ±{tolerances.harmonicDb} dB around the prediction; levels below {HARMONIC_FLOOR_DBC.toString().replace('-', '−')} dBc count as agreeing (the bench cannot tell them apart).</p>
     </div>
   );
 }
@@ -71,7 +71,7 @@ export function SpectrumOverlay({ comparison, title }: { comparison: CaptureComp
   const rows = comparison.harmonics;
   const measured = rows.some((h) => h.measuredDbc !== null);
   return (
-    <figure className="rounded-lg border border-spruce-700/15 bg-white p-4">
+    <figure className="max-w-3xl rounded-lg border border-spruce-700/15 bg-white p-4">
       <figcaption className="mb-2 font-semibold text-spruce-900">{title}</figcaption>
       <div className="h-72">
         <Chart

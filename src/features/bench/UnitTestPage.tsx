@@ -39,7 +39,7 @@ function TestResult({ test, prediction }: { test: TestRecord; prediction: Predic
         {' · '}<strong className={test.withinTolerance ? 'text-good-700' : 'text-alarm-700'}>{test.withinTolerance ? 'within tolerance' : 'out of tolerance'}</strong></p>
       {test.capture ? <p className="text-sm text-ink-soft">Capture: {(test.capture.sampleRate / 1000).toFixed(1)} kHz, {test.capture.channels === 1 ? 'mono' : 'stereo'}, {test.capture.durationS.toFixed(2)} s · fundamental {test.capture.fundamentalHz.toFixed(1)} Hz · THD {captureThd?.toFixed(2)} %</p> : null}
       {comparison && test.measuredHarmonics ? (
-        <div className="mt-3 grid gap-4 lg:grid-cols-2">
+        <div className="mt-3 grid gap-4">
           <ComparisonTable comparison={comparison} caption="Predicted and measured at the reference setting" thdR={prediction ? { predicted: prediction.thdRPercent, measured: test.measuredThdRPercent } : undefined} />
           <SpectrumOverlay comparison={comparison} title="Capture overlaid on the predicted spectrum" />
         </div>
@@ -154,7 +154,7 @@ export default function UnitTestPage() {
           {comparison ? (
             <section aria-labelledby="compare-heading" className="grid gap-4">
               <h3 id="compare-heading" className="text-lg font-semibold text-spruce-900">2. Against the prediction</h3>
-              <div className="grid gap-4 lg:grid-cols-2">
+              <div className="grid gap-4">
                 <ComparisonTable comparison={comparison} caption={`Predicted and measured at ${Math.round(d.unit.referenceDrive * 100)} % drive`} thdR={reading ? { predicted: reading.prediction.thdRPercent, measured: reading.thdRPercent } : undefined} />
                 {reading ? <SpectrumOverlay comparison={comparison} title="Capture overlaid on the predicted spectrum" /> : <p className="text-ink-soft">Without a capture only THD is compared; add a capture to compare each harmonic.</p>}
               </div>
