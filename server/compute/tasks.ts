@@ -70,6 +70,7 @@ export const unitPrediction = ({ spec, devices, testCurrentA }: UnitPredictionIn
     const s = profile.reference.spectrum;
     return {
       thdPercent: s.thdF * 100,
+      thdRPercent: s.thdR * 100,
       referenceDrive: profile.reference.drive,
       harmonics: s.harmonics.map((h) => ({ order: h.order, dbc: h.dbc })),
       sweep: profile.sweep.map((p) => ({ drive: p.drive, thdPercent: p.thdF * 100 })),

@@ -16,8 +16,11 @@ function frame(doc: Doc, box: Box, title: string) {
   doc.lineWidth(0.5).strokeColor(C.rule).rect(box.x, box.y, box.width, box.height).stroke();
 }
 
-/** Bars of H2…Hk in dBc from 0 dB down to `floorDb`, labelled with their order. */
-export function spectrumBars(doc: Doc, box: Box, harmonicsDbc: number[], title: string, floorDb = -80) {
+/**
+ * Bars of H2…Hk in dBc from 0 dB down to `floorDb`, labelled with their order; `measuredDbc` (H1…Hk
+ * from a bench capture) is overlaid as an outline over each predicted bar.
+ */
+export function spectrumBars(doc: Doc, box: Box, harmonicsDbc: number[], title: string, floorDb = -80, measuredDbc: number[] | null = null) {
   frame(doc, box, title);
   const orders = harmonicsDbc.slice(1);
   const slot = box.width / orders.length;
@@ -33,6 +36,11 @@ export function spectrumBars(doc: Doc, box: Box, harmonicsDbc: number[], title: 
     // Bars grow up from the floor: taller = stronger harmonic (0 dBc reaches the top).
     const barTop = yOf(db);
     doc.rect(x, barTop, slot * 0.6, box.y + box.height - barTop).fill(order % 2 === 0 ? C.accent : C.band);
+    const measured = measuredDbc?.[order - 1];
+    if (measured !== undefined) {
+      const top = yOf(measured);
+      doc.lineWidth(1).strokeColor(C.ink).rect(x - 1.5, top, slot * 0.6 + 3, box.y + box.height - top).stroke();
+    }
     doc.fillColor(C.soft).text(`H${order}`, box.x + i * slot, box.y + box.height + 2, { width: slot, align: 'center', lineBreak: false });
   });
   doc.fillColor(C.soft).text('dBc', box.x - 16, box.y - 11, { lineBreak: false });

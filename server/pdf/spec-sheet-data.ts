@@ -21,6 +21,9 @@ export interface SpecSheetData {
   qa: {
     currentDrawMa: number | null;
     measuredThdPercent: number | null;
+    /** dBc of H1…H8 read from the bench capture at the reference setting; null when the THD was typed. */
+    measuredHarmonicsDbc: number[] | null;
+    measuredThdRPercent: number | null;
     predictedThdPercent: number;
     tolerancePercent: number;
     verdict: 'passed' | 'failed' | 'not tested';

@@ -43,27 +43,45 @@ export function evenOddSentence(evenShare: number) {
   return `At the reference setting ${even} % of the distortion energy is in even harmonics and ${100 - even} % in odd ones.`;
 }
 
+/** The bench's measured values for the table's measured column: H1…H8 in dBc, then THD_F and THD_R; '—' where nothing was measured. */
+export function measuredColumn(qa: NonNullable<SpecSheetData['qa']>): string[] {
+  const harmonics = Array.from({ length: L.harmonicsInTable }, (_, k) => {
+    const db = qa.measuredHarmonicsDbc?.[k];
+    return db === undefined ? '—' : formatDbc(db);
+  });
+  return [
+    ...harmonics,
+    qa.measuredThdPercent === null ? '—' : formatPercent(qa.measuredThdPercent / 100),
+    qa.measuredThdRPercent === null ? '—' : formatPercent(qa.measuredThdRPercent / 100),
+  ];
+}
+
 function table(doc: Doc, data: SpecSheetData, x: number, y: number, width: number) {
   const cols = data.profile.points;
+  const referenceIndex = Math.max(0, cols.findIndex((p) => p.label === 'Reference'));
+  // Columns: each drive setting's prediction; with a bench test, the measured values right beside the reference.
+  const columns: { title: string; values: string[] }[] = cols.map((p) => ({
+    title: `${p.label} (${Math.round(p.drive * 100)} %)`,
+    values: [...p.harmonicsDbc.slice(0, L.harmonicsInTable).map(formatDbc), formatPercent(p.thdF), formatPercent(p.thdR)],
+  }));
+  if (data.qa) columns.splice(referenceIndex + 1, 0, { title: 'Measured', values: measuredColumn(data.qa) });
   const first = 92;
-  const colWidth = (width - first) / cols.length;
+  const colWidth = (width - first) / columns.length;
   doc.font('semibold').fontSize(L.sizes.body).fillColor(C.ink);
   doc.text('Harmonic (dBc)', x, y, { width: first, lineBreak: false });
-  cols.forEach((p, i) => doc.text(`${p.label} (${Math.round(p.drive * 100)} %)`, x + first + i * colWidth, y, { width: colWidth, align: 'right', lineBreak: false }));
+  columns.forEach((c, i) => doc.text(c.title, x + first + i * colWidth, y, { width: colWidth, align: 'right', lineBreak: false }));
   y += 13;
-  const rows: [string, string[]][] = [];
-  for (let k = 0; k < L.harmonicsInTable; k++) rows.push([`H${k + 1}`, cols.map((p) => formatDbc(p.harmonicsDbc[k]))]);
-  rows.push(['THD_F', cols.map((p) => formatPercent(p.thdF))]);
-  rows.push(['THD_R', cols.map((p) => formatPercent(p.thdR))]);
-  rows.forEach(([label, values], r) => {
+  const labels = [...Array.from({ length: L.harmonicsInTable }, (_, k) => `H${k + 1}`), 'THD_F', 'THD_R'];
+  labels.forEach((label, r) => {
     if (r % 2 === 0) doc.rect(x, y - 2, width, 11.5).fill(C.fill);
     doc.font('body').fontSize(L.sizes.body).fillColor(C.ink).text(label, x + 3, y, { width: first, lineBreak: false });
     doc.font('mono').fontSize(8);
-    values.forEach((v, i) => doc.text(v, x + first + i * colWidth, y + 0.5, { width: colWidth - 3, align: 'right', lineBreak: false }));
+    columns.forEach((c, i) => doc.text(c.values[r], x + first + i * colWidth, y + 0.5, { width: colWidth - 3, align: 'right', lineBreak: false }));
     y += 11.5;
   });
+  const measuredNote = data.qa ? ` Measured: the bench test at the reference setting${data.qa.measuredHarmonicsDbc ? ', read from its WAV capture' : ' (THD typed from the analyser; no capture, so no harmonics)'}.` : '';
   doc.font('body').fontSize(L.sizes.small).fillColor(C.soft).text(
-    `THD_F = √(ΣVk², k≥2) / V1 (relative to the fundamental); THD_R = √(ΣVk², k≥2) / √(ΣVk², k≥1) (relative to the whole signal); both over H1–H${L.harmonicsInThd}. 1 kHz test tone.`,
+    `THD_F = √(ΣVk², k≥2) / V1 (relative to the fundamental); THD_R = √(ΣVk², k≥2) / √(ΣVk², k≥1) (relative to the whole signal); both over H1–H${L.harmonicsInThd}. 1 kHz test tone.${measuredNote}`,
     x, y + 2, { width },
   );
   return doc.y + 4;
@@ -145,7 +163,11 @@ export async function renderSpecSheet(data: SpecSheetData): Promise<Buffer> {
 
   const chartTop = y + 18;
   const reference = data.profile.points.find((p) => p.label === 'Reference') ?? data.profile.points[0];
-  spectrumBars(doc, { x: m + 18, y: chartTop, width: half - 18, height: 110 }, reference.harmonicsDbc, `Spectrum at the reference setting (${Math.round(reference.drive * 100)} % drive)`);
+  const measuredSpectrum = data.qa?.measuredHarmonicsDbc ?? null;
+  spectrumBars(
+    doc, { x: m + 18, y: chartTop, width: half - 18, height: 110 }, reference.harmonicsDbc,
+    measuredSpectrum ? `Spectrum at ${Math.round(reference.drive * 100)} % drive: bars predicted, outlines measured` : `Spectrum at the reference setting (${Math.round(reference.drive * 100)} % drive)`, -80, measuredSpectrum,
+  );
   thdAgainstDrive(doc, { x: ox + 28, y: chartTop, width: half - 28, height: 110 }, data.profile.sweep, data.profile.band, 'THD_F against drive (shaded: the option’s P5–P95 spread)');
   y = chartTop + 126;
   const onset = data.profile.clippingOnsetDrive;

@@ -1,14 +1,14 @@
 import type { Knex } from 'knex';
 import { ASSEMBLY, BENCH, PLANNING, STAFF, TESTING } from '../../shared/roles';
 import type { Config } from '../config';
-import { benchListSchema, buildListSchema, benchTestSchema, CAPTURE_LIMITS, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
-import { invalid, parseWith } from '../errors';
+import { benchListSchema, buildListSchema, benchTestSchema, CAPTURE_LIMITS, captureAnalyseSchema, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
+import { parseWith } from '../errors';
 import { pathId } from '../http/params';
 import { singleUpload } from '../http/upload';
 import { currentUser, type RouteDef } from '../http/route-table';
 import { addPhoto, finishStep, getPhoto, getUnit, markBuilt, myBuilds, recordLots, recordReadings, startStep } from '../services/production/building';
 import { cancelUnit } from '../services/production/stock';
-import { benchQueue, recordTest } from '../services/production/testing';
+import { analyseCaptureUpload, benchQueue, recordTest } from '../services/production/testing';
 
 const PHOTO_MAX_BYTES = 8 * 1024 * 1024;
 
@@ -66,10 +66,15 @@ export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): Route
       handler: async (req, res) => {
         const id = pathId(req, 'id', 'unit');
         const input = parseWith(benchTestSchema, req.body);
-        if (req.file && !/\.wav$/i.test(req.file.originalname) && !/wav/i.test(req.file.mimetype)) {
-          throw invalid('The capture must be a WAV file', { capture: 'Only .wav files' });
-        }
         res.status(201).json(await recordTest(knex, currentUser(req), id, input, req.file, config.publicUrl));
+      },
+    },
+    {
+      // Reads a capture and records nothing: the test screen shows it before the tester decides.
+      method: 'post', path: '/api/captures/analyse', allow: BENCH, before: [singleUpload('capture', CAPTURE_LIMITS.maxBytes, 'WAV capture')],
+      handler: async (req, res) => {
+        const { unitId } = parseWith(captureAnalyseSchema, req.body ?? {});
+        res.json(await analyseCaptureUpload(knex, currentUser(req), req.file, unitId));
       },
     },
   ];

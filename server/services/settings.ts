@@ -25,6 +25,8 @@ export interface ShopSettings {
   thd_tolerance_percent: number;
   max_current_draw_ma: number;
   fast_step_percent: number;
+  /** ± dB on each harmonic's level at the bench test. */
+  harmonic_tolerance_db: number;
   paper_size: 'A4' | 'Letter';
   sheet_staff_names: 'names' | 'initials';
   serial_prefix: string;
@@ -86,7 +88,7 @@ const COLUMNS = {
   shopName: 'shop_name', shopEmail: 'shop_email', shopAddress: 'shop_address', vatId: 'vat_id', publicUrl: 'public_url',
   serialPrefix: 'serial_prefix', orderNumberPrefix: 'order_number_prefix', timeZone: 'time_zone', locale: 'locale',
   labourCentsPerHour: 'labour_cents_per_hour', homeCountry: 'home_country', ossOverThreshold: 'oss_over_threshold',
-  pricesIncludeTax: 'prices_include_tax', vfTestCurrentMa: 'vf_test_current_ma', thdTolerancePercent: 'thd_tolerance_percent',
+  pricesIncludeTax: 'prices_include_tax', vfTestCurrentMa: 'vf_test_current_ma', thdTolerancePercent: 'thd_tolerance_percent', harmonicToleranceDb: 'harmonic_tolerance_db',
   maxCurrentDrawMa: 'max_current_draw_ma', fastStepPercent: 'fast_step_percent', paperSize: 'paper_size', sheetStaffNames: 'sheet_staff_names',
 } as const satisfies Partial<Record<keyof SettingsPatch, keyof ShopSettings>>;
 type RowField = keyof typeof COLUMNS;

@@ -59,13 +59,22 @@ export const partLotsSchema = z.object({
 export type PartLotsInput = z.infer<typeof partLotsSchema>;
 
 /** Multipart fields of a bench test (the WAV capture is the optional `capture` file). */
+/** An empty or blank form field is no value at all (a multipart field always arrives as a string). */
+const blankToUndefined = (value: unknown) => (value === null || (typeof value === 'string' && value.trim() === '') ? undefined : value);
+
 export const benchTestSchema = z.object({
   currentDrawMa: z.coerce.number({ error: 'Enter the current draw' }).positive('Enter a positive current').max(1000, 'At most 1000 mA'),
-  measuredThdPercent: z.coerce.number({ error: 'Enter the measured THD' }).min(0, 'At least 0 %').max(100, 'At most 100 %'),
+  // Typed only when there is no capture (the service checks which): an empty box stays empty, never 0.
+  measuredThdPercent: z.preprocess(blankToUndefined, z.coerce.number({ error: 'Enter the measured THD as a number' }).min(0, 'At least 0 %').max(100, 'At most 100 %').optional()),
   outcome: z.enum(['pass', 'fail'], { error: 'Choose pass or send back' }),
   reason: str().trim().max(500).default(''),
 }).refine((t) => t.outcome === 'pass' || t.reason.length >= 3, { message: 'Say what needs rework (at least 3 characters)', path: ['reason'] });
 export type BenchTestInput = z.infer<typeof benchTestSchema>;
+
+/** `POST /api/captures/analyse`: the capture is the file; `unitId` (optional) adds that unit's prediction. */
+export const captureAnalyseSchema = z.object({
+  unitId: z.preprocess(blankToUndefined, idOf('Choose a unit').optional()),
+});
 
 export const shipOrderSchema = z.object({
   orderId: id,

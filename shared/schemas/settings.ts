@@ -87,6 +87,7 @@ export const settingsSchema = z.object({
     }),
   vfTestCurrentMa: z.coerce.number({ error: 'Enter the current in mA' }).min(0.01, 'At least 0.01 mA').max(50, 'At most 50 mA'),
   thdTolerancePercent: z.coerce.number({ error: 'Enter a percentage' }).min(1, 'At least 1 %').max(100, 'At most 100 %'),
+  harmonicToleranceDb: z.coerce.number({ error: 'Enter a level in dB' }).min(0.5, 'At least 0.5 dB').max(20, 'At most 20 dB'),
   maxCurrentDrawMa: z.coerce.number({ error: 'Enter the current in mA' }).min(1, 'At least 1 mA').max(2000, 'At most 2000 mA'),
   fastStepPercent: z.coerce.number({ error: 'Enter a percentage' }).int('Enter a whole percentage').min(0, 'At least 0 %').max(100, 'At most 100 %'),
   paperSize: z.enum(PAPER_SIZES, { error: 'Choose A4 or Letter' }),

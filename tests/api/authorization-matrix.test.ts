@@ -104,6 +104,7 @@ export const MATRIX: Record<string, Rule> = {
   'POST /api/units/:id/built': ['assembler'],
   'POST /api/units/:id/cancel': CATALOG_EDITORS,
   'POST /api/units/:id/tests': ['tester'],
+  'POST /api/captures/analyse': ['owner', 'planner', 'tester'],
   // Trays and device matching (issue 12)
   'GET /api/trays': STAFF,
   'POST /api/trays': STAFF,

@@ -215,7 +215,7 @@ describe('building, testing and shipping a unit', () => {
     const { c, batchId, units } = await releasedOrderBatch(1);
     await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
     await buildUnit(units[0].id, c);
-    const post = () => tester.post(`/api/units/${units[0].id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '11.18').field('outcome', 'pass').field('reason', 'bench check');
+    const post = () => tester.post(`/api/units/${units[0].id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass').field('reason', 'bench check');
     const notWav = await post().attach('capture', Buffer.from('hello, not audio at all'), 'capture.wav');
     expect(notWav.status).toBe(400);
     expect(notWav.body.error.fields.capture).toMatch(/Not a WAV file/);
@@ -232,7 +232,8 @@ describe('building, testing and shipping a unit', () => {
 
     const ok = await post().attach('capture', tone({ h2: 0.1, h3: 0.05 }, 44100, 1, 2), 'capture.wav').expect(201);
     // Known content: H2 = 10 %, H3 = 5 % of the fundamental, so THD_F = √(0.1² + 0.05²) = 11.18 %.
-    expect(ok.body.capture.thdPercent).toBeCloseTo(11.18, 1);
+    expect(ok.body.capture.thdFPercent).toBeCloseTo(11.18, 1);
+    expect(ok.body.measuredThdPercent).toBeCloseTo(11.18, 1);
     expect(ok.body.capture.fundamentalHz).toBeCloseTo(1000, 0);
     expect(ok.body.capture.channels).toBe(2);
     const record = await t.knex('test_records').where({ unit_id: units[0].id }).first();

@@ -99,7 +99,7 @@ describe('WAV header checks before decoding', () => {
     ['32-bit float', wav({ tag: 3, bits: 32 }, float32(toneSamples()))],
   ] as const)('analyses %s: THD of a tone with a tenth second harmonic', (_name, buffer) => {
     const result = analyseWav(file(buffer));
-    expect(result.thdPercent).toBeCloseTo(10, 0);
+    expect(result.thdFPercent).toBeCloseTo(10, 0);
     expect(result.fundamentalHz).toBeCloseTo(1000, 0);
   });
 });

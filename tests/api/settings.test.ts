@@ -42,7 +42,7 @@ describe('owner settings', () => {
   it('shows every field the screen edits, with the demo carriers and zones', async () => {
     const s = snapshot as Record<string, unknown>;
     for (const key of ['shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
-      'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa', 'thdTolerancePercent',
+      'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa', 'thdTolerancePercent', 'harmonicToleranceDb',
       'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'logoUrl', 'changes']) {
       expect(s, key).toHaveProperty(key);
     }
@@ -85,7 +85,7 @@ describe('owner settings', () => {
     const before = await getSettings(t.knex);
     const res = await patch({
       shopName: '', shopEmail: 'not-mail', vatId: '12', publicUrl: 'ftp://x', serialPrefix: 'H1', locale: 'not a locale!', timeZone: 'Mars/Olympus',
-      homeCountry: 'CH', fastStepPercent: 101, thdTolerancePercent: 0, vfTestCurrentMa: -1, paperSize: 'A3',
+      homeCountry: 'CH', fastStepPercent: 101, thdTolerancePercent: 0, harmonicToleranceDb: 0, vfTestCurrentMa: -1, paperSize: 'A3',
       shippingZones: [{ name: 'A', countries: ['DE'], rateCents: 100 }, { name: 'B', countries: ['FR', 'DE'], rateCents: -5 }],
       carriers: [{ name: 'Slow Post', trackingUrlTemplate: 'https://slow.example/track', active: true }],
     }).expect(400);
@@ -99,6 +99,7 @@ describe('owner settings', () => {
     expect(f.timeZone).toMatch(/time zone/);
     expect(f.homeCountry).toMatch(/EU country/);
     expect(f.fastStepPercent).toMatch(/100/);
+    expect(f.harmonicToleranceDb).toMatch(/0\.5 dB/);
     expect(f.paperSize).toMatch(/A4 or Letter/);
     expect(f['shippingZones.1.countries.1']).toMatch(/DE is already in zone 1/);
     expect(f['shippingZones.1.rateCents']).toMatch(/negative/);

@@ -14,7 +14,7 @@ import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
 
 // The production path on the demo data, in a browser: the planner releases a batch for the demo
 // customer's paid order and applies a proposed plan; Juno builds it with measured Vf; the tester
-// uploads a WAV capture and passes it; the planner ships; the customer sees it shipped and has the mail.
+// chooses a WAV capture, reads it against the prediction and passes it; the planner ships; the customer sees it shipped and has the mail.
 let mail: MailFake;
 let t: ReturnType<typeof startTestApp>;
 let browser: Browser;
@@ -47,10 +47,14 @@ const shortParts = async (batchId: number) => (await getBatch(t.knex, batchId)).
 const toast = (page: Page, text: RegExp) => page.getByText(text).first().waitFor({ timeout: 20_000 });
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `production-${name}.png`), fullPage: true });
 
-function captureWithThd(thdPercent: number) {
+/**
+ * A capture of this unit's predicted spectrum (harmonics above −100 dBc, H1 at half scale) at 997 Hz,
+ * which does not fit a whole number of periods into the second: non-coherent, like a real capture.
+ */
+function captureOfPrediction(predicted: { order: number; dbc: number }[]) {
   const rate = 48000;
-  const n = rate; // one second; 1000 Hz is coherent here, so use 997 Hz to make the capture non-coherent
-  const s = Array.from({ length: n }, (_, i) => Math.round(16000 * (Math.sin((2 * Math.PI * 997 * i) / rate) + (thdPercent / 100) * Math.sin((4 * Math.PI * 997 * i) / rate))));
+  const levels = predicted.filter((h) => h.order === 1 || h.dbc > -100).map((h) => ({ order: h.order, amplitude: 0.5 * (h.order === 1 ? 1 : 10 ** (h.dbc / 20)) }));
+  const s = Array.from({ length: rate }, (_, i) => Math.round(32767 * levels.reduce((x, h) => x + h.amplitude * Math.sin((2 * Math.PI * h.order * 997 * i) / rate + 0.3 * h.order), 0)));
   const wav = new wavefile.WaveFile();
   wav.fromScratch(1, rate, '16', s);
   const file = path.join(mkdtempSync(path.join(tmpdir(), 'kp-wav-')), 'capture.wav');
@@ -138,18 +142,34 @@ describe('production in the browser', () => {
     expect(built.state).toBe('built');
     expect(built.predicted.fromMeasuredVf).toBe(true);
 
-    // Tester: upload a capture whose THD matches the prediction, and pass it.
+    // Tester: choosing a capture analyses it at once; the comparison and the verdict come before saving.
     const tester = await signIn(DEMO.tester, '/bench');
     await tester.getByRole('heading', { name: 'Test bench' }).waitFor();
     expect(await tester.getByText(/test gear runs on mains power/).count()).toBe(1);
     await tester.getByRole('link', { name: unit.serial }).click();
-    const predicted = built.predicted.thdPercent as number;
+    // Without a capture, an empty THD box is a field error, not 0 %.
     await tester.getByLabel('Current draw (mA)').fill('7.8');
-    await tester.getByLabel('Measured THD at the reference setting (%)').fill(predicted.toFixed(2));
-    await tester.locator('#capture-file').setInputFiles(captureWithThd(predicted));
     await tester.getByRole('button', { name: 'Save test' }).click();
-    await toast(tester, new RegExp(`${unit.serial}: passed; capture THD`));
-    await tester.getByText(/fundamental 997\.\d Hz/).waitFor();
+    await tester.getByText('Enter the measured THD (%), or choose a WAV capture to read it from').waitFor();
+    await tester.getByLabel('WAV capture of the 1 kHz test tone at the reference setting').setInputFiles(captureOfPrediction(built.predicted.harmonics));
+    await tester.getByText(/Measured THD\s*F\s*from the capture: [\d.]+ %/).waitFor({ timeout: 20_000 });
+    expect(await tester.getByLabel(/Measured THD at the reference setting/).count()).toBe(0);
+    const table = tester.getByRole('table', { name: /Predicted and measured at \d+ % drive/ });
+    await expect.poll(() => table.getByRole('row').count()).toBe(10); // header, H2…H8, THD_F, THD_R
+    expect(await table.getByRole('columnheader', { name: 'Measured' }).count()).toBe(1);
+    await tester.getByRole('img', { name: /Capture overlaid on the predicted spectrum/ }).waitFor();
+    await tester.getByText('Within tolerance: the measurement agrees with this unit’s prediction.').waitFor();
+    await shot(tester, 'bench-capture');
+    await tester.screenshot({ path: path.resolve('docs/bench-capture-test.png'), fullPage: true });
+    await tester.getByRole('button', { name: 'Save test' }).click();
+    await toast(tester, new RegExp(`${unit.serial}: passed with THD [\\d.]+ % from the capture`));
+    // The unit's test record keeps the measured column beside the predicted one.
+    const saved = tester.getByRole('table', { name: 'Predicted and measured at the reference setting' });
+    await saved.waitFor();
+    expect(await saved.getByRole('columnheader', { name: 'Measured' }).count()).toBe(1);
+    const record = await t.knex('test_records').where({ unit_id: unit.id }).first();
+    expect(record.measured_harmonics).toHaveLength(10);
+    await tester.getByText(/fundamental 997\.\d Hz/).first().waitFor();
     await shot(tester, 'bench-result');
     expect((await t.knex('orders').where({ id: line.order_id }).first()).state).toBe('ready');
 

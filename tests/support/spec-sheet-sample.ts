@@ -20,7 +20,7 @@ export function sampleSheetData(measured = { positive: [0.603], negative: [1.792
     ],
     testCurrentMa: 1,
     profile,
-    qa: { currentDrawMa: 7.4, measuredThdPercent: reference.thdF * 100 * 1.04, predictedThdPercent: reference.thdF * 100, tolerancePercent: 15, verdict: 'passed' },
+    qa: { currentDrawMa: 7.4, measuredThdPercent: reference.thdF * 100 * 1.04, measuredHarmonicsDbc: null, measuredThdRPercent: null, predictedThdPercent: reference.thdF * 100, tolerancePercent: 15, verdict: 'passed' },
     power: { supplyV: 9, currentMa: 7.4 },
     verifyUrl: 'http://127.0.0.1:3000/verify/HM-TST-2612-0007',
     issuedAt: new Date('2026-11-30T15:00:00Z'),

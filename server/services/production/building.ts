@@ -87,6 +87,7 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
     },
     testCurrentMa: settings.vf_test_current_ma,
     thdTolerancePercent: settings.thd_tolerance_percent,
+    harmonicToleranceDb: settings.harmonic_tolerance_db,
     steps: steps.map((s) => ({
       id: s.id, position: s.position, title: s.title, instructions: s.instructions, standardMinutes: s.standard_minutes, skill: s.skill,
       safetyNote: s.safety_note, soldering: s.soldering, startedAt: s.started_at, finishedAt: s.finished_at, actualMinutes: s.actual_minutes,
@@ -101,7 +102,8 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
     photos: photos.map((p) => ({ id: p.id, url: `/api/units/${unitId}/photos/${p.id}`, caption: p.caption, createdAt: p.created_at })),
     tests: tests.map((t) => ({
       id: t.id, testerName: t.tester_name, currentDrawMa: t.current_draw_ma, measuredThdPercent: t.measured_thd_percent, predictedThdPercent: t.predicted_thd_percent,
-      tolerancePercent: t.tolerance_percent, withinTolerance: t.within_tolerance, outcome: t.outcome, reason: t.reason, capture: t.wav_analysis, createdAt: t.created_at,
+      tolerancePercent: t.tolerance_percent, harmonicToleranceDb: t.harmonic_tolerance_db, withinTolerance: t.within_tolerance, outcome: t.outcome, reason: t.reason,
+      capture: t.wav_analysis, measuredHarmonics: t.measured_harmonics, measuredThdRPercent: t.measured_thd_r_percent, createdAt: t.created_at,
     })),
     history: history.map((h) => ({ id: h.id, kind: h.kind, from: h.from_state, to: h.to_state, message: h.message, at: h.created_at, by: h.user_name })),
   };

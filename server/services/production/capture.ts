@@ -1,15 +1,24 @@
 import wavefile from 'wavefile';
 import { CAPTURE_LIMITS } from '../../../shared/schemas/production';
 import { analyseCapture } from '../../../shared/production/wav-analysis';
+import { thdFromAmplitudes, type CaptureReading } from '../../../shared/production/capture-check';
 import { invalid, tooLarge, unsupportedMedia } from '../../errors';
-import { readWavHeader, SUPPORTED_ENCODINGS } from './wav-header';
+import { readWavHeader, SUPPORTED_ENCODINGS, WAVE_FORMAT_IEEE_FLOAT } from './wav-header';
 
 // wavefile is CommonJS: its class comes off the default export under Node's ESM loader.
 const { WaveFile } = wavefile;
 type WaveFile = InstanceType<typeof WaveFile>;
 
+/**
+ * Full scale of a sample format: 1.0 for float; the largest positive code for integer PCM, so a sine
+ * whose positive peak just reaches it reads 1.0 (the full-scale convention of AES17, from memory).
+ */
+export function fullScaleOf(formatTag: number, bitsPerSample: number) {
+  return formatTag === WAVE_FORMAT_IEEE_FLOAT ? 1 : 2 ** (bitsPerSample - 1) - 1;
+}
+
 /** Reads a WAV capture (mono or stereo, 44.1/48/96 kHz, limited length) and analyses its test tone. */
-export function analyseWav(file: { buffer: Buffer; size: number; originalname: string }) {
+export function analyseWav(file: { buffer: Buffer; size: number; originalname: string }): CaptureReading {
   if (file.size > CAPTURE_LIMITS.maxBytes) throw tooLarge(`The capture is ${(file.size / 1048576).toFixed(1)} MB: at most ${CAPTURE_LIMITS.maxBytes / 1048576} MB`);
   // Everything the header can tell is checked before a single sample is decoded.
   const header = readWavHeader(file.buffer);
@@ -49,10 +58,17 @@ export function analyseWav(file: { buffer: Buffer; size: number; originalname: s
   }
   // The left channel is the unit's output; a stereo capture is analysed from it alone, as the jig wires it.
   const samples = channels[0];
+  let result: ReturnType<typeof analyseCapture>;
   try {
-    const result = analyseCapture(samples, fmt.sampleRate);
-    return { ...result, channels: fmt.numChannels, bitsPerSample: fmt.bitsPerSample, durationS };
+    result = analyseCapture(samples, fmt.sampleRate);
   } catch (error) {
     throw invalid('No test tone found in the capture', { capture: (error as Error).message });
   }
+  const fullScale = fullScaleOf(header.formatTag, header.bitsPerSample);
+  const harmonics = result.harmonics.map((h) => ({ order: h.order, amplitudeFs: h.amplitude / fullScale, dbc: h.dbc }));
+  const thd = thdFromAmplitudes(harmonics.map((h) => ({ order: h.order, amplitude: h.amplitudeFs })));
+  return {
+    fundamentalHz: result.fundamentalHz, sampleRate: fmt.sampleRate, channels: fmt.numChannels, bitsPerSample: fmt.bitsPerSample, durationS,
+    harmonics, thdFPercent: thd.thdFPercent, thdRPercent: thd.thdRPercent,
+  };
 }

@@ -2,7 +2,9 @@ import type { Knex } from 'knex';
 import { containsPattern, paged } from '../../http/paged';
 import type { SessionUser } from '../../../shared/roles';
 import type { BenchListQuery, BenchTestInput } from '../../../shared/schemas/production';
-import { conflict, invalid } from '../../errors';
+import { conflict, invalid, notFound } from '../../errors';
+import { compareWithPrediction, predictionAtReference, type StoredPrediction, type Tolerances } from '../../../shared/production/capture-check';
+import { assertMayView } from './building';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
@@ -42,26 +44,70 @@ export async function orderFullyPassed(trx: Db, orderId: number) {
   return units.length >= Number(wanted?.n ?? 0) && units.every((u: { state: string }) => u.state === 'passed');
 }
 
+type UploadedCapture = { buffer: Buffer; size: number; originalname: string; mimetype: string };
+
+/** The capture upload must be a WAV by name or type (its bytes are checked by the analysis). */
+export function assertWavUpload(file: UploadedCapture) {
+  if (!/\.wav$/i.test(file.originalname) && !/wav/i.test(file.mimetype)) throw invalid('The capture must be a WAV file', { capture: 'Only .wav files' });
+}
+
+/** Analyses a capture in the compute pool; never called for anything but a checked upload. */
+const analyse = (file: UploadedCapture) => compute.wavCapture({ buffer: file.buffer, size: file.size, originalname: file.originalname });
+
+/** The unit's prediction at the bench's reference setting (computed now, not stored, when it has none yet) and the shop's tolerances. */
+async function unitPredictionForBench(db: Db, storedPrediction: StoredPrediction | null, revisionId: number, optionId: number) {
+  const settings = await getSettings(db);
+  const stored = storedPrediction ?? await predictUnit(db, revisionId, optionId, new Map(), settings.vf_test_current_ma);
+  const tolerances: Tolerances = { thdPercent: settings.thd_tolerance_percent, harmonicDb: settings.harmonic_tolerance_db };
+  return { prediction: predictionAtReference(stored), tolerances };
+}
+
 /**
- * Records a bench test. Measured THD (and the capture's, when one is uploaded) is compared with
- * the unit's predicted THD at the reference setting; relative tolerance from settings. Pass moves
- * the unit on (and its order to ready when every unit passed); fail sends it back to its assembler.
+ * `POST /api/captures/analyse`: reads a capture and records nothing. With `unitId`, the unit's
+ * prediction at the reference setting and the comparison come beside the reading.
  */
-export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: { buffer: Buffer; size: number; originalname: string; mimetype: string }, publicUrl = '') {
-  const analysis = capture ? await compute.wavCapture({ buffer: capture.buffer, size: capture.size, originalname: capture.originalname }) : null;
+export async function analyseCaptureUpload(db: Db, user: SessionUser, file: UploadedCapture | undefined, unitId?: number) {
+  if (!file) throw invalid('Choose a WAV capture to analyse', { capture: 'Choose a WAV file of the 1 kHz test tone' });
+  assertWavUpload(file);
+  let unit: { id: number; serial: string; assembler_id: number | null; predicted: StoredPrediction | null; option_id: number; revision_id: number } | undefined;
+  if (unitId !== undefined) {
+    unit = await db('units as u').join('batches as b', 'b.id', 'u.batch_id').where('u.id', unitId).first('u.id', 'u.serial', 'u.assembler_id', 'u.predicted', 'u.option_id', 'b.revision_id');
+    if (!unit) throw notFound('No such unit');
+    assertMayView(user, unit);
+  }
+  const reading = await analyse(file);
+  if (!unit) return reading;
+  const { prediction, tolerances } = await unitPredictionForBench(db, unit.predicted, unit.revision_id, unit.option_id);
+  return { ...reading, unit: { id: unit.id, serial: unit.serial }, prediction, comparison: compareWithPrediction(prediction, reading, tolerances) };
+}
+
+/**
+ * Records a bench test. The measured THD is the capture's when one is uploaded, else the typed one
+ * (one of the two is required; an empty box is never 0). The measurement is compared with the
+ * unit's prediction at the reference setting: THD within ±% of it and, with a capture, each of
+ * H2…H8 within ±dB (shop settings). Pass moves the unit on (and its order to ready when every unit
+ * passed); fail sends it back to its assembler.
+ */
+export async function recordTest(knex: Knex, user: SessionUser, unitId: number, input: BenchTestInput, capture?: UploadedCapture, publicUrl = '') {
+  if (capture) assertWavUpload(capture);
+  if (capture && input.measuredThdPercent !== undefined) {
+    throw invalid('The THD comes from the capture', { measuredThdPercent: 'Leave this empty: the measured THD is read from the capture' });
+  }
+  if (!capture && input.measuredThdPercent === undefined) {
+    throw invalid('Enter the measured THD or add a capture', { measuredThdPercent: 'Enter the measured THD (%), or choose a WAV capture to read it from' });
+  }
+  const analysis = capture ? await analyse(capture) : null;
+  const measuredThd = analysis ? analysis.thdFPercent : input.measuredThdPercent!;
   return knex.transaction(async (trx) => {
     // Batch first: a pass may close the batch (closeBatchIfDone).
     const { unit } = await lockUnitWithBatch(trx, unitId);
     if (unit.state !== 'built') throw conflict(`Unit ${unit.serial} is not waiting for a test`);
-    const settings = await getSettings(trx);
     const batch = await trx('batches').where({ id: unit.batch_id }).first();
-    let predicted = unit.predicted as { thdPercent: number } | null;
-    if (!predicted) predicted = await predictUnit(trx, batch.revision_id, unit.option_id, new Map(), settings.vf_test_current_ma);
-    const tolerance = settings.thd_tolerance_percent;
-    const within = (thd: number) => Math.abs(thd - predicted!.thdPercent) <= (tolerance / 100) * predicted!.thdPercent;
-    const withinTolerance = within(input.measuredThdPercent) && (!analysis || within(analysis.thdPercent));
+    const { prediction, tolerances } = await unitPredictionForBench(trx, unit.predicted, batch.revision_id, unit.option_id);
+    const comparison = compareWithPrediction(prediction, { thdFPercent: measuredThd, harmonics: analysis?.harmonics }, tolerances);
+    const withinTolerance = comparison.within;
     if (input.outcome === 'pass' && !withinTolerance && input.reason.length < 3) {
-      throw invalid('Out of tolerance: say why it passes anyway', { reason: `Measured THD is outside ±${tolerance} % of the predicted ${predicted.thdPercent.toFixed(2)} %: give a reason to pass it` });
+      throw invalid(`Out of tolerance: ${comparison.problems.join('; ')}`, { reason: `${comparison.problems.join('; ')}: give a reason to pass it` });
     }
     let fileId: number | null = null;
     if (capture) {
@@ -69,11 +115,13 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
       fileId = f.id;
     }
     const [record] = await trx('test_records').insert({
-      unit_id: unitId, tester_id: user.id, current_draw_ma: input.currentDrawMa, measured_thd_percent: input.measuredThdPercent,
-      predicted_thd_percent: predicted.thdPercent, tolerance_percent: tolerance, within_tolerance: withinTolerance,
-      wav_file_id: fileId, wav_analysis: analysis ? JSON.stringify(analysis) : null, outcome: input.outcome, reason: input.reason,
+      unit_id: unitId, tester_id: user.id, current_draw_ma: input.currentDrawMa, measured_thd_percent: measuredThd,
+      predicted_thd_percent: prediction.thdFPercent, tolerance_percent: tolerances.thdPercent, harmonic_tolerance_db: tolerances.harmonicDb, within_tolerance: withinTolerance,
+      wav_file_id: fileId, wav_analysis: analysis ? JSON.stringify(analysis) : null,
+      measured_harmonics: analysis ? JSON.stringify(analysis.harmonics) : null, measured_thd_r_percent: analysis ? analysis.thdRPercent : null,
+      outcome: input.outcome, reason: input.reason,
     }).returning('id');
-    const summary = `bench test: ${input.currentDrawMa.toFixed(1)} mA, THD ${input.measuredThdPercent.toFixed(2)} % (predicted ${predicted.thdPercent.toFixed(2)} %)${analysis ? `, capture THD ${analysis.thdPercent.toFixed(2)} %` : ''}${withinTolerance ? '' : ', out of tolerance'}`;
+    const summary = `bench test: ${input.currentDrawMa.toFixed(1)} mA, THD ${measuredThd.toFixed(2)} % ${analysis ? 'from the capture' : 'typed'} (predicted ${prediction.thdFPercent.toFixed(2)} %)${withinTolerance ? '' : `, out of tolerance: ${comparison.problems.join('; ')}`}`;
     await unitEvent(trx, unitId, 'test', summary, user.id);
     if (input.outcome === 'fail') {
       await transitionUnit(trx, unit, 'rework', user.id, `sent back for rework: ${input.reason}`);
@@ -88,7 +136,7 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
         const line = batchLine?.order_line_id ? await trx('order_lines').where({ id: batchLine.order_line_id }).first() : null;
         await enqueueMail(trx, {
           dedupeKey: `unit-passed:${unit.id}`, template: 'unit-passed', to: base.to,
-          data: { ...base.data, serial: unit.serial, description: line?.description ?? 'pedal', testedAt: new Date().toISOString(), hasSpecSheet: true, measuredThdPercent: input.measuredThdPercent, predictedThdPercent: predicted.thdPercent },
+          data: { ...base.data, serial: unit.serial, description: line?.description ?? 'pedal', testedAt: new Date().toISOString(), hasSpecSheet: true, measuredThdPercent: measuredThd, predictedThdPercent: prediction.thdFPercent },
           attachments: [{ filename: sheetFilename(unit.serial), fileId: sheetFileId }],
         });
         if (order.state === 'in_production' && (await orderFullyPassed(trx, unit.order_id))) {
@@ -97,7 +145,7 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
       }
       await closeBatchIfDone(trx, unit.batch_id);
     }
-    return { id: record.id as number, unitState: unit.state, withinTolerance, predictedThdPercent: predicted.thdPercent, capture: analysis };
+    return { id: record.id as number, unitState: unit.state, withinTolerance, measuredThdPercent: measuredThd, predictedThdPercent: prediction.thdFPercent, capture: analysis, comparison };
   });
 }
 

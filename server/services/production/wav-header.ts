@@ -22,7 +22,7 @@ export type WavProblem =
   | { kind: 'unsupported'; format: string };
 
 const WAVE_FORMAT_PCM = 0x0001;
-const WAVE_FORMAT_IEEE_FLOAT = 0x0003;
+export const WAVE_FORMAT_IEEE_FLOAT = 0x0003;
 const WAVE_FORMAT_EXTENSIBLE = 0xfffe;
 
 // Format tags from the registered list (mmreg.h), named so a 415 says what the file is.

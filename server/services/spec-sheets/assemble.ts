@@ -9,6 +9,7 @@ import { driveOf, loadStrings, type RevisionRow } from '../catalog/options-data'
 import { getSettings, type ShopSettings } from '../settings';
 import { cachedNominalBand } from './band-cache';
 import { compute } from '../../compute/pool';
+import { SPEC_SHEET_LAYOUT } from '../../../templates/pdf/spec-sheet-layout';
 
 type Db = Knex | Knex.Transaction;
 
@@ -117,6 +118,8 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
     profile,
     qa: test ? {
       currentDrawMa: test.current_draw_ma, measuredThdPercent: test.measured_thd_percent,
+      measuredHarmonicsDbc: test.measured_harmonics ? (test.measured_harmonics as { order: number; dbc: number }[]).filter((h) => h.order <= SPEC_SHEET_LAYOUT.harmonicsInTable).map((h) => h.dbc) : null,
+      measuredThdRPercent: test.measured_thd_r_percent,
       predictedThdPercent: test.predicted_thd_percent ?? reference.thdF * 100,
       tolerancePercent: test.tolerance_percent,
       verdict: test.outcome === 'pass' ? 'passed' : 'failed',

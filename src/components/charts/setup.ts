@@ -1,7 +1,8 @@
 // chart.js is tree-shaken: register only what the catalog's charts use, once.
-import { BarElement, CategoryScale, Chart, Filler, Legend, LinearScale, LineElement, LogarithmicScale, PointElement, Tooltip } from 'chart.js';
+import { BarController, BarElement, CategoryScale, LineController, Chart, Filler, Legend, LinearScale, LineElement, LogarithmicScale, PointElement, Tooltip } from 'chart.js';
 
-Chart.register(BarElement, CategoryScale, LinearScale, LogarithmicScale, LineElement, PointElement, Tooltip, Legend, Filler);
+// The controllers too, for mixed charts drawn through react-chartjs-2's generic <Chart> (bars with markers on top).
+Chart.register(BarController, LineController, BarElement, CategoryScale, LinearScale, LogarithmicScale, LineElement, PointElement, Tooltip, Legend, Filler);
 Chart.defaults.font.family = "'Source Sans 3', system-ui, sans-serif";
 Chart.defaults.color = '#4a4740';
 // Charts redraw on every slider step: animation would lag behind the hand.

@@ -2,14 +2,23 @@ import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient }
 import { listSearch, type Page } from '../../../shared/schemas/list';
 import type { BenchListQuery } from '../../../shared/schemas/production';
 import type { UnitState } from '../../../shared/production/states';
-import type { CaptureAnalysis } from '../../../shared/production/wav-analysis';
+import type { CaptureComparison, CaptureReading, MeasuredHarmonic, PredictionAtReference, StoredPrediction } from '../../../shared/production/capture-check';
 import { api } from '../../lib/api';
 
 export interface BenchRow { id: number; serial: string; modelName: string; optionName: string; assemblerName: string | null; builtAt: string }
-export interface TestRecord { id: number; testerName: string | null; currentDrawMa: number; measuredThdPercent: number; predictedThdPercent: number | null; tolerancePercent: number; withinTolerance: boolean | null; outcome: 'pass' | 'fail'; reason: string; capture: (CaptureAnalysis & { channels: number; durationS: number }) | null; createdAt: string }
+/** A capture as stored with a test; ones saved before THD_R was kept carry `thdPercent` instead of `thdFPercent`. */
+export type StoredCapture = Pick<CaptureReading, 'sampleRate' | 'channels' | 'durationS' | 'fundamentalHz'> & { thdFPercent?: number; thdPercent?: number };
+export interface TestRecord {
+  id: number; testerName: string | null; currentDrawMa: number; measuredThdPercent: number; predictedThdPercent: number | null; tolerancePercent: number;
+  harmonicToleranceDb: number | null; withinTolerance: boolean | null; outcome: 'pass' | 'fail'; reason: string; capture: StoredCapture | null;
+  measuredHarmonics: MeasuredHarmonic[] | null; measuredThdRPercent: number | null; createdAt: string;
+}
+/** `POST /api/captures/analyse` with a unitId: the reading, the unit's prediction and the comparison. */
+export type UnitCaptureAnalysis = CaptureReading & { unit: { id: number; serial: string }; prediction: PredictionAtReference; comparison: CaptureComparison };
 export interface TestUnit {
-  unit: { id: number; serial: string; state: UnitState; modelName: string; revisionNumber: number; optionName: string; assemblerName: string | null; referenceDrive: number; supplyV: number; predicted: { thdPercent: number; fromMeasuredVf: boolean; harmonics: { order: number; dbc: number }[] } | null };
+  unit: { id: number; serial: string; state: UnitState; modelName: string; revisionNumber: number; optionName: string; assemblerName: string | null; referenceDrive: number; supplyV: number; predicted: (StoredPrediction & { fromMeasuredVf: boolean }) | null };
   thdTolerancePercent: number;
+  harmonicToleranceDb: number;
   devices: { optionDeviceId: number; name: string; side: string; measuredVf: number | null; nominalVf: number }[];
   tests: TestRecord[];
 }
@@ -26,7 +35,19 @@ export const useTestUnit = (id: number) => useQuery(testUnitQuery(id));
 export function useRecordTest(unitId: number) {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: (form: FormData) => api.post<{ unitState: UnitState; withinTolerance: boolean; predictedThdPercent: number; capture: CaptureAnalysis | null }>(`/api/units/${unitId}/tests`, form),
+    mutationFn: (form: FormData) => api.post<{ unitState: UnitState; withinTolerance: boolean; measuredThdPercent: number; predictedThdPercent: number; capture: CaptureReading | null; comparison: CaptureComparison }>(`/api/units/${unitId}/tests`, form),
     onSuccess: () => client.invalidateQueries({ queryKey: keys.all }),
+  });
+}
+
+/** Reads a capture against a unit's prediction; records nothing (the test is saved separately). */
+export function useAnalyseCapture(unitId: number) {
+  return useMutation({
+    mutationFn: (file: File) => {
+      const form = new FormData();
+      form.append('unitId', String(unitId));
+      form.append('capture', file);
+      return api.post<UnitCaptureAnalysis>('/api/captures/analyse', form);
+    },
   });
 }
