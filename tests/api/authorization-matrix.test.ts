@@ -67,6 +67,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/orders/mine': ['customer'],
   'POST /api/orders': ['customer'],
   'GET /api/orders': ['owner', 'planner'],
+  'GET /api/orders/export.csv': ['owner', 'planner'],
   'GET /api/orders/:id': 'signed-in',
   'POST /api/orders/:id/checkout': ['customer'],
   'POST /api/orders/:id/cancel': ['customer', 'owner', 'planner'],
