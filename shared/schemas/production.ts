@@ -74,6 +74,12 @@ export const shipOrderSchema = z.object({
 });
 export type ShipOrderInput = z.infer<typeof shipOrderSchema>;
 
+/** The address label's page: a 4 × 6 in thermal label (the default) or A6. */
+export const ADDRESS_LABEL_SIZES = ['4x6', 'a6'] as const;
+export const addressLabelQuerySchema = z.object({
+  size: z.enum(ADDRESS_LABEL_SIZES, { message: 'Choose 4x6 or a6' }).default('4x6'),
+}).strict();
+
 export const CAPTURE_LIMITS = {
   maxBytes: 12 * 1024 * 1024,
   minSeconds: 0.2,
