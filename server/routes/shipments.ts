@@ -3,7 +3,7 @@ import type { Config } from '../config';
 import { addressLabelQuerySchema, shipmentListSchema, shippingListSchema, shipOrderSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { currentUser, type RouteDef } from '../http/route-table';
-import { fulfilFromStock, markDelivered, moveToFinishedStock, packingSlip, shipmentList, shipOrder, shippingQueue } from '../services/production/shipping';
+import { fulfilFromStock, markDelivered, moveToFinishedStock, packingSlip, shipmentList, shipOrder, shippingCarriers, shippingQueue } from '../services/production/shipping';
 import { PLANNING } from '../../shared/roles';
 import { addressLabel, orderPackingSlip, serialLabels } from '../services/production/labels';
 import type { Response } from 'express';
@@ -18,6 +18,7 @@ function sendPdf(res: Response, pdf: { filename: string; data: Buffer }) {
 export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
     { method: 'get', path: '/api/shipping', allow: PLANNING, handler: async (req, res) => res.json(await shippingQueue(knex, parseWith(shippingListSchema, req.query))) },
+    { method: 'get', path: '/api/carriers', allow: PLANNING, handler: async (_req, res) => res.json({ carriers: await shippingCarriers(knex) }) },
     { method: 'get', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.json(await shipmentList(knex, parseWith(shipmentListSchema, req.query))) },
     { method: 'post', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body), config.publicUrl)) },
     {

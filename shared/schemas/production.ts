@@ -67,9 +67,10 @@ export const benchTestSchema = z.object({
 }).refine((t) => t.outcome === 'pass' || t.reason.length >= 3, { message: 'Say what needs rework (at least 3 characters)', path: ['reason'] });
 export type BenchTestInput = z.infer<typeof benchTestSchema>;
 
+/** Shipping an order: one of the carriers in the shop's settings, and its tracking number. */
 export const shipOrderSchema = z.object({
   orderId: id,
-  carrier: str().trim().min(2, 'Enter the carrier').max(60),
+  carrierId: idOf('Choose the carrier'),
   trackingNumber: str().trim().min(4, 'Enter the tracking number').max(80),
 });
 export type ShipOrderInput = z.infer<typeof shipOrderSchema>;

@@ -86,6 +86,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/batches/:id/purchase-list.csv': CATALOG_EDITORS,
   'GET /api/batches/:id/serial-labels.pdf': CATALOG_EDITORS,
   'GET /api/orders/:id/packing-slip.pdf': CATALOG_EDITORS,
+  'GET /api/carriers': CATALOG_EDITORS,
   'GET /api/orders/:id/address-label.pdf': CATALOG_EDITORS,
   'POST /api/batches/:id/release': CATALOG_EDITORS,
   'POST /api/batches/:id/cancel': CATALOG_EDITORS,

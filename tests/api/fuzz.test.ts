@@ -24,7 +24,7 @@ const KEYS = [
   'orderLineIds', 'stockBuilds', 'startDate', 'date', 'from', 'to', 'quantity', 'kind', 'reference', 'lines', 'builds', 'readings',
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',
   'code', 'topology', 'positive', 'negative', 'carrier', 'trackingNumber', 'outcome', 'currentDrawMa', 'measuredThdPercent', 'caption',
-  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token',
+  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token', 'carrierId',
   'shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
   'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
   'thdTolerancePercent', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',

@@ -112,16 +112,20 @@ async function linesOf(knex: Knex, orderIds: number[]) {
 /** The order with its lines, events and (for staff) the customer and notes. */
 export async function orderDetail(knex: Knex, user: SessionUser, id: number) {
   const order = await findVisibleOrder(knex, user, id);
-  const [lines, events, customer] = await Promise.all([
+  const [lines, events, customer, shipments] = await Promise.all([
     linesOf(knex, [order.id]),
     knex('order_events as e').leftJoin('users as u', 'u.id', 'e.user_id').where('e.order_id', order.id)
       .orderBy('e.id').select('e.id', 'e.kind', 'e.from_state', 'e.to_state', 'e.message', 'e.created_at', 'u.name as user_name'),
     knex('users').where({ id: order.customer_id }).first('id', 'name', 'email'),
+    knex('shipments').where({ order_id: order.id }).orderBy('id')
+      .select('id', 'carrier', 'tracking_number as trackingNumber', 'tracking_url as trackingUrl', 'shipped_at as shippedAt', 'delivered_at as deliveredAt'),
   ]);
   const staff = isStaff(user);
   return {
     order: { ...publicOrder(order), staffNotes: staff ? order.staff_notes : undefined, customer: staff ? customer : undefined },
     lines,
+    // The parcel(s): carrier, tracking number and the carrier's tracking link ('' for shipments made before carriers had templates).
+    shipments,
     // Customers see their order's story without staff-only notes and provider details.
     events: staff ? events : events.filter((e) => !STAFF_ONLY_EVENT_KINDS.includes(e.kind)),
   };
