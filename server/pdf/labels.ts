@@ -102,8 +102,8 @@ export function serialLabelBox(paper: LabelPaper, index: number) {
   const row = Math.floor(at / s.columns);
   const x = s.left + col * s.pitchX;
   const y = s.top + row * s.pitchY;
-  // 4 mm around the QR code: about the four modules of quiet zone that QR codes need (ISO/IEC 18004, from memory).
-  const pad = 4;
+  // 3 mm of white around the QR code on the label (its quiet zone).
+  const pad = 3;
   const qr = s.labelHeight - 2 * pad;
   return { page: Math.floor(index / perPage), x, y, width: s.labelWidth, height: s.labelHeight, qr: { x: x + pad, y: y + pad, size: qr } };
 }

@@ -5,7 +5,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { BinaryBitmap, Code128Reader, DecodeHintType, HybridBinarizer, QRCodeReader, RGBLuminanceSource } from '@zxing/library';
+import { BarcodeFormat, BinaryBitmap, DecodeHintType, HybridBinarizer, MultiFormatReader, RGBLuminanceSource } from '@zxing/library';
 import { PNG } from 'pngjs';
 
 export interface Raster { width: number; height: number; dpi: number; rgba: Buffer }
@@ -57,7 +57,11 @@ export function decode(raster: Raster, format: 'CODE_128' | 'QR_CODE', areaMm?: 
       luminance[y * w + x] = (raster.rgba[i] * 299 + raster.rgba[i + 1] * 587 + raster.rgba[i + 2] * 114) / 1000;
     }
   }
-  const hints = new Map<DecodeHintType, unknown>([[DecodeHintType.TRY_HARDER, true]]);
-  const reader = format === 'QR_CODE' ? new QRCodeReader() : new Code128Reader();
-  return reader.decode(new BinaryBitmap(new HybridBinarizer(new RGBLuminanceSource(luminance, w, h))), hints).getText();
+  const hints = new Map<DecodeHintType, unknown>([
+    [DecodeHintType.POSSIBLE_FORMATS, [BarcodeFormat[format]]],
+    [DecodeHintType.TRY_HARDER, true],
+  ]);
+  const reader = new MultiFormatReader();
+  reader.setHints(hints);
+  return reader.decode(new BinaryBitmap(new HybridBinarizer(new RGBLuminanceSource(luminance, w, h)))).getText();
 }
