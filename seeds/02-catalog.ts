@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import { DEVICE_PRESETS } from '../shared/engine/index';
 import { DEMO_PARTS, DEMO_SUPPLIERS } from '../server/services/catalog/demo/parts';
-import { DEMO_MODELS, PRESET_PARTS, type DemoBomLine } from '../server/services/catalog/demo/models';
+import { DEMO_MODELS, demoLineNeedsLot, PRESET_PARTS, type DemoBomLine } from '../server/services/catalog/demo/models';
 import { pedalPng } from '../server/services/catalog/demo/photo';
 import { appendMovements, type MovementKind } from '../server/services/stock/ledger';
 
@@ -104,5 +104,6 @@ function bomRow([partNumber, what, notes]: DemoBomLine, position: number, revisi
   if (!partId) throw new Error(`demo BOM names an unknown part ${partNumber}`);
   const designators = typeof what === 'string' ? what : '';
   const quantity = typeof what === 'string' ? what.split(' ').length : what;
-  return { revision_id: revisionId, part_id: partId, quantity, designators, notes: notes ?? '', position };
+  const category = DEMO_PARTS.find((p) => p.part_number === partNumber)?.category ?? '';
+  return { revision_id: revisionId, part_id: partId, quantity, designators, notes: notes ?? '', position, needs_lot: demoLineNeedsLot(partNumber, category) };
 }

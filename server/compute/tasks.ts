@@ -6,6 +6,7 @@ import { EngineInputError } from '../../shared/engine/errors';
 import { planBatchMatching, type PlanInput } from '../../shared/matching/batch';
 import { DomainError, invalid } from '../errors';
 import { renderInvoice, type InvoiceDocument } from '../pdf/invoice';
+import { renderAddressLabel, renderSerialLabels, type AddressLabelInput, type SerialLabelInput } from '../pdf/labels';
 import { renderPackingSlip, type SlipInput } from '../pdf/packing-slip';
 import { renderSpecSheet } from '../pdf/spec-sheet';
 import type { SpecSheetData } from '../pdf/spec-sheet-data';
@@ -48,6 +49,12 @@ export const invoicePdf = (input: InvoiceDocument) => outcome(async () => new Ui
 
 /** The packing slip's PDF bytes. */
 export const packingSlipPdf = (input: SlipInput) => outcome(async () => new Uint8Array(await renderPackingSlip(input)));
+
+/** The parcel's address label PDF (4 × 6 in or A6) with the order number's barcode. */
+export const addressLabelPdf = (input: AddressLabelInput) => outcome(async () => new Uint8Array(await renderAddressLabel(input)));
+
+/** A sheet of serial labels with each unit's /verify QR code. */
+export const serialLabelsPdf = (input: SerialLabelInput) => outcome(async () => new Uint8Array(await renderSerialLabels(input)));
 
 /** A bench capture: the WAV decoded and its test tone's harmonics read (both heavy for a long capture). */
 export const wavCapture = (file: { buffer: Uint8Array; size: number; originalname: string }) =>

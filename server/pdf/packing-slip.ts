@@ -15,7 +15,8 @@ const FONTS = {
 export interface SlipInput {
   settings: ShopSettings;
   order: { number: string; ship_name: string; ship_line1: string; ship_line2: string; ship_city: string; ship_postcode: string; ship_country: string };
-  shipment: { carrier: string; tracking_number: string; shipped_at: Date | string };
+  /** Null while the order is ready but not shipped yet (the slip is printed for packing). */
+  shipment: { carrier: string; tracking_number: string; shipped_at: Date | string } | null;
   units: { serial: string; model_name: string; option_name: string; supply_v: number }[];
 }
 
@@ -29,12 +30,13 @@ export function renderPackingSlip({ settings, order, shipment, units }: SlipInpu
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));
 
-  const shipped = new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: settings.time_zone }).format(new Date(shipment.shipped_at));
+  const day = (d: Date | string) => new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: settings.time_zone }).format(new Date(d));
   doc.font('bold').fontSize(20).fillColor('#1f4d43').text(settings.shop_name);
   doc.font('regular').fontSize(9).fillColor('#444').text(settings.shop_address);
   doc.moveDown(1.5);
   doc.font('bold').fontSize(16).fillColor('#111').text(`Packing slip · order ${order.number}`);
-  doc.font('regular').fontSize(11).text(`Shipped ${shipped} with ${shipment.carrier}, tracking `, { continued: true }).font('mono').text(shipment.tracking_number);
+  if (shipment) doc.font('regular').fontSize(11).text(`Shipped ${day(shipment.shipped_at)} with ${shipment.carrier}, tracking `, { continued: true }).font('mono').text(shipment.tracking_number);
+  else doc.font('regular').fontSize(11).text(`Packed ${day(new Date())}. The shipping mail brings the carrier and the tracking number.`);
   doc.moveDown();
   doc.font('bold').text('Ship to');
   doc.font('regular').text([order.ship_name, order.ship_line1, order.ship_line2, `${order.ship_postcode} ${order.ship_city}`, order.ship_country].filter(Boolean).join('\n'));

@@ -1,9 +1,9 @@
 // One unit's spec sheet as a PDF: real, selectable text and vector charts, laid out per
 // templates/pdf/spec-sheet-layout.ts. Pure: the same data always gives the same document.
 import PDFDocument from 'pdfkit';
-import QRCode from 'qrcode';
 import { SPEC_SHEET_LAYOUT as L } from '../../templates/pdf/spec-sheet-layout';
 import { spectrumBars, thdAgainstDrive } from './charts';
+import { drawQr } from './codes';
 import { registerFonts } from './fonts';
 import type { SpecSheetData } from './spec-sheet-data';
 
@@ -85,16 +85,6 @@ function table(doc: Doc, data: SpecSheetData, x: number, y: number, width: numbe
     x, y + 2, { width },
   );
   return doc.y + 4;
-}
-
-async function qr(doc: Doc, url: string, x: number, y: number, size: number) {
-  const code = QRCode.create(url, { errorCorrectionLevel: 'M' });
-  const n = code.modules.size;
-  const cell = size / n;
-  for (let r = 0; r < n; r++) {
-    for (let c = 0; c < n; c++) if (code.modules.get(r, c)) doc.rect(x + c * cell, y + r * cell, cell, cell);
-  }
-  doc.fill(C.ink);
 }
 
 /** Renders the sheet; resolves to the PDF bytes. */
@@ -202,7 +192,7 @@ export async function renderSpecSheet(data: SpecSheetData): Promise<Buffer> {
 
   const footY = doc.page.height - m - 62;
   doc.lineWidth(0.6).strokeColor(C.rule).moveTo(m, footY - 6).lineTo(m + width, footY - 6).stroke();
-  await qr(doc, data.verifyUrl, m, footY, 60);
+  drawQr(doc, data.verifyUrl, m, footY, 60, C.ink);
   doc.font('semibold').fontSize(L.sizes.body).fillColor(C.ink).text('Check this unit is genuine', m + 72, footY + 6, { lineBreak: false });
   doc.font('mono').fontSize(7.5).fillColor(C.soft).text(data.verifyUrl, m + 72, footY + 20, { lineBreak: false });
   doc.font('body').fontSize(L.sizes.small).fillColor(C.soft).text(`${data.shop.name} · ${data.shop.address} · ${data.shop.email}`, m + 72, footY + 34, { width: width - 72 });

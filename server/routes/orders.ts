@@ -31,6 +31,14 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
       },
     },
     { method: 'get', path: '/api/orders', allow: PLANNING, handler: async (req, res) => res.json(await orders.listOrders(knex, parseWith(orderFilterSchema, req.query))) },
+    {
+      // The same filters and sort as the list, every matching order (page and pageSize are ignored).
+      method: 'get', path: '/api/orders/export.csv', allow: PLANNING,
+      handler: async (req, res) => {
+        const body = await orders.ordersCsv(knex, parseWith(orderFilterSchema, req.query));
+        res.set('Content-Type', 'text/csv; charset=utf-8').set('Content-Disposition', 'attachment; filename="orders.csv"').send(body);
+      },
+    },
     // Customers reach only their own orders (someone else's answers 404); order staff reach all.
     { method: 'get', path: '/api/orders/:id', allow: 'signed-in', handler: async (req, res) => res.json(await orders.orderDetail(knex, currentUser(req), orderId(req))) },
     { method: 'post', path: '/api/orders/:id/checkout', allow: CUSTOMERS, handler: async (req, res) => res.json(await startCheckout(knex, payments, currentUser(req), orderId(req))) },

@@ -76,12 +76,19 @@ export const captureAnalyseSchema = z.object({
   unitId: z.preprocess(blankToUndefined, idOf('Choose a unit').optional()),
 });
 
+/** Shipping an order: one of the carriers in the shop's settings, and its tracking number. */
 export const shipOrderSchema = z.object({
   orderId: id,
-  carrier: str().trim().min(2, 'Enter the carrier').max(60),
+  carrierId: idOf('Choose the carrier'),
   trackingNumber: str().trim().min(4, 'Enter the tracking number').max(80),
 });
 export type ShipOrderInput = z.infer<typeof shipOrderSchema>;
+
+/** The address label's page: a 4 × 6 in thermal label (the default) or A6. */
+export const ADDRESS_LABEL_SIZES = ['4x6', 'a6'] as const;
+export const addressLabelQuerySchema = z.object({
+  size: z.enum(ADDRESS_LABEL_SIZES, { message: 'Choose 4x6 or a6' }).default('4x6'),
+}).strict();
 
 export const CAPTURE_LIMITS = {
   maxBytes: 12 * 1024 * 1024,

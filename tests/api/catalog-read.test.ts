@@ -38,6 +38,16 @@ describe('catalog demo scenario (seeds/02-catalog.ts)', () => {
       expect(options.length).toBeLessThanOrEqual(5);
     }
   });
+
+  it('asks assemblers for the lots of ICs, diodes and clipping-device parts, and of nothing else', async () => {
+    const { active_revision_id: revisionId } = await t.knex('models').where({ sku: 'HM-CPD' }).first('active_revision_id');
+    const lines = await t.knex('bom_lines as b').join('parts as p', 'p.id', 'b.part_id').where('b.revision_id', revisionId)
+      .select('b.designators', 'b.needs_lot', 'p.category', 'p.part_number');
+    const traced = lines.filter((l) => l.needs_lot).map((l) => l.designators).sort();
+    // The board's op-amp and regulator, the guard diode, and the status LED (a red LED, stocked as a clipping device).
+    expect(traced).toEqual(['D1', 'IC1', 'LED1', 'U2']);
+    expect(lines.filter((l) => ['resistor', 'capacitor', 'hardware', 'pot'].includes(l.category)).every((l) => !l.needs_lot)).toBe(true);
+  });
 });
 
 describe('GET /api/models', () => {

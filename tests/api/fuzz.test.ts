@@ -24,13 +24,13 @@ const KEYS = [
   'orderLineIds', 'stockBuilds', 'startDate', 'date', 'from', 'to', 'quantity', 'kind', 'reference', 'lines', 'builds', 'readings',
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',
   'code', 'topology', 'positive', 'negative', 'carrier', 'trackingNumber', 'outcome', 'currentDrawMa', 'measuredThdPercent', 'caption',
-  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token',
+  'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token', 'carrierId',
   'shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
   'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
   'thdTolerancePercent', 'harmonicToleranceDb', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',
   'deviceId', 'supplierLot', 'receivedOn', 'notes', 'firstSlot', 'trayIds', 'units', 'slots', 'slot', 'vf', 'slotId', 'optionDeviceId',
 ];
-const QUERY_KEYS = ['deviceId', 'q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
+const QUERY_KEYS = ['deviceId', 'q', 'size', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
 const BAD_QUERY_VALUES = ['%00', '2026-02-31', '2026-13-45', '1e308', '-1', '2147483648', '9999999999999999999', 'abc'];
 
 // Nested shapes with bad ids and dates inside, where the schemas take arrays of objects.

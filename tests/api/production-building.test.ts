@@ -130,22 +130,32 @@ describe('building, testing and shipping a unit', () => {
     expect(await t.knex('outbox').where({ dedupe_key: `unit-passed:${u1.id}` }).first()).toBeTruthy();
 
     // The order cannot ship while its second unit is unbuilt.
-    const tooSoon = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW123456789' });
+    // The demo settings' first carrier (seeds/01-shop-and-people.ts), with its tracking-URL template.
+    const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
+    const tooSoon = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' });
     expect(tooSoon.status).toBe(409);
     await buildUnit(u2.id, c);
     await tester.post(`/api/units/${u2.id}/tests`).set('X-CSRF-Token', tester.csrf)
       .field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'analyser range was wrong; listened and re-measured by hand').expect(201);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('ready');
 
-    const badShip = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: '', trackingNumber: '1' });
+    const badShip = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: '', trackingNumber: '1' });
     expect(badShip.status).toBe(400);
-    expect(Object.keys(badShip.body.error.fields).sort()).toEqual(['carrier', 'trackingNumber']);
-    const shipped = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW123456789' }).expect(201);
+    expect(Object.keys(badShip.body.error.fields).sort()).toEqual(['carrierId', 'trackingNumber']);
+    // A carrier that is not in the settings' list is refused with a field message.
+    const unknownCarrier = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: 2147483647, trackingNumber: 'PW123456789' });
+    expect(unknownCarrier.status).toBe(400);
+    expect(unknownCarrier.body.error.fields.carrierId).toMatch(/carriers in the settings/);
+    const shipped = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' }).expect(201);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('shipped');
     expect((await t.knex('units').where({ batch_id: batchId })).every((u) => u.state === 'shipped')).toBe(true);
     expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('closed');
     const mail = await t.knex('outbox').where({ dedupe_key: `order-shipped:${order.orderId}` }).first();
-    expect(mail.data).toMatchObject({ carrier: 'Parcelwise', tracking: 'PW123456789', orderNumber: order.number, customerName: 'Dee Castellano' });
+    const link = carrier.tracking_url_template.replace('{tracking}', 'PW123456789');
+    expect(mail.data).toMatchObject({ carrier: carrier.name, tracking: 'PW123456789', trackingUrl: link, orderNumber: order.number, customerName: 'Dee Castellano' });
+    // The order page tells the customer the same carrier and link.
+    const seen = await (await signedInAgent(t.app, DEMO.customer)).get(`/api/orders/${order.orderId}`).expect(200);
+    expect(seen.body.shipments).toEqual([expect.objectContaining({ carrier: carrier.name, trackingNumber: 'PW123456789', trackingUrl: link })]);
     const pdf = await planner.get(shipped.body.packingSlipUrl).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
     expect(pdf.headers['content-type']).toBe('application/pdf');
     expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
@@ -185,7 +195,8 @@ describe('building, testing and shipping a unit', () => {
     expect(done.body).toMatchObject({ orderState: 'ready', serials: [unit.serial] });
     const again = await planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({});
     expect(again.status).toBe(409);
-    await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrier: 'Parcelwise', trackingNumber: 'PW-STOCK-1' }).expect(201);
+    const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
+    await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW-STOCK-1' }).expect(201);
     expect((await t.knex('units').where({ id: unit.id }).first()).state).toBe('shipped');
   });
 

@@ -175,10 +175,17 @@ describe('production in the browser', () => {
 
     // Planner ships the order.
     await planner.goto(`${server.url}/shipping`);
-    await planner.getByLabel(`Carrier for ${line.number}`).fill('Parcelwise');
+    // The carriers come from the settings (the demo's first one); shipping asks before it ships.
+    const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
+    await planner.getByRole('link', { name: `Packing slip for ${line.number} (PDF)` }).waitFor();
+    await planner.getByLabel(`Carrier for ${line.number}`).selectOption({ label: carrier.name });
     await planner.getByLabel('Tracking number').first().fill('PW-2026-88431');
     await planner.getByRole('button', { name: 'Ship order' }).first().click();
-    await toast(planner, new RegExp(`Order ${line.number} shipped`));
+    const question = planner.getByRole('dialog');
+    await expect(question.textContent()).resolves.toContain(`Ship order ${line.number} with ${carrier.name}`);
+    await shot(planner, 'ship-confirm');
+    await question.getByRole('button', { name: 'Yes, ship it' }).click();
+    await toast(planner, new RegExp(`Order ${line.number} shipped with ${carrier.name}`));
     await planner.getByRole('link', { name: 'Packing slip (PDF)' }).first().waitFor();
     await shot(planner, 'shipping');
     await planner.goto(`${server.url}/board`);
@@ -195,6 +202,10 @@ describe('production in the browser', () => {
       .filter({ has: customer.getByRole('list', { name: 'Order progress' }) }).last();
     expect(await card.locator('[aria-current="step"]').textContent()).toBe('Shipped');
     await shot(customer, 'customer-orders');
+    // The order page links to the carrier's tracking page.
+    await customer.goto(`${server.url}/orders/${line.order_id}`);
+    const track = customer.getByRole('link', { name: `Track the parcel with ${carrier.name}` });
+    expect(await track.getAttribute('href')).toBe(carrier.tracking_url_template.replace('{tracking}', 'PW-2026-88431'));
     // Earlier test files leave mail queued in the shared outbox: send everything due (bounded), not one round.
     await sendDueMail(t.knex, createMailer(t.config), t.config, 500);
     const inbox = (await (await fetch(`${mail.httpUrl}/messages?to=${encodeURIComponent(DEMO.customer)}`)).json()) as { subject: string }[];

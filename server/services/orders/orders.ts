@@ -2,8 +2,9 @@ import { PLANNING } from '../../../shared/roles';
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { MyOrdersQuery, OrderFilter, PlaceOrderInput } from '../../../shared/schemas/orders';
-import type { OrderState } from '../../../shared/order-states';
-import { notFound } from '../../errors';
+import { ORDER_STATE_LABELS, type OrderState } from '../../../shared/order-states';
+import { stringify } from 'csv-stringify/sync';
+import { invalid, notFound } from '../../errors';
 import { containsPattern, paged } from '../../http/paged';
 import { getSettings } from '../settings';
 import { documentsOf } from './invoices';
@@ -112,18 +113,22 @@ async function linesOf(knex: Knex, orderIds: number[]) {
 /** The order with its lines, events and (for staff) the customer and notes. */
 export async function orderDetail(knex: Knex, user: SessionUser, id: number) {
   const order = await findVisibleOrder(knex, user, id);
-  const [lines, events, customer, documents] = await Promise.all([
+  const [lines, events, customer, documents, shipments] = await Promise.all([
     linesOf(knex, [order.id]),
     knex('order_events as e').leftJoin('users as u', 'u.id', 'e.user_id').where('e.order_id', order.id)
       .orderBy('e.id').select('e.id', 'e.kind', 'e.from_state', 'e.to_state', 'e.message', 'e.created_at', 'u.name as user_name'),
     knex('users').where({ id: order.customer_id }).first('id', 'name', 'email'),
     documentsOf(knex, order.id),
+    knex('shipments').where({ order_id: order.id }).orderBy('id')
+      .select('id', 'carrier', 'tracking_number as trackingNumber', 'tracking_url as trackingUrl', 'shipped_at as shippedAt', 'delivered_at as deliveredAt'),
   ]);
   const staff = isStaff(user);
   return {
     order: { ...publicOrder(order), staffNotes: staff ? order.staff_notes : undefined, customer: staff ? customer : undefined },
     lines,
     documents,
+    // The parcel(s): carrier, tracking number and the carrier's tracking link ('' for shipments made before carriers had templates).
+    shipments,
     // Customers see their order's story without staff-only notes and provider details.
     events: staff ? events : events.filter((e) => !STAFF_ONLY_EVENT_KINDS.includes(e.kind)),
   };
@@ -159,25 +164,36 @@ const ORDER_SORT: Record<OrderFilter['sort'], string> = {
   createdAt: 'o.created_at', number: 'o.id', state: 'o.state', totalCents: 'o.total_cents', customerName: 'u.name',
 };
 
+/**
+ * The order desk's filters as one query on `orders as o` joined to `users as u`: state, option,
+ * placed date (the shop's calendar days) and a search `q` that matches the order number, the
+ * customer's name or e-mail, the name on the parcel, or a serial of one of the order's units (what a
+ * customer reads off the base plate). The page and the CSV export both start from it.
+ */
+function filteredOrders(knex: Knex, filter: Omit<OrderFilter, 'page' | 'pageSize' | 'sort' | 'dir'>, timeZone: string, withCustomer = true) {
+  const query = knex('orders as o');
+  // Every order has its customer (a foreign key), so a count needs the customer only to search names.
+  if (withCustomer) query.join('users as u', 'u.id', 'o.customer_id');
+  if (filter.state) query.where('o.state', filter.state);
+  if (filter.optionId) query.whereExists(knex('order_lines as l').whereRaw('l.order_id = o.id').andWhere('l.option_id', filter.optionId));
+  // Dates are the shop's calendar days, so "from 1 Dec" means midnight in the shop's zone.
+  if (filter.from) query.whereRaw('o.created_at >= (?::date)::timestamp AT TIME ZONE ?', [filter.from, timeZone]);
+  if (filter.to) query.whereRaw("o.created_at < ((?::date + 1)::timestamp AT TIME ZONE ?)", [filter.to, timeZone]);
+  if (filter.q && withCustomer) {
+    const like = containsPattern(filter.q.trim());
+    query.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('u.email', like).orWhereILike('o.ship_name', like)
+      .orWhereExists(knex('units as s').whereRaw('s.order_id = o.id').andWhereILike('s.serial', like)));
+  }
+  return query;
+}
+
+/** The shop's time zone matters only for the date filters, so only they read the settings. */
+const filterTimeZone = async (knex: Knex, filter: Pick<OrderFilter, 'from' | 'to'>) => (filter.from || filter.to ? (await getSettings(knex)).time_zone : 'UTC');
+
 /** Orders for staff, one page at a time: filtered by state, option, placed date (shop time zone) and a search. */
 export async function listOrders(knex: Knex, filter: OrderFilter) {
-  // The shop's time zone matters only for the date filters, so only they read the settings.
-  const timeZone = filter.from || filter.to ? (await getSettings(knex)).time_zone : 'UTC';
-  // Every order has its customer (a foreign key), so counting needs the customer only to search names.
-  const base = (withCustomer = true) => {
-    const query = knex('orders as o');
-    if (withCustomer) query.join('users as u', 'u.id', 'o.customer_id');
-    if (filter.state) query.where('o.state', filter.state);
-    if (filter.optionId) query.whereExists(knex('order_lines as l').whereRaw('l.order_id = o.id').andWhere('l.option_id', filter.optionId));
-    // Dates are the shop's calendar days, so "from 1 Dec" means midnight in the shop's zone.
-    if (filter.from) query.whereRaw('o.created_at >= (?::date)::timestamp AT TIME ZONE ?', [filter.from, timeZone]);
-    if (filter.to) query.whereRaw("o.created_at < ((?::date + 1)::timestamp AT TIME ZONE ?)", [filter.to, timeZone]);
-    if (filter.q) {
-      const like = containsPattern(filter.q);
-      query.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('u.email', like).orWhereILike('o.ship_name', like));
-    }
-    return query;
-  };
+  const timeZone = await filterTimeZone(knex, filter);
+  const base = (withCustomer = true) => filteredOrders(knex, filter, timeZone, withCustomer);
   const page = await paged(filter, {
     count: base(Boolean(filter.q)),
     rows: base().select('o.id', 'o.number', 'o.state', 'o.currency', 'o.total_cents', 'o.created_at', 'o.paid_at', 'u.name as customer_name', 'u.email as customer_email'),
@@ -190,6 +206,37 @@ export async function listOrders(knex: Knex, filter: OrderFilter) {
     : [];
   const byOrder = new Map(sums.map((r: { order_id: number; units: number; summary: string }) => [r.order_id, r]));
   return { ...page, items: page.items.map((o): OrderListRow => ({ ...o, units: byOrder.get(o.id)?.units ?? 0, summary: byOrder.get(o.id)?.summary ?? '' })) };
+}
+
+/** The most rows one CSV export holds; a bigger list is refused with a request to narrow the filters. */
+export const ORDER_CSV_MAX_ROWS = 50_000;
+
+/**
+ * The order desk's filtered list as CSV, every matching order (no paging) in the list's sort order:
+ * one row per order with its customer, status, what was ordered, the unit serials and the money
+ * (cents as decimal amounts in the order's currency). Times are UTC ISO 8601.
+ */
+export async function ordersCsv(knex: Knex, filter: OrderFilter): Promise<string> {
+  const timeZone = await filterTimeZone(knex, filter);
+  const [{ n }] = await filteredOrders(knex, filter, timeZone, Boolean(filter.q)).count<{ n: number }[]>('* as n');
+  if (Number(n) > ORDER_CSV_MAX_ROWS) throw invalid(`That is ${n} orders; one export holds at most ${ORDER_CSV_MAX_ROWS}: narrow the filters (dates or status)`);
+  const rows = await filteredOrders(knex, filter, timeZone)
+    .select('o.number', 'o.created_at', 'o.paid_at', 'o.state', 'o.currency', 'o.subtotal_cents', 'o.shipping_cents', 'o.tax_cents', 'o.total_cents',
+      'u.name as customer_name', 'u.email as customer_email', 'o.ship_country',
+      knex.raw("(SELECT COALESCE(SUM(l.quantity), 0)::int FROM order_lines l WHERE l.order_id = o.id) AS units"),
+      knex.raw("(SELECT string_agg(l.quantity || ' × ' || l.description, '; ' ORDER BY l.id) FROM order_lines l WHERE l.order_id = o.id) AS summary"),
+      knex.raw("(SELECT string_agg(s.serial, ' ' ORDER BY s.serial) FROM units s WHERE s.order_id = o.id AND s.state <> 'cancelled') AS serials"))
+    .orderBy([{ column: ORDER_SORT[filter.sort], order: filter.dir, nulls: filter.dir === 'asc' ? 'last' : 'first' }, { column: 'o.id', order: filter.dir }]);
+  const amount = (cents: number) => (cents / 100).toFixed(2);
+  const iso = (d: Date | null) => (d ? new Date(d).toISOString() : '');
+  return stringify(rows.map((o) => [o.number, iso(o.created_at), iso(o.paid_at), ORDER_STATE_LABELS[o.state as OrderState], o.customer_name, o.customer_email, o.ship_country,
+    o.units, o.summary ?? '', o.serials ?? '', o.currency, amount(o.subtotal_cents), amount(o.shipping_cents), amount(o.tax_cents), amount(o.total_cents)]), {
+    header: true,
+    // Names and e-mails are typed by customers: a cell starting with = + - @ is prefixed with ' so a
+    // spreadsheet shows it as text instead of running it (the package's documented escape_formulas).
+    escape_formulas: true,
+    columns: ['order number', 'placed (UTC)', 'paid (UTC)', 'status', 'customer', 'e-mail', 'ship to country', 'units', 'what', 'serials', 'currency', 'subtotal', 'shipping', 'tax', 'total'],
+  });
 }
 
 /** A row of the order desk's list. */

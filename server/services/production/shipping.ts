@@ -3,11 +3,12 @@ import type { SessionUser } from '../../../shared/roles';
 import { SHIPPING_STATES, type ShipmentListQuery, type ShippingListQuery, type ShipOrderInput } from '../../../shared/schemas/production';
 import { containsPattern, paged } from '../../http/paged';
 import type { OrderState } from '../../../shared/order-states';
-import { conflict, notFound } from '../../errors';
+import { conflict, invalid, notFound } from '../../errors';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
-import { getSettings } from '../settings';
+import { trackingUrl } from '../../../shared/schemas/settings';
+import { getCarrier, getCarriers, getSettings } from '../settings';
 import { compute } from '../../compute/pool';
 import { lockUnit, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatchRow, lockUnitRows } from '../stock/ledger';
@@ -21,7 +22,7 @@ interface Destination { ship_name: string; ship_city: string; ship_country: stri
 interface ShippingRow extends Destination { id: number; number: string; state: OrderState; due_at: Date | null; customer_name: string; units: number; passed: number }
 interface ShipmentRow extends Destination {
   id: number; order_id: number; number: string; state: OrderState; customer_name: string; carrier: string; tracking_number: string;
-  shipped_at: Date; delivered_at: Date | null; packing_slip_file_id: number | null;
+  shipped_at: Date; delivered_at: Date | null; packing_slip_file_id: number | null; tracking_url: string;
 }
 /** At most this many stock lines and stock builds come with the shipping page. */
 const STOCK_LIST_LIMIT = 100;
@@ -88,20 +89,27 @@ export async function shipmentList(db: Db, params: ShipmentListQuery) {
   };
   return paged(params, {
     count: base(),
-    rows: base().select('s.id', 's.carrier', 's.tracking_number', 's.shipped_at', 's.delivered_at', 's.packing_slip_file_id', 'o.id as order_id', 'o.number', 'o.state', 'u.name as customer_name',
+    rows: base().select('s.id', 's.carrier', 's.tracking_number', 's.tracking_url', 's.shipped_at', 's.delivered_at', 's.packing_slip_file_id', 'o.id as order_id', 'o.number', 'o.state', 'u.name as customer_name',
       'o.ship_name', 'o.ship_city', 'o.ship_country'),
     sortColumns: SHIPMENT_SORT, tieBreak: 's.id',
     map: (s: ShipmentRow) => ({
       id: s.id, orderId: s.order_id, orderNumber: s.number, orderState: s.state, customerName: s.customer_name,
-      destination: `${s.ship_name}, ${s.ship_city} (${s.ship_country})`, carrier: s.carrier, trackingNumber: s.tracking_number,
+      destination: `${s.ship_name}, ${s.ship_city} (${s.ship_country})`, carrier: s.carrier, trackingNumber: s.tracking_number, trackingUrl: s.tracking_url || null,
       shippedAt: s.shipped_at, deliveredAt: s.delivered_at,
       packingSlipUrl: s.packing_slip_file_id ? `/api/shipments/${s.id}/packing-slip.pdf` : null,
     }),
   });
 }
 
-/** Ships an order: only when every unit has passed; records carrier and tracking, prints the packing slip, queues the mail. */
+/**
+ * Ships an order: only when every unit has passed. The carrier is one of the settings' active
+ * carriers; its tracking link is made from the carrier's template now and kept with the shipment.
+ * Records the shipment, prints the packing slip, queues the mail with the tracking link.
+ */
 export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderInput, publicUrl = '') {
+  const carrier = await getCarrier(knex, input.carrierId).catch(() => null);
+  if (!carrier || !carrier.active) throw invalid('Choose one of the carriers in the settings', { carrierId: 'Choose one of the carriers in the settings' });
+  const link = trackingUrl(carrier.trackingUrlTemplate, input.trackingNumber);
   return knex.transaction(async (trx) => {
     const order = await trx('orders as o').join('users as u', 'u.id', 'o.customer_id').where('o.id', input.orderId).forUpdate('o').select('o.*', 'u.email', 'u.name as customer_name').first();
     if (!order) throw notFound('No such order');
@@ -114,25 +122,30 @@ export async function shipOrder(knex: Knex, user: SessionUser, input: ShipOrderI
     // The ledger's lock order: the batches (a pass may close them), then the units.
     for (const batchId of [...new Set(units.map((u) => u.batch_id as number))].sort((a, b) => a - b)) await lockBatchRow(trx, batchId);
     await lockUnitRows(trx, units.map((u) => u.id));
-    const [shipment] = await trx('shipments').insert({ order_id: order.id, carrier: input.carrier, tracking_number: input.trackingNumber, shipped_by: user.id }).returning('*');
+    const [shipment] = await trx('shipments').insert({
+      order_id: order.id, carrier: carrier.name, carrier_id: carrier.id, tracking_number: input.trackingNumber, tracking_url: link, shipped_by: user.id,
+    }).returning('*');
     for (const u of units) {
       const unit = await lockUnit(trx, u.id);
-      await transitionUnit(trx, unit, 'shipped', user.id, `shipped with ${input.carrier} ${input.trackingNumber}`, { shipment_id: shipment.id });
+      await transitionUnit(trx, unit, 'shipped', user.id, `shipped with ${carrier.name} ${input.trackingNumber}`, { shipment_id: shipment.id });
     }
     const settings = await getSettings(trx);
     const pdf = await compute.packingSlipPdf({ settings, order, shipment, units });
     const [file] = await trx('files').insert({ purpose: 'packing-slip', filename: `packing-slip-${order.number}.pdf`, content_type: 'application/pdf', size_bytes: pdf.length, data: pdf, uploaded_by: user.id }).returning('id');
     await trx('shipments').where({ id: shipment.id }).update({ packing_slip_file_id: file.id });
-    await transitionOrder(trx, order.id, 'shipped', { userId: user.id, message: `shipped with ${input.carrier}, tracking ${input.trackingNumber}` });
+    await transitionOrder(trx, order.id, 'shipped', { userId: user.id, message: `shipped with ${carrier.name}, tracking ${input.trackingNumber}` });
     const base = await orderMailData(trx, order.id, publicUrl);
     await enqueueMail(trx, {
       dedupeKey: `order-shipped:${order.id}`, template: 'order-shipped', to: base.to,
-      data: { ...base.data, carrier: input.carrier, tracking: input.trackingNumber, trackingNumber: input.trackingNumber, serials: units.map((u) => u.serial) },
+      data: { ...base.data, carrier: carrier.name, tracking: input.trackingNumber, trackingNumber: input.trackingNumber, trackingUrl: link, serials: units.map((u) => u.serial) },
     });
     for (const batchId of new Set(units.map((u) => u.batch_id))) await closeBatchIfDone(trx, batchId);
     return { id: shipment.id as number, orderState: 'shipped' as const, packingSlipUrl: `/api/shipments/${shipment.id}/packing-slip.pdf` };
   });
 }
+
+/** The carriers shipping may choose from (the settings' active ones, in the owner's order). */
+export const shippingCarriers = (db: Db) => getCarriers(db, { activeOnly: true });
 
 /** The customer confirmed delivery (or the carrier did): shipped → delivered. */
 export async function markDelivered(knex: Knex, user: SessionUser, shipmentId: number) {

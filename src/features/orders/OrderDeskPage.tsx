@@ -6,6 +6,7 @@ import { Link } from 'react-router';
 import type { z } from 'zod';
 import { ORDER_STATE_LABELS, ORDER_STATES, type OrderState } from '../../../shared/order-states';
 import type { SortDirection } from '../../../shared/schemas/list';
+import { listSearch } from '../../../shared/schemas/list';
 import { orderFilterSchema, type OrderFilter } from '../../../shared/schemas/orders';
 import { Button } from '../../components/ui/Button';
 import { DataTable } from '../../components/ui/DataTable';
@@ -41,7 +42,13 @@ export default function OrderDeskPage() {
 
   return (
     <>
-      <PageHeader title="Orders" />
+      <PageHeader title="Orders">
+        {/* The same filters and sort as the table below, every page of it. */}
+        <a href={`/api/orders/export.csv${listSearch({ ...filter, sort: view.sort, dir: view.dir })}`} download
+          className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold">
+          Export these orders (CSV)
+        </a>
+      </PageHeader>
       <form onSubmit={form.handleSubmit((f) => { const { page: _p, pageSize: _s, sort: _o, dir: _d, ...only } = f; setFilter(only); setView((v) => ({ ...v, page: 1 })); })} noValidate aria-label="Filter orders" className="mb-4 grid gap-3 rounded-lg border border-spruce-700/20 bg-white p-4 md:grid-cols-3 xl:grid-cols-6">
         <label className="flex flex-col gap-1 font-semibold">
           Status
@@ -59,7 +66,7 @@ export default function OrderDeskPage() {
         </label>
         <TextField label="Placed from" type="date" error={errors.from?.message} {...form.register('from')} />
         <TextField label="Placed until" type="date" error={errors.to?.message} {...form.register('to')} />
-        <TextField label="Search" placeholder="Order number, name or e-mail" error={errors.q?.message} {...form.register('q')} />
+        <TextField label="Search" placeholder="Order number, name, e-mail or serial" hint="A unit's serial finds the order it belongs to" error={errors.q?.message} {...form.register('q')} />
         <div className="flex items-end gap-2 md:col-span-3 xl:col-span-6">
           <Button type="submit">Show orders</Button>
           <Button type="button" variant="quiet" onClick={() => { form.reset({ state: undefined, optionId: undefined, from: '', to: '', q: '' }); setFilter({}); setView((v) => ({ ...v, page: 1 })); }}>Clear filters</Button>

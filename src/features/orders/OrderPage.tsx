@@ -31,7 +31,7 @@ export default function OrderPage() {
 
   if (detail.isPending) return <Loading label="Loading the order…" />;
   if (detail.isError) return <ErrorState error={detail.error} retry={() => detail.refetch()} />;
-  const { order, lines, events } = detail.data;
+  const { order, lines, shipments, events } = detail.data;
   const staff = order.customer !== undefined;
   const awaiting = order.state === 'awaiting_payment';
 
@@ -71,6 +71,12 @@ export default function OrderPage() {
           <p className="mb-2 text-lg">Status: <strong data-testid="order-state">{ORDER_STATE_LABELS[order.state]}</strong></p>
           <OrderProgress state={order.state} />
           <p className="mt-2 text-sm text-ink-soft">Placed {dateTime(order.createdAt)}{order.paidAt ? ` · paid ${dateTime(order.paidAt)}` : ''}</p>
+          {shipments.map((s) => (
+            <p key={s.id} className="mt-2">
+              {s.deliveredAt ? `Delivered ${dateTime(s.deliveredAt)}` : `Shipped ${dateTime(s.shippedAt)}`} with {s.carrier}, tracking number <span className="font-mono">{s.trackingNumber}</span>
+              {s.trackingUrl ? <> · <a href={s.trackingUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">Track the parcel with {s.carrier}</a></> : null}
+            </p>
+          ))}
           <div className="mt-3 flex flex-wrap gap-2">
             {awaiting && !staff ? (
               <Button type="button" busy={pay.isPending} onClick={() => pay.mutate(id, { onSuccess: ({ url }) => window.location.assign(url), onError: (e) => toast(e.message, 'alarm') })}>

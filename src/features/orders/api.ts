@@ -49,9 +49,15 @@ export interface OrderEvent {
   user_name: string | null;
 }
 
+/** A parcel of the order: its carrier and tracking number, and the carrier's tracking link ('' when none was made). */
+export interface OrderShipment {
+  id: number; carrier: string; trackingNumber: string; trackingUrl: string; shippedAt: string; deliveredAt: string | null;
+}
+
 export interface OrderDetail {
   order: Order;
   lines: OrderLine[];
+  shipments: OrderShipment[];
   events: OrderEvent[];
 }
 

@@ -12,6 +12,7 @@ import { useBatch, useCancelBatch, useKitBatch, useReleaseBatch, useReserveStock
 import { MatchingPanel } from './MatchingPanel';
 import { AssignPanel } from './AssignPanel';
 import { RequirementsTable } from './RequirementsTable';
+import { printUrls } from '../shipping/api';
 
 function ReleasePanel({ detail }: { detail: BatchDetail }) {
   const release = useReleaseBatch(detail.batch.id);
@@ -115,6 +116,9 @@ export default function BatchPage() {
     <>
       <PageHeader title={`Batch ${d.batch.label}`}>
         <a className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold" href={`/api/batches/${id}/purchase-list.csv`}>Purchase list (CSV)</a>
+        {released ? (
+          <a className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold" href={printUrls.serialLabels(id)} target="_blank" rel="noreferrer">Serial labels (PDF)</a>
+        ) : null}
         {['draft', 'released'].includes(d.batch.state) ? (
           <ConfirmButton label="Cancel batch" question={`Cancel batch ${d.batch.label}? Its units are cancelled and held stock goes back.`} confirmLabel="Cancel the batch"
             busy={cancel.isPending} onConfirm={() => cancel.mutate('cancelled by the planner', { onSuccess: () => toast(`Batch ${d.batch.label} cancelled`), onError: (e) => toast(e.message, 'alarm') })} />

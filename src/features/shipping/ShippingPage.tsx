@@ -9,7 +9,7 @@ import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useToast } from '../../components/ui/toast';
 import { useFormatters } from '../../lib/format';
-import { useFulfilFromStock, useMarkDelivered, useShipments, useShipping, useToFinishedStock, type Shipment, type ShippingOrder } from './api';
+import { printUrls, useFulfilFromStock, useMarkDelivered, useShipments, useShipping, useToFinishedStock, type Shipment, type ShippingOrder } from './api';
 import { ShipForm } from './ShipForm';
 
 const PAGE_SIZE = 20;
@@ -41,7 +41,14 @@ export default function ShippingPage() {
   const shipmentColumns = useMemo<ColumnDef<Shipment, unknown>[]>(() => [
     { id: 'number', accessorKey: 'orderNumber', header: 'Order', cell: ({ row }) => <span className="font-semibold">{row.original.orderNumber}</span> },
     { id: 'customerName', accessorKey: 'customerName', header: 'Customer', cell: ({ row }) => <>{row.original.customerName}<br /><span className="text-sm text-ink-soft">{row.original.destination}</span></> },
-    { id: 'carrier', accessorKey: 'carrier', header: 'Carrier', cell: ({ row }) => <>{row.original.carrier} <span className="font-mono">{row.original.trackingNumber}</span></> },
+    {
+      id: 'carrier', accessorKey: 'carrier', header: 'Carrier',
+      cell: ({ row }) => (
+        <>{row.original.carrier} <span className="font-mono">{row.original.trackingNumber}</span>
+          {row.original.trackingUrl ? <><br /><a href={row.original.trackingUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-11 items-center underline">Track {row.original.trackingNumber}</a></> : null}
+        </>
+      ),
+    },
     { id: 'shippedAt', accessorKey: 'shippedAt', header: 'Shipped', cell: ({ row }) => fmt.date(row.original.shippedAt) },
     {
       id: 'action', header: 'Delivery', enableSorting: false,
@@ -50,6 +57,7 @@ export default function ShippingPage() {
         return (
           <div className="flex flex-wrap items-center gap-2">
             {s.packingSlipUrl ? <a href={s.packingSlipUrl} target="_blank" rel="noreferrer" className="inline-flex min-h-11 items-center underline">Packing slip (PDF)</a> : null}
+            <a href={printUrls.addressLabel(s.orderId, '4x6')} target="_blank" rel="noreferrer" className="inline-flex min-h-11 items-center underline" aria-label={`Address label for ${s.orderNumber} (PDF)`}>Address label</a>
             {s.deliveredAt ? <span className="text-good-700">Delivered {fmt.date(s.deliveredAt)}</span> : (
               <ConfirmButton variant="secondary" label="Mark delivered" question={`Has ${s.customerName} received order ${s.orderNumber}?`} confirmLabel="Yes, delivered"
                 onConfirm={() => delivered.mutate(s.id, { onSuccess: () => toast(`Order ${s.orderNumber} marked delivered`), onError: (e) => toast(e.message, 'alarm') })} />

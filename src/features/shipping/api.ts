@@ -9,7 +9,7 @@ export interface ShippingOrder {
 }
 export interface Shipment {
   id: number; orderId: number; orderNumber: string; orderState: OrderState; customerName: string; destination: string;
-  carrier: string; trackingNumber: string; shippedAt: string; deliveredAt: string | null; packingSlipUrl: string | null;
+  carrier: string; trackingNumber: string; trackingUrl: string | null; shippedAt: string; deliveredAt: string | null; packingSlipUrl: string | null;
 }
 export interface ShippingQueue {
   orders: Page<ShippingOrder>;
@@ -31,6 +31,19 @@ export const shippingQuery = (params: ShippingParams) =>
 export const shipmentsQuery = (params: ShipmentParams) =>
   queryOptions({ queryKey: keys.shipmentPage(params), queryFn: () => api.get<Page<Shipment>>(`/api/shipments${listSearch(params)}`), placeholderData: keepPreviousData });
 export const useShipping = (params: ShippingParams) => useQuery(shippingQuery(params));
+
+/** A carrier from the shop's settings that shipping can choose. */
+export interface ShippingCarrier { id: number; name: string; trackingUrlTemplate: string; active: boolean }
+export const carriersQuery = () =>
+  queryOptions({ queryKey: [...keys.all, 'carriers'] as const, queryFn: () => api.get<{ carriers: ShippingCarrier[] }>('/api/carriers').then((b) => b.carriers), staleTime: 60_000 });
+export const useCarriers = () => useQuery(carriersQuery());
+
+/** Where the packing bench's PDFs are (they open in the browser's viewer, to print from there). */
+export const printUrls = {
+  packingSlip: (orderId: number) => `/api/orders/${orderId}/packing-slip.pdf`,
+  addressLabel: (orderId: number, size: '4x6' | 'a6') => `/api/orders/${orderId}/address-label.pdf?size=${size}`,
+  serialLabels: (batchId: number) => `/api/batches/${batchId}/serial-labels.pdf`,
+};
 export const useShipments = (params: ShipmentParams) => useQuery(shipmentsQuery(params));
 
 function useShippingMutation<I, O>(fn: (input: I) => Promise<O>) {

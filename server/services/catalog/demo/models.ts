@@ -212,3 +212,13 @@ export const PRESET_PARTS: Record<string, string> = {
   'led-blue': 'LED-BLU-5',
   // led-white is left unlinked on purpose: options using it are flagged.
 };
+
+/**
+ * Which demo BOM lines ask the assembler for the part's lot: ICs (not their sockets), diodes, and parts that are stocked
+ * as clipping devices (e.g. the status LED, a red LED like the LED2 option's) — the lots an owner
+ * traces after a bad batch. Everything else (resistors, caps, hardware) is not lot-traced.
+ */
+export function demoLineNeedsLot(partNumber: string, category: string): boolean {
+  return (category === 'ic' && !partNumber.startsWith('IC-SOCKET')) || category === 'diode' || Object.values(PRESET_PARTS).includes(partNumber);
+}
+
