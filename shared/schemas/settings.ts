@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isUsableLocale } from '../format';
 import { id, str, text } from './common';
 import { isEuCountry } from '../tax/vat-rates';
 
@@ -17,13 +18,7 @@ export function trackingUrl(template: string, tracking: string): string {
 
 const country = str().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Use a two-letter country code, e.g. DE');
 
-function isBcp47(value: string) {
-  try {
-    return Intl.getCanonicalLocales(value).length === 1 && new Intl.NumberFormat(value).resolvedOptions().locale.length > 0;
-  } catch {
-    return false;
-  }
-}
+const isBcp47 = isUsableLocale;
 
 function isTimeZone(value: string) {
   try {

@@ -41,7 +41,7 @@ export const backoffSeconds = (attempts: number, base: number) => Math.min(base 
  */
 export async function sendDueMail(knex: Knex, mailer: Transporter, config: Config, limit = 20): Promise<{ sent: number; failed: number }> {
   const settings = await getSettings(knex);
-  const ctx = { currency: settings.currency, timeZone: settings.time_zone, shopName: settings.shop_name, shopAddress: settings.shop_address };
+  const ctx = { currency: settings.currency, timeZone: settings.time_zone, locale: settings.locale, shopName: settings.shop_name, shopAddress: settings.shop_address };
   const fromAddress = config.MAIL_FROM.match(/<([^>]+)>/)?.[1] ?? config.MAIL_FROM.trim();
   const domain = fromAddress.split('@')[1] ?? 'kneepoint.local';
   let sent = 0;
