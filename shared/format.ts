@@ -50,11 +50,14 @@ export interface Formatter {
   day(value: string | Date): string;
   /** Month and year, e.g. "December 2026". */
   monthYear(value: string | Date): string;
-  /** A number with a fixed count of decimals, e.g. number(1234.5, 1) → "1,234.5". */
+  /**
+   * A measured value with a fixed count of decimals, e.g. number(1720, 0) → "1720", number(12345.6, 1)
+   * → "12,345.6": thousands are grouped from five digits on, as technical values are usually written.
+   */
   number(value: number, decimals?: number): string;
   /** A whole count, e.g. 2004 → "2,004". */
   count(value: number): string;
-  /** At most `digits` significant digits, no trailing zeros, e.g. significant(4700 / 1000) → "4.7". */
+  /** At most `digits` significant digits, no trailing zeros, e.g. significant(4700 / 1000) → "4.7" (grouped like number). */
   significant(value: number, digits?: number): string;
   /** Scientific notation with `decimals` after the point, e.g. scientific(2.52e-9, 3) → "2.520E-9". */
   scientific(value: number, decimals?: number): string;
@@ -92,9 +95,9 @@ export function createFormatter(settings: FormatSettings = {}): Formatter {
     dateTime: (value) => dateTimeFormat.format(new Date(value)),
     day: (value) => asDate(dayFormat, value),
     monthYear: (value) => asDate(monthFormat, value),
-    number: (value, decimals = 0) => cached(`f${decimals}`, { minimumFractionDigits: decimals, maximumFractionDigits: decimals }).format(value),
+    number: (value, decimals = 0) => cached(`f${decimals}`, { minimumFractionDigits: decimals, maximumFractionDigits: decimals, useGrouping: 'min2' }).format(value),
     count: (value) => countFormat.format(value),
-    significant: (value, digits = 3) => cached(`s${digits}`, { maximumSignificantDigits: digits }).format(value),
+    significant: (value, digits = 3) => cached(`s${digits}`, { maximumSignificantDigits: digits, useGrouping: 'min2' }).format(value),
     scientific: (value, decimals = 3) => cached(`e${decimals}`, { notation: 'scientific', minimumFractionDigits: decimals, maximumFractionDigits: decimals }).format(value),
   };
 }

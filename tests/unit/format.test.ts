@@ -25,12 +25,16 @@ describe('the one formatter', () => {
 
   it('writes money and numbers with the locale’s separators', () => {
     expect(gb.money(123450)).toBe('€1,234.50');
-    expect(gb.number(1234.5, 2)).toBe('1,234.50');
+    // Measured values group thousands from five digits on; money and counts from four.
+    expect(gb.number(1720, 0)).toBe('1720');
+    expect(gb.number(12345.6, 1)).toBe('12,345.6');
+    expect(gb.significant(4.7)).toBe('4.7');
     expect(gb.number(0.04567, 3)).toBe('0.046');
     expect(gb.count(2004)).toBe('2,004');
     const de = createFormatter({ locale: 'de-DE', timeZone: 'Europe/Berlin', currency: 'EUR' });
     expect(de.money(123450)).toBe('1.234,50\u00a0€');
-    expect(de.number(1234.5, 1)).toBe('1.234,5');
+    expect(de.number(12345.5, 1)).toBe('12.345,5');
+    expect(de.number(0.5, 2)).toBe('0,50');
     expect(de.date('2026-12-01')).toBe('1. Dez. 2026');
   });
 

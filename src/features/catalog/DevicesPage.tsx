@@ -74,8 +74,8 @@ export default function DevicesPage() {
   const columns = useMemo<ColumnDef<Device, unknown>[]>(() => [
     { accessorKey: 'name', header: 'Device', cell: ({ row }) => <span className="font-semibold">{row.original.name}{row.original.presetKey ? '' : ' (custom)'}</span> },
     { accessorKey: 'kind', header: 'Kind' },
-    { accessorKey: 'vfAt1mA', header: 'Vf at 1 mA', cell: ({ row }) => mV(row.original.vfAt1mA) },
-    { accessorKey: 'vfAt10mA', header: 'Vf at 10 mA', cell: ({ row }) => mV(row.original.vfAt10mA) },
+    { accessorKey: 'vfAt1mA', header: 'Vf at 1 mA', cell: ({ row }) => <span className="whitespace-nowrap">{mV(row.original.vfAt1mA)}</span> },
+    { accessorKey: 'vfAt10mA', header: 'Vf at 10 mA', cell: ({ row }) => <span className="whitespace-nowrap">{mV(row.original.vfAt10mA)}</span> },
     { id: 'spice', header: 'IS · N · RS', cell: ({ row }) => <span className="font-mono text-sm">{amps(row.original.is)} · {shopFormat().number(row.original.n, 3)} · {ohms(row.original.rs)}</span> },
     {
       id: 'part', header: 'Stocked as',
