@@ -26,6 +26,16 @@ export function isUsableLocale(value: string): boolean {
   }
 }
 
+/** Whether Intl knows the IANA time zone, e.g. 'Europe/Berlin' yes, 'Mars/Base' no. */
+export function isUsableTimeZone(value: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: value });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 /** A locale Intl accepts, else the default (a typo in the settings must not blank every page). */
 function usableLocale(locale: string | null | undefined): string {
   if (!locale) return DEFAULT_LOCALE;

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { isUsableLocale } from '../format';
+import { isUsableLocale, isUsableTimeZone } from '../format';
 import { id, str, text } from './common';
 import { isEuCountry } from '../tax/vat-rates';
 
@@ -20,14 +20,7 @@ const country = str().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Use a two-letter
 
 const isBcp47 = isUsableLocale;
 
-function isTimeZone(value: string) {
-  try {
-    new Intl.DateTimeFormat('en', { timeZone: value });
-    return true;
-  } catch {
-    return false;
-  }
-}
+const isTimeZone = isUsableTimeZone;
 
 const httpsUrl = (message: string) => str().trim().max(300, 'Use at most 300 characters').refine((value) => {
   try {

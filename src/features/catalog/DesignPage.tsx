@@ -54,7 +54,7 @@ const side = (s: DesignedCandidate['strings']['positive']) => (s ? `${s.count}×
 
 const clip = (s: string, max: number) => (s.length <= max ? s : `${s.slice(0, max - 1)}…`);
 
-const count = (n: number) => n.toLocaleString('en-GB');
+const count = (n: number) => shopFormat().count(n);
 
 /**
  * The devices a search uses, best-stocked first: copies with the same parameters are searched once
