@@ -3,6 +3,7 @@ import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { RouterProvider } from 'react-router';
 import { ToastProvider } from './components/ui/toast';
+import { ShopFormat } from './lib/format';
 import { queryClient } from './lib/query-client';
 import { router } from './routes/router';
 import './styles.css';
@@ -10,9 +11,11 @@ import './styles.css';
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
     <QueryClientProvider client={queryClient}>
-      <ToastProvider>
-        <RouterProvider router={router} />
-      </ToastProvider>
+      <ShopFormat>
+        <ToastProvider>
+          <RouterProvider router={router} />
+        </ToastProvider>
+      </ShopFormat>
     </QueryClientProvider>
   </StrictMode>,
 );

@@ -1,6 +1,7 @@
 import PDFDocument from 'pdfkit';
 import path from 'node:path';
 import { createRequire } from 'node:module';
+import { shopFormatter } from '../services/format';
 import type { ShopSettings } from '../services/settings';
 
 // Fonts ship with the app (npm font packages): nothing is fetched at run time.
@@ -30,7 +31,7 @@ export function renderPackingSlip({ settings, order, shipment, units }: SlipInpu
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));
 
-  const day = (d: Date | string) => new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeZone: settings.time_zone }).format(new Date(d));
+  const day = (d: Date | string) => shopFormatter(settings).date(new Date(d));
   doc.font('bold').fontSize(20).fillColor('#1f4d43').text(settings.shop_name);
   doc.font('regular').fontSize(9).fillColor('#444').text(settings.shop_address);
   doc.moveDown(1.5);

@@ -17,8 +17,12 @@ export function userRoutes(knex: Knex): RouteDef[] {
       method: 'patch', path: '/api/users/:id', allow: OWNER_ONLY,
       handler: async (req, res) => {
         const input = parseWith(updateUserSchema, req.body);
-        res.json({ user: await users.updateUser(knex, currentUser(req).id, pathId(req, 'id', 'user'), input) });
+        res.json(await users.updateUser(knex, currentUser(req).id, pathId(req, 'id', 'user'), input));
       },
+    },
+    {
+      method: 'post', path: '/api/role-changes/:id/undo', allow: OWNER_ONLY,
+      handler: async (req, res) => res.json(await users.undoRoleChange(knex, currentUser(req).id, pathId(req, 'id', 'role change'))),
     },
   ];
 }

@@ -1,7 +1,7 @@
 import bcrypt from 'bcryptjs';
 import type { Knex } from 'knex';
-import type { Role, SessionUser } from '../../shared/roles';
-import type { CreateUserInput, RegisterInput, UpdateUserInput, UserListQuery } from '../../shared/schemas/auth';
+import { ROLE_LABELS, type Role, type SessionUser } from '../../shared/roles';
+import { ROLE_CHANGE_UNDO_SECONDS, type CreateUserInput, type RegisterInput, type UpdateUserInput, type UserListQuery } from '../../shared/schemas/auth';
 import { containsPattern, paged } from '../http/paged';
 import { conflict, invalid, isUniqueViolation, notFound } from '../errors';
 import { passwordProblem } from '../../shared/schemas/password';
@@ -98,22 +98,73 @@ export async function listUsers(knex: Knex, params: UserListQuery) {
   });
 }
 
+const PUBLIC_COLUMNS = ['id', 'email', 'name', 'role', 'active', 'created_at'] as const;
+
+export interface RoleChangeView {
+  id: number;
+  from: Role;
+  to: Role;
+  /** Seconds left to undo it (ROLE_CHANGE_UNDO_SECONDS when just made). */
+  undoSeconds: number;
+}
+
+/**
+ * Changes a person's name, role or whether they may sign in. A role change is recorded in
+ * `role_changes` (the answer's `roleChange` names it, for undoing within a minute); with
+ * `fromRole` it is refused (409) when the role is no longer the one the owner confirmed from.
+ * Nobody changes their own role or deactivates themselves, so the shop always keeps an owner.
+ */
 export async function updateUser(knex: Knex, actorId: number, id: number, input: UpdateUserInput) {
   return knex.transaction(async (trx) => {
     const row = await trx<UserRow>('users').where({ id }).forUpdate().first();
     if (!row) throw notFound('No such user');
-    if (id === actorId && (input.active === false || (input.role && input.role !== row.role))) {
+    const { fromRole, ...change } = input;
+    const roleChanges = change.role !== undefined && change.role !== row.role;
+    if (id === actorId && (change.active === false || roleChanges)) {
       throw conflict('You cannot deactivate yourself or change your own role');
+    }
+    if (roleChanges && fromRole !== undefined && fromRole !== row.role) {
+      throw conflict(`${row.name} is ${ROLE_LABELS[row.role].toLowerCase()} now, not ${ROLE_LABELS[fromRole].toLowerCase()}: look again before changing the role`);
     }
     const [updated] = await trx<UserRow>('users')
       .where({ id })
-      .update({ ...input, updated_at: trx.fn.now() })
-      .returning(['id', 'email', 'name', 'role', 'active', 'created_at']);
-    if (input.active === false) {
+      .update({ ...change, updated_at: trx.fn.now() })
+      .returning([...PUBLIC_COLUMNS]);
+    let roleChange: RoleChangeView | null = null;
+    if (roleChanges) {
+      const [recorded] = await trx('role_changes').insert({ user_id: id, from_role: row.role, to_role: change.role, changed_by: actorId }).returning('id');
+      roleChange = { id: recorded.id, from: row.role, to: change.role!, undoSeconds: ROLE_CHANGE_UNDO_SECONDS };
+    }
+    if (change.active === false) {
       // Their sessions stop working at once: delete every stored session of theirs.
       await endSessions(trx, id);
     }
-    return updated;
+    return { user: updated, roleChange };
+  });
+}
+
+/**
+ * Undoes a role change within ROLE_CHANGE_UNDO_SECONDS of making it (measured by the database's
+ * clock): the person gets the role back that they had before. 404 for an unknown change; 409 when
+ * it is already undone, the minute has passed, or their role has changed again since.
+ */
+export async function undoRoleChange(knex: Knex, actorId: number, changeId: number) {
+  return knex.transaction(async (trx) => {
+    const found = await trx('role_changes').where({ id: changeId }).first('user_id');
+    if (!found) throw notFound('No such role change');
+    // The person first, then the change (the order every role change takes).
+    const person = await trx<UserRow>('users').where({ id: found.user_id }).forUpdate().first();
+    const change = await trx('role_changes').where({ id: changeId }).forUpdate()
+      .first('id', 'user_id', 'from_role', 'to_role', 'undone_at', trx.raw('(now() - changed_at) > make_interval(secs => ?) AS expired', [ROLE_CHANGE_UNDO_SECONDS]));
+    if (!person || !change) throw notFound('No such role change');
+    if (change.undone_at) throw conflict(`That change is already undone: ${person.name} is ${ROLE_LABELS[person.role].toLowerCase()}`);
+    if (change.expired) throw conflict(`The minute to undo it has passed: change ${person.name}’s role again instead`);
+    const later = await trx('role_changes').where('user_id', change.user_id).where('id', '>', change.id).first('id');
+    if (later || person.role !== change.to_role) throw conflict(`${person.name}’s role has changed again since: change it again instead`);
+    const [user] = await trx<UserRow>('users').where({ id: person.id })
+      .update({ role: change.from_role, updated_at: trx.fn.now() }).returning([...PUBLIC_COLUMNS]);
+    await trx('role_changes').where({ id: change.id }).update({ undone_at: trx.fn.now(), undone_by: actorId });
+    return { user };
   });
 }
 

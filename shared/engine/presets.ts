@@ -1,4 +1,6 @@
-// The device library: each preset states where its numbers come from.
+// The device library: each preset states where its numbers come from. `provenance` is what staff
+// read beside the device, in the shop's words; how each set of numbers was obtained is in the
+// comment beside it.
 import { fitDevice, type DeviceModel, type ForwardPoint } from './device';
 
 /** Broad family of a junction device, e.g. 'silicon'. */
@@ -19,7 +21,8 @@ function fitted(id: string, label: string, family: DeviceFamily, points: Forward
   return {
     id, label, family,
     model: fitDevice(points),
-    provenance: `Fitted from typical datasheet values for ${what} (Vf at 1, 10 and 30 mA), IS and N from the first two points, RS from the third.`,
+    // IS and N are fitted from the first two points, RS from the third.
+    provenance: `Typical values of the published model for ${what} (forward voltage at 1, 10 and 30 mA), not measured here.`,
     fittedFrom: points,
   };
 }
@@ -33,22 +36,26 @@ export const DEVICE_PRESETS: readonly DevicePreset[] = [
   {
     id: 'si-small-signal', label: 'Silicon small-signal (1N4148 type)', family: 'silicon',
     model: { is: 2.52e-9, n: 1.752, rs: 0.568 },
-    provenance: 'Published SPICE model of the 1N4148 small-signal switching diode (IS=2.52n N=1.752 RS=0.568), recalled from memory; DC parameters only.',
+    // The published SPICE model of the small-signal switching diode, values recalled from memory; DC parameters only.
+    provenance: 'Typical values of the published model of the 1N4148 small-signal diode, not measured here.',
   },
   {
     id: 'si-rectifier', label: 'Silicon rectifier (1N4001 type)', family: 'rectifier',
     model: { is: 14.11e-9, n: 1.984, rs: 0.03389, eg: 1.11, xti: 3 },
-    provenance: 'Published SPICE model of the 1N4001 rectifier (IS=14.11n N=1.984 RS=33.89m), recalled from memory; its high-injection knee IKF is not modelled.',
+    // The published SPICE model of the rectifier, values recalled from memory; its high-injection knee IKF is not modelled.
+    provenance: 'Typical values of the published model of the 1N4001 rectifier, not measured here.',
   },
   {
     id: 'schottky-small-signal', label: 'Schottky small-signal', family: 'schottky',
     model: { is: 1.2e-7, n: 1.3, rs: 2.0, eg: 0.69, xti: 2 },
-    provenance: 'Typical small-signal Schottky values from memory (Vf ≈ 0.30 V at 1 mA); EG=0.69 eV and XTI=2 as usual for Schottky barriers.',
+    // Typical small-signal Schottky values from memory (Vf ≈ 0.30 V at 1 mA); EG=0.69 eV and XTI=2 as usual for Schottky barriers.
+    provenance: 'Typical values of a small-signal Schottky diode (about 0.30 V at 1 mA), not measured here.',
   },
   {
     id: 'germanium-point-contact', label: 'Germanium point-contact', family: 'germanium',
     model: { is: 2.0e-7, n: 1.3, rs: 5.0, eg: 0.67, xti: 3 },
-    provenance: 'Typical germanium point-contact values from memory (Vf ≈ 0.29 V at 1 mA); EG=0.67 eV for germanium.',
+    // Typical germanium point-contact values from memory (Vf ≈ 0.29 V at 1 mA); EG=0.67 eV for germanium.
+    provenance: 'Typical values of a germanium point-contact diode (about 0.29 V at 1 mA), not measured here.',
   },
   fitted('led-red', 'LED, red', 'led', pts(1.65, 1.80, 1.92), 'a 5 mm red LED'),
   fitted('led-yellow', 'LED, yellow', 'led', pts(1.75, 1.92, 2.04), 'a 5 mm yellow LED'),

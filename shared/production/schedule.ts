@@ -1,9 +1,12 @@
-// Proposed build plan: LPT (longest-processing-time-first) list scheduling, R. L. Graham,
-// "Bounds on multiprocessing timing anomalies" (1969), adapted to the bench: jobs are taken in
-// order of due date (earliest first; none last) and, within a due date, longest first; each
-// goes to the qualified assembler (all the build's skills) who would finish it soonest. A
-// build stays within one working day when it fits the day's remaining capacity, else it moves
-// to the next working day. Pure: the planner's screen recomputes the load from edits with it.
+// Proposed build plan: builds are taken in order of due date (earliest first; stock builds with
+// none last) and, within a due date, longest first; each goes to the qualified assembler (all the
+// build's skills) who would finish it soonest. A build stays within one working day when it fits
+// the day's remaining capacity, else it moves to the next working day. Pure: the planner's screen
+// recomputes the load from edits with it.
+
+/** How the plan is made, in the shop's words: shown wherever a plan is explained. */
+export const PLAN_EXPLAINED =
+  'Builds for the earliest due date come first, and the longest builds first within a day; each goes to the assembler with the skills for it who is free soonest, within their daily minutes. Stock builds come last.';
 
 export interface PlanJob {
   unitId: number;

@@ -35,13 +35,19 @@ export const createUserSchema = z.object({
 }).superRefine(refuseEmailAsPassword('password'));
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 
+/** How long the owner can undo a role change after making it. */
+export const ROLE_CHANGE_UNDO_SECONDS = 60;
+
 export const updateUserSchema = z
   .object({
     role: z.enum(ROLES, { message: 'Choose a role' }).optional(),
+    /** The role the owner saw and confirmed the change from; a different current role is a 409. */
+    fromRole: z.enum(ROLES, { message: 'Choose a role' }).optional(),
     active: z.boolean().optional(),
     name: str().trim().min(1).max(120).optional(),
   })
-  .refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change' });
+  .refine((v) => Object.keys(v).some((k) => k !== 'fromRole'), { message: 'Nothing to change' })
+  .refine((v) => v.fromRole === undefined || v.role !== undefined, { message: 'fromRole goes with a new role', path: ['fromRole'] });
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;
 
 /** The owner's list of people: staff by default (`staff=false` lists customers), sortable, searchable. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isUsableLocale, isUsableTimeZone } from '../format';
 import { id, str, text } from './common';
 import { isEuCountry } from '../tax/vat-rates';
 
@@ -17,22 +18,9 @@ export function trackingUrl(template: string, tracking: string): string {
 
 const country = str().trim().toUpperCase().regex(/^[A-Z]{2}$/, 'Use a two-letter country code, e.g. DE');
 
-function isBcp47(value: string) {
-  try {
-    return Intl.getCanonicalLocales(value).length === 1 && new Intl.NumberFormat(value).resolvedOptions().locale.length > 0;
-  } catch {
-    return false;
-  }
-}
+const isBcp47 = isUsableLocale;
 
-function isTimeZone(value: string) {
-  try {
-    new Intl.DateTimeFormat('en', { timeZone: value });
-    return true;
-  } catch {
-    return false;
-  }
-}
+const isTimeZone = isUsableTimeZone;
 
 const httpsUrl = (message: string) => str().trim().max(300, 'Use at most 300 characters').refine((value) => {
   try {

@@ -1,9 +1,14 @@
 import { useQuery } from '@tanstack/react-query';
+import type { ReactNode } from 'react';
+import { createFormatter, type Formatter } from '../../shared/format';
 import { api } from './api';
 
 import type { PublicSettings } from '../../shared/schemas/settings';
 
 export type { PublicSettings };
+
+// The browser's side of the one formatter (shared/format.ts): bound to the shop's locale, time
+// zone and currency from GET /api/settings/public. Until they have loaded it formats as 'en-GB'.
 
 export const publicSettingsQuery = () => ({
   queryKey: ['settings', 'public'] as const,
@@ -13,29 +18,27 @@ export const publicSettingsQuery = () => ({
 
 export const usePublicSettings = () => useQuery(publicSettingsQuery());
 
-/** Money from integer cents in the shop's currency, written the shop's way (its BCP 47 locale). */
-export function formatMoney(cents: number, currency = 'EUR', locale = 'en-GB') {
-  return new Intl.NumberFormat(locale, { style: 'currency', currency }).format(cents / 100);
+let current: Formatter = createFormatter();
+let currentSettings: PublicSettings | undefined;
+
+function formatterFor(settings: PublicSettings | undefined): Formatter {
+  if (settings && settings !== currentSettings) {
+    currentSettings = settings;
+    current = createFormatter(settings);
+  }
+  return current;
 }
 
-/** A date and time in the shop's time zone. */
-export function formatDateTime(iso: string | Date, timeZone = 'Europe/Berlin', locale = 'en-GB') {
-  return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeStyle: 'short', timeZone }).format(new Date(iso));
+/** The shop's formatter in a component: dates, times, money and numbers (see shared/format.ts). */
+export function useFormatters(): Formatter {
+  return formatterFor(usePublicSettings().data);
 }
 
-export function formatDate(iso: string | Date, timeZone = 'Europe/Berlin', locale = 'en-GB') {
-  return new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeZone }).format(new Date(iso));
-}
+/** The same formatter for code outside components (unit helpers, chart ticks, toasts). */
+export const shopFormat = (): Formatter => current;
 
-/** Hooks that format with the shop's settings once they have loaded. */
-export function useFormatters() {
-  const settings = usePublicSettings().data;
-  const currency = settings?.currency ?? 'EUR';
-  const timeZone = settings?.timeZone ?? 'Europe/Berlin';
-  const locale = settings?.locale ?? 'en-GB';
-  return {
-    money: (cents: number) => formatMoney(cents, currency, locale),
-    dateTime: (iso: string | Date) => formatDateTime(iso, timeZone, locale),
-    date: (iso: string | Date) => formatDate(iso, timeZone, locale),
-  };
+/** Loads the shop's settings at the root, so the whole tree formats again once they arrive. */
+export function ShopFormat({ children }: { children: ReactNode }) {
+  useFormatters();
+  return children;
 }

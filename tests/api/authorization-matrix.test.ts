@@ -20,6 +20,7 @@ export const MATRIX: Record<string, Rule> = {
   'GET /api/users': ['owner'],
   'POST /api/users': ['owner'],
   'PATCH /api/users/:id': ['owner'],
+  'POST /api/role-changes/:id/undo': ['owner'],
   'GET /api/settings/public': 'public',
   // Settings (issue 14): the owner alone reads and changes them; anyone may see the logo.
   'GET /api/settings': ['owner'],

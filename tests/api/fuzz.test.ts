@@ -19,7 +19,7 @@ const LONG = 'x'.repeat(100_000);
 const BAD_VALUES: unknown[] = ['\u0000', `a\u0000b`, '2026-02-31', '2026-13-45', 1e308, -1, 0, 2147483648, '9999999999999999999', 1.5, [], {}, null, LONG, true, [1e308], { id: 1e308 }];
 // Field names the request schemas use; each fuzzed body gives all of them one bad value.
 const KEYS = [
-  'id', 'email', 'password', 'currentPassword', 'newPassword', 'name', 'role', 'active', 'search', 'q', 'note', 'message', 'reason',
+  'id', 'email', 'password', 'currentPassword', 'newPassword', 'name', 'role', 'fromRole', 'active', 'search', 'q', 'note', 'message', 'reason',
   'partId', 'batchId', 'unitId', 'orderId', 'modelId', 'optionId', 'revisionId', 'fromRevisionId', 'supplierId', 'assemblerId',
   'orderLineIds', 'stockBuilds', 'startDate', 'date', 'from', 'to', 'quantity', 'kind', 'reference', 'lines', 'builds', 'readings',
   'lots', 'skills', 'dailyCapacityMinutes', 'partNumber', 'category', 'sku', 'basePriceCents', 'published', 'title', 'standardMinutes',

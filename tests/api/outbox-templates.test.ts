@@ -33,9 +33,9 @@ describe('mail templates', () => {
     expect(mail.text).toContain('2 × Saltmarsh Drive — Silicon pair at €189.00 = €378.00 (VAT 19 %)');
     expect(mail.text).toContain('VAT included (19 %): €61.79');
     expect(mail.text).toContain('Your invoice INV-000042 is attached');
-    expect(renderMail('order-scheduled', sample, ctx).text).toContain('18 December 2026');
+    expect(renderMail('order-scheduled', sample, ctx).text).toContain('18 Dec 2026');
     // 23:30 UTC on 31 Dec is already 1 Jan in Berlin.
-    expect(renderString('{{date d}}', { d: '2026-12-31T23:30:00Z' }, ctx, false)).toBe('1 January 2027');
+    expect(renderString('{{date d}}', { d: '2026-12-31T23:30:00Z' }, ctx, false)).toBe('1 Jan 2027');
   });
 
   it('escapes data in HTML but not in plain text, and handles #if/else and empty lists', () => {

@@ -28,7 +28,7 @@ describe('the option designer in a browser', () => {
     // The bar's maximum is the whole space: ≥ 8 distinct stocked devices in the demo seeds, 4 per side.
     await expect.poll(async () => Number(await bar.getAttribute('max'))).toBeGreaterThan(1000);
     await page.getByRole('button', { name: 'Cancel' }).click();
-    await page.getByText(/^Cancelled: \d+ of \d+ candidates computed/).waitFor({ timeout: 30_000 });
+    await page.getByText(/^Cancelled: [\d,]+ of [\d,]+ candidates computed/).waitFor({ timeout: 30_000 });
 
     // A small one runs to the end: stocked devices, one per side, shunt at three E6 values.
     await page.getByLabel('Devices', { exact: true }).selectOption('stocked');
@@ -49,7 +49,8 @@ describe('the option designer in a browser', () => {
     const results = page.getByRole('region', { name: 'Design results' });
     await results.waitFor({ timeout: 60_000 });
     const summary = await results.getByText(/candidates computed/).textContent();
-    const [, searched, total] = /(\d+) of (\d+) candidates/.exec(summary ?? '') ?? [];
+    // Counts are written with the shop's thousands separator (en-GB: 1,452).
+    const [searched, total] = (/([\d,]+) of ([\d,]+) candidates/.exec(summary ?? '') ?? []).slice(1).map((n) => n.replace(/,/g, ''));
     expect(Number(searched)).toBe(Number(total));
     // n distinct stocked devices: n(n + 1)/2 pairs without mirror images, × 3 resistors (2200, 3300, 4700).
     const pairs = Number(total) / 3;

@@ -9,6 +9,7 @@ import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { getBatch } from '../../server/services/production/planning';
 import { appendMovements } from '../../server/services/stock/ledger';
 import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
+import { PLAN_EXPLAINED } from '../../shared/production/schedule';
 import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
 import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
 
@@ -95,6 +96,9 @@ describe('production in the browser', () => {
     const unit = await t.knex('units').where({ order_id: line.order_id }).first();
     await planner.getByRole('button', { name: 'Propose a balanced plan' }).click();
     await toast(planner, /Proposed a plan for 1 unit/);
+    // The plan is explained in the shop's words, with no textbook name for the method.
+    await planner.getByText(PLAN_EXPLAINED).waitFor();
+    expect(await planner.getByText(/scheduling|LPT|processing.time/i).count()).toBe(0);
     await planner.getByText(/Adjust single builds/).click();
     await planner.getByLabel(`Builder of ${unit.serial}`).selectOption({ label: 'Juno Abara' });
     await shot(planner, 'proposed-plan');

@@ -45,11 +45,14 @@ describe('device presets: Vf in the ranges of product.md (common practice)', () 
       }
     });
   }
-  it('says which presets are fitted or recalled from memory', () => {
+  it('tells staff in the shop’s words that every preset holds typical values, not measured ones', () => {
     const leds = DEVICE_PRESETS.filter((p: DevicePreset) => p.family === 'led');
     expect(leds.length).toBe(5);
-    for (const p of leds) expect(p.provenance).toMatch(/fitted from typical datasheet/i);
-    for (const p of DEVICE_PRESETS.filter((q) => q.family === 'germanium')) expect(p.provenance).toMatch(/from memory/);
+    for (const p of DEVICE_PRESETS) {
+      expect(p.provenance).toMatch(/^Typical values of .+, not measured here\.$/);
+      expect(p.provenance).not.toMatch(/from memory|recalled|IS=|SPICE/);
+    }
+    for (const p of leds) expect(p.fittedFrom).toHaveLength(3);
   });
 });
 

@@ -1,11 +1,13 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { createFormatter, type Formatter } from '../../../shared/format';
 
 // A tiny template language of our own, enough for receipts:
 //   {{path}}                   a value, HTML-escaped in .html templates
 //   {{money path}}             integer cents in the shop's currency, e.g. €189.00
-//   {{date path}}              an ISO date/time as a date in the shop's time zone
+//   {{date path}}              an ISO date/time as a day in the shop's time zone, e.g. 18 Dec 2026
+//                              (money and dates through the one formatter, shared/format.ts)
 //   {{#each path}}…{{/each}}   repeat for each item; inside, paths are the item's fields
 //   {{#if path}}…{{else}}…{{/if}}
 //   {{> name}}                 the partial templates/mail/_name.html (or .txt), e.g. the order's lines
@@ -16,12 +18,12 @@ const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '.
 export interface RenderContext {
   currency: string;
   timeZone: string;
+  /** The shop's locale; 'en-GB' when unset. */
+  locale?: string | null;
   shopName: string;
   shopAddress: string;
   /** The shop's VAT id, shown under its address when set. */
   shopVatId?: string;
-  /** BCP 47: how money and dates are written (the shop's setting; en-GB when absent). */
-  locale?: string;
 }
 
 type Scope = Record<string, unknown>;
@@ -32,10 +34,17 @@ function lookup(scope: Scope, key: string): unknown {
   return key.split('.').reduce<unknown>((v, part) => (v && typeof v === 'object' ? (v as Scope)[part] : undefined), scope);
 }
 
+const formatters = new WeakMap<RenderContext, Formatter>();
+function formatterOf(ctx: RenderContext): Formatter {
+  let f = formatters.get(ctx);
+  if (!f) formatters.set(ctx, (f = createFormatter(ctx)));
+  return f;
+}
+
 function format(helper: string | undefined, value: unknown, ctx: RenderContext): string {
   if (value === undefined || value === null) return '';
-  if (helper === 'money') return new Intl.NumberFormat(ctx.locale ?? 'en-GB', { style: 'currency', currency: ctx.currency }).format(Number(value) / 100);
-  if (helper === 'date') return new Intl.DateTimeFormat(ctx.locale ?? 'en-GB', { dateStyle: 'long', timeZone: ctx.timeZone }).format(new Date(String(value)));
+  if (helper === 'money') return formatterOf(ctx).money(Number(value));
+  if (helper === 'date') return formatterOf(ctx).date(value instanceof Date ? value : String(value));
   return String(value);
 }
 

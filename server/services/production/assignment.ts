@@ -2,6 +2,8 @@ import type { Knex } from 'knex';
 import type { ApplyAssignmentsInput, AssemblerProfileInput } from '../../../shared/schemas/production';
 import { assessPlan, proposePlan, workingDayOnOrAfter, type PlanAssembler, type PlanJob } from '../../../shared/production/schedule';
 import { conflict, invalid, notFound } from '../../errors';
+import { shopFormatter } from '../format';
+import { getSettings } from '../settings';
 import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { unitEvent } from './history';
 import { toDate } from './planning';
@@ -64,11 +66,12 @@ export async function applyAssignments(knex: Knex, userId: number, batchId: numb
         throw invalid(`${a.name} lacks a skill this build needs (${job.skills.filter((s) => !a.skills.includes(s)).join(', ')})`, { [`builds.${i}.assemblerId`]: 'Missing a skill' });
       }
     }
+    const format = shopFormatter(await getSettings(trx));
     const sorted = [...input.builds].sort((x, y) => (x.date < y.date ? -1 : x.date > y.date ? 1 : x.unitId - y.unitId));
     for (const [position, b] of sorted.entries()) {
       const a = byId.get(b.assemblerId)!;
       await trx('units').where({ id: b.unitId }).update({ assembler_id: b.assemblerId, planned_date: b.date, queue_position: position, updated_at: trx.fn.now() });
-      await unitEvent(trx, b.unitId, 'assigned', `assigned to ${a.name} for ${b.date}`, userId);
+      await unitEvent(trx, b.unitId, 'assigned', `Assigned to ${a.name} for ${format.date(b.date)}`, userId);
     }
     return { assigned: input.builds.length, ...assessPlan(input.builds, jobs, assemblers) };
   });

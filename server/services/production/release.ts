@@ -8,6 +8,7 @@ import { wakeJob } from '../../jobs/wake';
 import { orderMailData } from '../mail/order-mail';
 import { enqueueMail } from '../mail/outbox';
 import { transitionOrder } from '../orders/transitions';
+import { shopFormatter } from '../format';
 import { getSettings } from '../settings';
 import { listAssemblers } from './assignment';
 import { assertBatchTransition, lockBatch } from './planning';
@@ -124,11 +125,12 @@ async function finishRelease(trx: Knex.Transaction, batch: Batch, lines: Line[],
   }
   const serialsOf = new Map<number, string[]>();
   for (const u of units) if (u.order_id) serialsOf.set(u.order_id, [...(serialsOf.get(u.order_id) ?? []), u.serial]);
+  const format = shopFormatter(await getSettings(trx));
   for (const o of orders) {
     // Nobody qualified yet: fall back to two working weeks after the start.
     const shipDate = addWorkingDays(lastBuild.get(o.id) ?? addWorkingDays(start, 9), 1);
     if (o.state === 'paid') {
-      await transitionOrder(trx, o.id, 'scheduled', { userId, message: `scheduled into batch ${batchLabel(batch.number)}, estimated to ship ${shipDate}` });
+      await transitionOrder(trx, o.id, 'scheduled', { userId, message: `Scheduled into batch ${batchLabel(batch.number)}, estimated to ship ${format.date(shipDate)}` });
     }
     const base = await orderMailData(trx, o.id, publicUrl);
     await enqueueMail(trx, {

@@ -6,6 +6,7 @@ import { batchLabel } from '../../../shared/production/serials';
 import { notFound } from '../../errors';
 import type { SpecSheetData } from '../../pdf/spec-sheet-data';
 import { driveOf, loadStrings, type RevisionRow } from '../catalog/options-data';
+import { shopFormatter } from '../format';
 import { getSettings, type ShopSettings } from '../settings';
 import { cachedNominalBand } from './band-cache';
 import { compute } from '../../compute/pool';
@@ -53,9 +54,9 @@ export function revisionText(modelName: string, revision: { number: number; labe
 }
 
 /** A day in the shop's time zone, e.g. "28 Nov 2026". */
-export function shopDay(at: Date | null | undefined, timeZone: string) {
+export function shopDay(at: Date | null | undefined, settings: ShopSettings) {
   if (!at) return null;
-  return new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone }).format(at);
+  return shopFormatter(settings).date(at);
 }
 
 /** The unit row with what the sheet and the access rules need; 404 for an unknown serial. */
@@ -109,7 +110,7 @@ export async function sheetDataForUnit(db: Db, unitId: number, publicUrl = defau
     shop: { name: settings.shop_name, address: postalAddress(settings), email: settings.shop_email },
     unit: {
       serial: unit.serial, model: model.name, revision: revisionText(model.name, revision),
-      batch: batchLabel(unit.batch_number), builtOn: shopDay(built?.created_at, settings.time_zone), testedOn: shopDay(testedAt, settings.time_zone),
+      batch: batchLabel(unit.batch_number), builtOn: shopDay(built?.created_at, settings), testedOn: shopDay(testedAt, settings),
       assembler: staffName(unit.assembler_name, settings.sheet_staff_names), tester: staffName(test?.tester_name, settings.sheet_staff_names),
     },
     option: { name: option.name, topology: option.topology, description: option.description },

@@ -1,6 +1,7 @@
 // The public verification page: confirms a genuine unit and says nothing about who owns it.
 import { createHash, timingSafeEqual } from 'node:crypto';
 import type { Knex } from 'knex';
+import { shopFormatter } from '../format';
 import { getSettings } from '../settings';
 
 export interface VerifiedUnit {
@@ -38,10 +39,10 @@ export async function verifyUnit(knex: Knex, serial: string, code = ''): Promise
     .where('u.serial', serial).first('u.id', 'u.serial', 'u.state', 'u.verify_code', 'm.name as model', 'c.name as option');
   if (!row || (row.verify_code && !sameCode(code, row.verify_code))) return null;
   const built = await knex('unit_events').where({ unit_id: row.id, kind: 'state-change', to_state: 'built' }).orderBy('created_at').first('created_at');
-  const { time_zone: timeZone } = await getSettings(knex);
+  const settings = await getSettings(knex);
   return {
     serial: row.serial, model: row.model, option: row.option,
-    builtMonth: built ? new Intl.DateTimeFormat('en-GB', { month: 'long', year: 'numeric', timeZone }).format(built.created_at) : null,
+    builtMonth: built ? shopFormatter(settings).monthYear(built.created_at) : null,
     verdict: VERDICTS[row.state] ?? 'In production',
     passed: ['passed', 'in_stock', 'shipped'].includes(row.state),
   };

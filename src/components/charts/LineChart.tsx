@@ -1,4 +1,5 @@
 import { Line } from 'react-chartjs-2';
+import { shopFormat } from '../../lib/format';
 import { SERIES_COLOURS } from './setup';
 
 export interface LineSeries {
@@ -26,10 +27,11 @@ interface Props {
   /** A vertical marker, e.g. the drive slider's setting. */
   markerX?: number;
   formatY?: (v: number) => string;
+  formatX?: (v: number) => string;
 }
 
 /** The one line chart the catalog's curves use (THD against drive, transfer curve, I–V curve). */
-export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMin, yMax, markerX, formatY }: Props) {
+export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMin, yMax, markerX, formatY, formatX }: Props) {
   const all = series.flatMap((s) => s.points.map((p) => p.y)).filter((v) => Number.isFinite(v));
   const markerSeries: LineSeries[] = markerX === undefined || all.length === 0 ? [] : [{
     label: 'setting', colour: '#e3a53a', dashed: true,
@@ -53,8 +55,9 @@ export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMi
           options={{
             maintainAspectRatio: false,
             parsing: false,
+            locale: shopFormat().locale,
             scales: {
-              x: { type: 'linear', min: xMin, max: xMax, title: { display: true, text: xLabel } },
+              x: { type: 'linear', min: xMin, max: xMax, title: { display: true, text: xLabel }, ticks: formatX ? { callback: (v) => formatX(Number(v)) } : undefined },
               y: { type: logY ? 'logarithmic' : 'linear', min: yMin, max: yMax, title: { display: true, text: yLabel }, ticks: formatY ? { callback: (v) => formatY(Number(v)) } : undefined },
             },
             plugins: { legend: { labels: { filter: (item) => item.text !== 'setting' } } },

@@ -1,4 +1,5 @@
 import { Bar } from 'react-chartjs-2';
+import { shopFormat } from '../../lib/format';
 import { SERIES_COLOURS } from './setup';
 
 export interface SpectrumSeries {
@@ -28,11 +29,12 @@ export function SpectrumBars({ series, floorDbc = -100, title }: { series: Spect
           }}
           options={{
             maintainAspectRatio: false,
+            locale: shopFormat().locale,
             scales: {
-              y: { min: 0, max: -floorDbc, title: { display: true, text: 'level (dBc)' }, ticks: { callback: (v) => `${Number(v) + floorDbc}` } },
+              y: { min: 0, max: -floorDbc, title: { display: true, text: 'level (dBc)' }, ticks: { callback: (v) => shopFormat().number(Number(v) + floorDbc, 0) } },
               x: { title: { display: true, text: 'harmonic' } },
             },
-            plugins: { tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${(Number(c.raw) + floorDbc).toFixed(1)} dBc` } } },
+            plugins: { tooltip: { callbacks: { label: (c) => `${c.dataset.label}: ${shopFormat().number(Number(c.raw) + floorDbc, 1)} dBc` } } },
           }}
         />
       </div>

@@ -5,3 +5,4 @@ export { SpectrumBars, type SpectrumSeries } from './SpectrumBars';
 export { LineChart, type LineSeries } from './LineChart';
 export { SERIES_COLOURS } from './setup';
 export { ThdDriveChart, TransferChart, IvChart } from './curves';
+export { deviceLook, type DeviceLook } from './device-colours';

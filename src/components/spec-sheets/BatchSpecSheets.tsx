@@ -1,4 +1,5 @@
 import { Button } from '../ui/Button';
+import { Ident } from '../ui/Ident';
 import { ErrorState, Loading, Notice } from '../ui/states';
 import { useToast } from '../ui/toast';
 import { archiveUrl, useBatchJob, useStartBatchSheets, type SheetJob } from './api';
@@ -56,7 +57,7 @@ export function BatchSpecSheets({ batchId, label }: { batchId: number; label: st
           </a>
           {current.failures.length ? (
             <ul className="list-disc pl-6 text-sm text-alarm-700">
-              {current.failures.map((f) => <li key={f.serial}><span className="font-mono">{f.serial}</span>: {f.reason}</li>)}
+              {current.failures.map((f) => <li key={f.serial}><Ident mono>{f.serial}</Ident>: {f.reason}</li>)}
             </ul>
           ) : null}
         </div>

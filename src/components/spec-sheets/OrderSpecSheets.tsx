@@ -1,4 +1,5 @@
 import { UNIT_STATE_LABELS, type UnitState } from '../../../shared/production/states';
+import { Ident } from '../ui/Ident';
 import { ErrorState, Loading } from '../ui/states';
 import { useOrderSheets } from './api';
 import { SpecSheetLink } from './SpecSheetLink';
@@ -14,7 +15,7 @@ export function OrderSpecSheets({ orderId }: { orderId: number }) {
       {units.data.map((u) => (
         <li key={u.serial} className="flex flex-wrap items-center justify-between gap-3 rounded-md border border-spruce-700/20 bg-white p-3">
           <div>
-            <p className="font-mono text-copper-700">{u.serial}</p>
+            <p className="text-copper-700"><Ident mono>{u.serial}</Ident></p>
             <p className="text-sm text-ink-soft">{u.modelName} — {u.optionName} · {UNIT_STATE_LABELS[u.state as UnitState] ?? u.state}</p>
           </div>
           {u.sheetReady

@@ -45,7 +45,7 @@ export function Notice({ tone = 'info', children }: { tone?: 'info' | 'good' | '
   );
 }
 
-export function PageHeader({ title, children }: { title: string; children?: ReactNode }) {
+export function PageHeader({ title, children }: { title: ReactNode; children?: ReactNode }) {
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-spruce-700/20 pb-4">
       <h1 className="text-3xl font-bold tracking-tight text-spruce-900">{title}</h1>

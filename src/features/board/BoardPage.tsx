@@ -1,4 +1,5 @@
 import type { ColumnDef } from '@tanstack/react-table';
+import { Ident } from '../../components/ui/Ident';
 import { useMemo } from 'react';
 import { Link } from 'react-router';
 import { BATCH_STATE_LABELS, UNIT_STATE_LABELS, type UnitState } from '../../../shared/production/states';
@@ -33,7 +34,7 @@ function ProgressByState({ units, label }: { units: Board['batches'][number]['un
 export default function BoardPage() {
   const board = useBoard();
   const lateColumns = useMemo<ColumnDef<Board['late'][number], unknown>[]>(() => [
-    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <span className="font-mono">{row.original.serial}</span> },
+    { accessorKey: 'serial', header: 'Serial', cell: ({ row }) => <Ident mono>{row.original.serial}</Ident> },
     { accessorKey: 'state', header: 'State', cell: ({ row }) => UNIT_STATE_LABELS[row.original.state] },
     { accessorKey: 'assemblerName', header: 'Builder', cell: ({ row }) => row.original.assemblerName ?? 'unassigned' },
     { accessorKey: 'plannedDate', header: 'Planned', cell: ({ row }) => row.original.plannedDate ?? '—' },

@@ -1,3 +1,4 @@
+import { shopFormat } from '../../lib/format';
 import type { ColumnDef } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
 import { BOM_CSV_MAX_BYTES } from '../../../shared/schemas/catalog';
@@ -24,7 +25,7 @@ export function BomCsvUpload({ revisionId }: { revisionId: number }) {
   ], []);
   const choose = (f: File | undefined) => {
     if (!f) return;
-    if (f.size > BOM_CSV_MAX_BYTES) { toast(`That file is ${(f.size / 1024).toFixed(0)} KB; the limit is ${BOM_CSV_MAX_BYTES / 1024} KB`, 'alarm'); return; }
+    if (f.size > BOM_CSV_MAX_BYTES) { toast(`That file is ${shopFormat().number(f.size / 1024, 0)} KB; the limit is ${shopFormat().number(BOM_CSV_MAX_BYTES / 1024, 0)} KB`, 'alarm'); return; }
     setFile(f);
     preview.mutate(f, { onError: (err) => toast(err.message, 'alarm') });
   };

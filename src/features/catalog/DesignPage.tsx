@@ -1,3 +1,4 @@
+import { shopFormat } from '../../lib/format';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
@@ -60,7 +61,7 @@ function newOptionCode(): string {
   return `D${Date.now().toString(36).slice(-5).toUpperCase()}`;
 }
 
-const count = (n: number) => n.toLocaleString('en-GB');
+const count = (n: number) => shopFormat().count(n);
 
 /**
  * The devices a search uses, best-stocked first: copies with the same parameters are searched once
@@ -134,7 +135,7 @@ export default function DesignPage() {
     create.mutate({
       // Option names hold at most 80 characters; long device names are cut with an ellipsis.
       code, name: clip(`Designed ${rank}: ${side(c.strings.positive)} / ${side(c.strings.negative)}`, 80),
-      description: `Found by the option designer at THD_F ${percent(c.at.thdF)} (distance ${c.distance.toFixed(3)}).`,
+      description: `Found by the option designer at THD_F ${percent(c.at.thdF)} (distance ${shopFormat().number(c.distance, 3)}).`,
       topology, network, positive: ids(c.strings.positive), negative: ids(c.strings.negative), surchargeCents: costs.surchargeCents, published: false,
     }, { onSuccess: (r) => void navigate(`/catalog/models/${id}/options/${r.optionId}`) });
   };
@@ -144,7 +145,7 @@ export default function DesignPage() {
       <PageHeader title={`Design an option — ${model.data.name}`}>
         <Link to={`/catalog/models/${id}`} className="inline-flex min-h-11 items-center px-4 font-semibold text-spruce-800 underline">Back to {model.data.name}</Link>
       </PageHeader>
-      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {stage.driveGain.toFixed(1)}, {stage.inputPeakV} V in). Every candidate is computed by the engine; distance 0 means inside every range. A pair and its mirror image (the two sides swapped) give the same harmonic levels, so each pair is searched and shown once.</p>
+      <p className="mb-4 text-ink-soft">Revision {rev.number} at its reference drive ({Math.round(rev.drive.referenceDrive * 100)} %, gain {shopFormat().number(stage.driveGain, 1)}, {shopFormat().significant(stage.inputPeakV)} V in). Every candidate is computed by the engine; distance 0 means inside every range. A pair and its mirror image (the two sides swapped) give the same harmonic levels, so each pair is searched and shown once.</p>
       <form onSubmit={onSubmit} noValidate className="grid gap-4 rounded-lg bg-white p-4 shadow-sm md:grid-cols-4">
         <TextField label="THD_F from (%)" inputMode="decimal" error={errors.thdLo?.message} {...form.register('thdLo')} />
         <TextField label="THD_F to (%)" inputMode="decimal" error={errors.thdHi?.message} {...form.register('thdHi')} />
@@ -224,7 +225,7 @@ function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: 
   return (
     <section className="mt-6 flex flex-col gap-4" aria-label="Design results">
       <Notice tone={top[0]?.distance === 0 ? 'good' : 'info'}>
-        {result.cancelled ? 'Cancelled: ' : ''}{result.searched} of {result.total} candidates computed ({result.msPerCandidate.toFixed(2)} ms each).
+        {result.cancelled ? 'Cancelled: ' : ''}{shopFormat().count(result.searched)} of {shopFormat().count(result.total)} candidates computed ({shopFormat().number(result.msPerCandidate, 2)} ms each).
         {top[0] && top[0].distance > 0 ? ' None meets every range; the nearest are shown.' : ''}
       </Notice>
       <div className="grid gap-4 lg:grid-cols-2">
@@ -242,11 +243,11 @@ function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: 
             <td className="p-2">{circuit(c)}</td>
             <td className="p-2">{side(c.strings.positive)}</td><td className="p-2">{side(c.strings.negative)}</td>
             <td className="p-2 font-mono">{percent(c.at.thdF)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[1].dbc)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[2].dbc)}</td>
-            <td className="p-2 font-mono">{c.at.fundamentalPeakV.toFixed(2)}</td>
+            <td className="p-2 font-mono">{shopFormat().number(c.at.fundamentalPeakV, 2)}</td>
             <td className="p-2 font-mono">{onset(c)}</td><td className="p-2 font-mono">{c.second ? percent(c.second.thdF) : '—'}</td>
             <td className="p-2 text-sm">{k.bom.lines.map((l) => `${l.quantity} × ${l.partNumber}`).join(', ') || 'none'}{k.bom.unlinked.length ? ` (no part linked: ${k.bom.unlinked.join(', ')})` : ''}</td>
             <td className="p-2 font-mono">{money(k.bom.cents)}</td><td className="p-2 font-mono">{k.unitCostCents === null ? '—' : money(k.unitCostCents)}</td><td className="p-2 font-mono">{money(k.surchargeCents)}</td>
-            <td className="p-2 font-mono">{c.distance.toFixed(3)}</td>
+            <td className="p-2 font-mono">{shopFormat().number(c.distance, 3)}</td>
             <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => onCreate(c, i + 1)}>Create option from this</Button></td>
           </tr>
         ); })}</tbody>

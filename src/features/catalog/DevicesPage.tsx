@@ -4,13 +4,14 @@ import { useMemo, useState } from 'react';
 import { useForm, useWatch } from 'react-hook-form';
 import { forwardVoltage } from '../../../shared/engine/index';
 import { customDeviceSchema, DEVICE_KINDS, type CustomDeviceInput } from '../../../shared/schemas/catalog';
-import { IvChart } from '../../components/charts';
+import { deviceLook, IvChart } from '../../components/charts';
 import { Button } from '../../components/ui/Button';
 import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { TextField } from '../../components/ui/TextField';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
+import { shopFormat } from '../../lib/format';
 import { useSession } from '../auth/api';
 import { useAllParts, useCreateDevice, useDevices, useLinkDevice, type Device } from './api';
 import { amps, mV, ohms } from './units';
@@ -67,13 +68,15 @@ export default function DevicesPage() {
   const toast = useToast();
   const role = useSession().data?.role;
   const canEdit = role === 'owner' || role === 'planner';
-  const [shown, setShown] = useState<number[]>([]);
+  // Which devices are drawn: the first five until someone ticks or unticks a box.
+  const [picked, setPicked] = useState<number[] | null>(null);
+  const shown = useMemo(() => picked ?? (devices.data ?? []).slice(0, 5).map((d) => d.deviceId), [picked, devices.data]);
   const columns = useMemo<ColumnDef<Device, unknown>[]>(() => [
     { accessorKey: 'name', header: 'Device', cell: ({ row }) => <span className="font-semibold">{row.original.name}{row.original.presetKey ? '' : ' (custom)'}</span> },
     { accessorKey: 'kind', header: 'Kind' },
-    { accessorKey: 'vfAt1mA', header: 'Vf at 1 mA', cell: ({ row }) => mV(row.original.vfAt1mA) },
-    { accessorKey: 'vfAt10mA', header: 'Vf at 10 mA', cell: ({ row }) => mV(row.original.vfAt10mA) },
-    { id: 'spice', header: 'IS · N · RS', cell: ({ row }) => <span className="font-mono text-sm">{amps(row.original.is)} · {row.original.n.toFixed(3)} · {ohms(row.original.rs)}</span> },
+    { accessorKey: 'vfAt1mA', header: 'Vf at 1 mA', cell: ({ row }) => <span className="whitespace-nowrap">{mV(row.original.vfAt1mA)}</span> },
+    { accessorKey: 'vfAt10mA', header: 'Vf at 10 mA', cell: ({ row }) => <span className="whitespace-nowrap">{mV(row.original.vfAt10mA)}</span> },
+    { id: 'spice', header: 'IS · N · RS', cell: ({ row }) => <span className="font-mono text-sm">{amps(row.original.is)} · {shopFormat().number(row.original.n, 3)} · {ohms(row.original.rs)}</span> },
     {
       id: 'part', header: 'Stocked as',
       cell: ({ row }) => canEdit ? (
@@ -86,18 +89,24 @@ export default function DevicesPage() {
     },
     { id: 'stock', header: 'Available', cell: ({ row }) => (row.original.partId ? row.original.available : <span className="font-semibold text-alarm-700">no part</span>) },
     { id: 'chart', header: 'On the chart', enableSorting: false, cell: ({ row }) => (
-      <label className="flex min-h-11 items-center gap-2"><input type="checkbox" className="size-6" checked={shown.includes(row.original.deviceId)} onChange={(e) => setShown(e.target.checked ? [...shown, row.original.deviceId].slice(-6) : shown.filter((s) => s !== row.original.deviceId))} /> show</label>
+      <label className="flex min-h-11 items-center gap-2">
+        <input type="checkbox" className="size-6" aria-label={`Show ${row.original.name} on the chart`} checked={shown.includes(row.original.deviceId)}
+          onChange={(e) => setPicked(e.target.checked ? [...shown, row.original.deviceId].slice(-6) : shown.filter((s) => s !== row.original.deviceId))} />
+        <span aria-hidden="true" className="inline-block h-1 w-6 rounded" style={{ background: deviceLook(row.original).colour }} /> show
+      </label>
     ) },
   ], [canEdit, link, parts.data, shown, toast]);
   if (devices.isPending) return <Loading />;
   if (devices.isError) return <ErrorState error={devices.error} retry={() => devices.refetch()} />;
-  const chartDevices = (shown.length ? devices.data.filter((d) => shown.includes(d.deviceId)) : devices.data.slice(0, 5));
+  const chartDevices = devices.data.filter((d) => shown.includes(d.deviceId));
   return (
     <>
       <PageHeader title="Clipping devices" />
       <div className="flex flex-col gap-6">
         {devices.data.length === 0 ? <EmptyState title="No devices yet" /> : <DataTable data={devices.data} columns={columns} caption="Clipping device library" />}
-        <IvChart title="Forward I–V curves at 27 °C" series={chartDevices.map((d) => ({ label: d.name, points: ivPoints(d) }))} />
+        {chartDevices.length ? (
+          <IvChart title="Forward I–V curves at 27 °C" series={chartDevices.map((d) => ({ label: d.name, points: ivPoints(d), ...deviceLook(d) }))} />
+        ) : <EmptyState title="No curves drawn">Tick “show” beside up to six devices to draw their curves.</EmptyState>}
         <details className="rounded-lg bg-white p-4 shadow-sm"><summary className="min-h-11 cursor-pointer font-semibold">Where the numbers come from</summary>
           <ul className="mt-2 list-disc pl-6">{devices.data.map((d) => <li key={d.deviceId}><strong>{d.name}:</strong> {d.provenance}</li>)}</ul></details>
         {canEdit ? <NewDevice /> : null}

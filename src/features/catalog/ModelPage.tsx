@@ -11,7 +11,7 @@ import { TextField } from '../../components/ui/TextField';
 import { designPath } from '../../lib/navigation';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
-import { useFormatters } from '../../lib/format';
+import { shopFormat, useFormatters } from '../../lib/format';
 import { useSession } from '../auth/api';
 import { useActivateRevision, useCreateOption, useDevices, useModel, useStartRevision, useUpdateModel, useUploadPhoto, type ModelDetail, type OptionView, type RevisionSummary } from './api';
 import { OptionForm } from './OptionForm';
@@ -46,7 +46,7 @@ function ModelForm({ model }: { model: ModelDetail }) {
             const file = ev.target.files?.[0];
             ev.target.value = '';
             if (!file) return;
-            if (file.size > PHOTO_MAX_BYTES) { toast(`That photo is ${(file.size / 1048576).toFixed(1)} MB; the limit is ${PHOTO_MAX_BYTES / 1048576} MB`, 'alarm'); return; }
+            if (file.size > PHOTO_MAX_BYTES) { toast(`That photo is ${shopFormat().number(file.size / 1048576, 1)} MB; the limit is ${shopFormat().number(PHOTO_MAX_BYTES / 1048576, 0)} MB`, 'alarm'); return; }
             photo.mutate(file, { onSuccess: () => toast('Photo saved'), onError: (err) => toast(err.message, 'alarm') });
           }} />
         </label>

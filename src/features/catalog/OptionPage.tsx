@@ -4,7 +4,7 @@ import { SpectrumBars, ThdDriveChart, TransferChart } from '../../components/cha
 import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
 import { useToast } from '../../components/ui/toast';
 import { applyFieldErrors } from '../../lib/api';
-import { useFormatters } from '../../lib/format';
+import { shopFormat, useFormatters } from '../../lib/format';
 import { useSession } from '../auth/api';
 import { useDevices, useModel, useUpdateOption, type OptionView, type StringDevice } from './api';
 import { OptionForm } from './OptionForm';
@@ -42,7 +42,7 @@ function Profile({ option }: { option: OptionView }) {
       <div className="flex flex-wrap items-center gap-4 rounded-lg bg-white p-4 shadow-sm">
         <label htmlFor="drive-slider" className="font-semibold">Drive control</label>
         <input id="drive-slider" type="range" min={0} max={100} step={1} value={Math.round(drive * 100)} onChange={(e) => setDrive(Number(e.target.value) / 100)} className="h-11 min-w-64 flex-1 accent-copper-600" />
-        <output htmlFor="drive-slider" className="font-mono">{Math.round(drive * 100)} % · gain ×{at ? at.gain.toFixed(1) : '…'} · THD_F {at ? percent(at.spectrum.thdF) : '…'}</output>
+        <output htmlFor="drive-slider" className="font-mono">{Math.round(drive * 100)} % · gain ×{at ? shopFormat().number(at.gain, 1) : '…'} · THD_F {at ? percent(at.spectrum.thdF) : '…'}</output>
       </div>
       <p className="text-ink-soft">
         Clipping onset (THD_F reaches 1 %): <strong>{onset === null ? 'never within the drive range' : onset === 0 ? 'already at minimum drive' : `at ${Math.round(onset * 100)} % drive`}</strong>.
@@ -58,14 +58,14 @@ function Profile({ option }: { option: OptionView }) {
       <div className="grid gap-4 lg:grid-cols-2">
         {contract ? (
           <table className="w-full rounded-lg bg-white text-left shadow-sm" aria-label="Engine output at the reference setting">
-            <caption className="p-2 text-left font-semibold text-spruce-900">At the reference setting ({Math.round(option.engineInput.circuit.referenceDrive! * 100)} % drive, gain ×{option.engineInput.contract.driveGain.toFixed(2)}, 1 kHz, {option.engineInput.contract.inputPeakV * 1000} mV peak in)</caption>
+            <caption className="p-2 text-left font-semibold text-spruce-900">At the reference setting ({Math.round(option.engineInput.circuit.referenceDrive! * 100)} % drive, gain ×{shopFormat().number(option.engineInput.contract.driveGain, 2)}, 1 kHz, {shopFormat().significant(option.engineInput.contract.inputPeakV * 1000)} mV peak in)</caption>
             <thead className="bg-spruce-100"><tr><th className="p-2">Harmonic</th><th className="p-2">Peak</th><th className="p-2">Level</th></tr></thead>
             <tbody>
               {contract.harmonics.map((h) => (
-                <tr key={h.order} className="border-t border-spruce-700/10"><th scope="row" className="p-2 text-left">H{h.order}</th><td className="p-2 font-mono">{h.peakV.toExponential(3)} V</td><td className="p-2 font-mono">{h.dbc.toFixed(2)} dBc</td></tr>
+                <tr key={h.order} className="border-t border-spruce-700/10"><th scope="row" className="p-2 text-left">H{h.order}</th><td className="p-2 font-mono">{shopFormat().scientific(h.peakV, 3)} V</td><td className="p-2 font-mono">{shopFormat().number(h.dbc, 2)} dBc</td></tr>
               ))}
-              <tr className="border-t-2 border-spruce-700/30"><th scope="row" className="p-2 text-left">THD_F</th><td className="p-2 font-mono" colSpan={2}>{(contract.thdF * 100).toFixed(3)} %</td></tr>
-              <tr><th scope="row" className="p-2 text-left">THD_R</th><td className="p-2 font-mono" colSpan={2}>{(contract.thdR * 100).toFixed(3)} %</td></tr>
+              <tr className="border-t-2 border-spruce-700/30"><th scope="row" className="p-2 text-left">THD_F</th><td className="p-2 font-mono" colSpan={2}>{shopFormat().number(contract.thdF * 100, 3)} %</td></tr>
+              <tr><th scope="row" className="p-2 text-left">THD_R</th><td className="p-2 font-mono" colSpan={2}>{shopFormat().number(contract.thdR * 100, 3)} %</td></tr>
             </tbody>
           </table>
         ) : null}

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { Pager } from '../../components/ui/DataTable';
+import { Ident } from '../../components/ui/Ident';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useFormatters } from '../../lib/format';
 import { orderPath, paths } from '../../lib/navigation';
@@ -24,7 +25,7 @@ export default function MyOrdersPage() {
         {orders.data?.items.map((o) => (
           <li key={o.id} className="rounded-lg border border-spruce-700/20 bg-white p-4">
             <div className="flex flex-wrap items-baseline justify-between gap-2">
-              <h2 className="text-xl font-bold text-spruce-900">Order {o.number}</h2>
+              <h2 className="text-xl font-bold text-spruce-900">Order <Ident>{o.number}</Ident></h2>
               <span className="text-ink-soft">placed {date(o.createdAt)} · <span className="num font-semibold text-ink">{money(o.totalCents)}</span></span>
             </div>
             <div className="my-3"><OrderProgress state={o.state} /></div>
@@ -32,7 +33,7 @@ export default function MyOrdersPage() {
               {o.lines.map((l) => <li key={l.id}>{l.quantity} × {l.description}</li>)}
             </ul>
             {o.lastPaymentError && o.state === 'awaiting_payment' ? <p className="mb-2 font-semibold text-alarm-700">Payment did not go through: {o.lastPaymentError}</p> : null}
-            <Link to={orderPath(o.id)} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">Details and receipt for {o.number}</Link>
+            <Link to={orderPath(o.id)} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">Details and receipt for&nbsp;<Ident>{o.number}</Ident></Link>
           </li>
         ))}
       </ul>

@@ -3,11 +3,12 @@ import type { ColumnDef } from '@tanstack/react-table';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useParams, useSearchParams } from 'react-router';
-import { ORDER_STATE_LABELS } from '../../../shared/order-states';
+import { ORDER_STATE_LABELS, orderEventLabel, sentenceCase } from '../../../shared/order-states';
 import { orderNoteSchema, type OrderNoteInput } from '../../../shared/schemas/orders';
 import { Button } from '../../components/ui/Button';
 import { ConfirmButton } from '../../components/ui/ConfirmButton';
 import { DataTable } from '../../components/ui/DataTable';
+import { Ident } from '../../components/ui/Ident';
 import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/states';
 import { OrderSpecSheets } from '../../components/spec-sheets';
 import { useToast } from '../../components/ui/toast';
@@ -42,9 +43,9 @@ export default function OrderPage() {
     { header: 'Amount', accessorKey: 'line_total_cents', cell: ({ getValue }) => <span className="num">{money(getValue() as number)}</span> },
   ];
   const eventColumns: ColumnDef<OrderEvent, unknown>[] = [
-    { header: 'When', accessorKey: 'created_at', cell: ({ getValue }) => dateTime(getValue() as string) },
-    { header: 'What', id: 'what', cell: ({ row }) => (row.original.to_state && row.original.kind === 'state-change' ? `${ORDER_STATE_LABELS[row.original.to_state]}` : row.original.kind.replace(/-/g, ' ')) },
-    { header: 'Details', accessorKey: 'message' },
+    { header: 'When', accessorKey: 'created_at', cell: ({ getValue }) => <span className="whitespace-nowrap">{dateTime(getValue() as string)}</span> },
+    { header: 'What', id: 'what', cell: ({ row }) => orderEventLabel(row.original) },
+    { header: 'Details', accessorKey: 'message', cell: ({ getValue }) => sentenceCase((getValue() as string | null) ?? '') },
     { header: 'By', accessorKey: 'user_name', cell: ({ getValue }) => (getValue() as string | null) ?? '—' },
   ];
 
@@ -56,7 +57,7 @@ export default function OrderPage() {
 
   return (
     <>
-      <PageHeader title={`Order ${order.number}`}>
+      <PageHeader title={<>Order <Ident>{order.number}</Ident></>}>
         <Link to={staff ? paths.orderDesk : paths.myOrders} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">{staff ? 'All orders' : 'My orders'}</Link>
       </PageHeader>
       <div className="flex flex-col gap-6">
@@ -109,8 +110,17 @@ export default function OrderPage() {
 
         {/* Unit progress: production fills in each unit's build and test progress for these lines here. */}
         <section aria-labelledby="units-heading" className="rounded-lg border border-dashed border-spruce-700/40 bg-white/60 p-4">
-          <h2 id="units-heading" className="text-xl font-bold text-spruce-900">Your pedals on the bench</h2>
-          <p className="text-ink-soft">Once the order is scheduled into a build batch, each pedal’s serial number and its build and test progress appear here.</p>
+          {staff ? (
+            <>
+              <h2 id="units-heading" className="text-xl font-bold text-spruce-900">Units for this order</h2>
+              <p className="text-ink-soft">Each unit’s serial and its spec sheet, once the order is in a released batch.</p>
+            </>
+          ) : (
+            <>
+              <h2 id="units-heading" className="text-xl font-bold text-spruce-900">Your pedals on the bench</h2>
+              <p className="text-ink-soft">Once the order is scheduled into a build batch, each pedal’s serial number and its build and test progress appear here.</p>
+            </>
+          )}
           <OrderSpecSheets orderId={id} />
         </section>
 

@@ -1,4 +1,5 @@
 import type { ColumnDef } from '@tanstack/react-table';
+import { shopFormat } from '../../lib/format';
 import { useMemo, useState } from 'react';
 import type { H2Summary } from '../../../shared/matching/batch';
 import { Button } from '../../components/ui/Button';
@@ -9,16 +10,16 @@ import type { MatchProposal } from '../trays/api';
 import { useAcceptMatching, useProposeMatching, type BatchDetail } from './api';
 
 type PlannedUnit = MatchProposal['units'][number];
-const db = (v: number) => `${v.toFixed(1)} dBc`;
-const range = (s: H2Summary) => `mean ${db(s.meanDbc)}, ${s.minDbc.toFixed(1)} to ${s.maxDbc.toFixed(1)} dBc`;
+const db = (v: number) => `${shopFormat().number(v, 1)} dBc`;
+const range = (s: H2Summary) => `mean ${db(s.meanDbc)}, ${shopFormat().number(s.minDbc, 1)} to ${shopFormat().number(s.maxDbc, 1)} dBc`;
 
 /** What matching gains for one option, in words: predicted H2 of the matched units against random pairing. */
 function gainWords(o: MatchProposal['options'][number]) {
   if (!o.matchedH2 || !o.randomH2) return null;
   if (o.method === 'pairs' || o.method === 'strings') {
-    return `Predicted H2 matched: ${range(o.matchedH2)}; random pairs of the same trays: ${range(o.randomH2)} (${(o.randomH2.meanDbc - o.matchedH2.meanDbc).toFixed(1)} dB more even harmonic).`;
+    return `Predicted H2 matched: ${range(o.matchedH2)}; random pairs of the same trays: ${range(o.randomH2)} (${shopFormat().number(o.randomH2.meanDbc - o.matchedH2.meanDbc, 1)} dB more even harmonic).`;
   }
-  return `Predicted H2 off the option’s nominal ${db(o.nominalH2Dbc)}: matched ${o.matchedH2.meanOffDb.toFixed(2)} dB on average (spread ${o.matchedH2.spreadDb.toFixed(2)} dB); random pairing ${o.randomH2.meanOffDb.toFixed(2)} dB (spread ${o.randomH2.spreadDb.toFixed(2)} dB).`;
+  return `Predicted H2 off the option’s nominal ${db(o.nominalH2Dbc)}: matched ${shopFormat().number(o.matchedH2.meanOffDb, 2)} dB on average (spread ${shopFormat().number(o.matchedH2.spreadDb, 2)} dB); random pairing ${shopFormat().number(o.randomH2.meanOffDb, 2)} dB (spread ${shopFormat().number(o.randomH2.spreadDb, 2)} dB).`;
 }
 
 /** Propose which tray slots go into which unit, see the gain, accept it into the kit list and checklists. */
@@ -30,8 +31,8 @@ export function MatchingPanel({ detail }: { detail: BatchDetail }) {
   const columns = useMemo<ColumnDef<PlannedUnit, unknown>[]>(() => [
     { accessorKey: 'serial', header: 'Unit', cell: ({ row }) => <span className="font-mono text-sm">{row.original.serial}</span> },
     { accessorKey: 'optionCode', header: 'Option' },
-    { id: 'slots', header: 'Take', enableSorting: false, cell: ({ row }) => row.original.slots.map((s) => `${s.label} (${s.side === 'positive' ? '+' : '−'} ${s.vf.toFixed(4)} V)`).join(', ') },
-    { accessorKey: 'mismatchMv', header: 'Mismatch', cell: ({ row }) => `${row.original.mismatchMv.toFixed(1)} mV` },
+    { id: 'slots', header: 'Take', enableSorting: false, cell: ({ row }) => row.original.slots.map((s) => `${s.label} (${s.side === 'positive' ? '+' : '−'} ${shopFormat().number(s.vf, 4)} V)`).join(', ') },
+    { accessorKey: 'mismatchMv', header: 'Mismatch', cell: ({ row }) => `${shopFormat().number(row.original.mismatchMv, 1)} mV` },
     { accessorKey: 'h2Dbc', header: 'Predicted H2', cell: ({ row }) => db(row.original.h2Dbc) },
   ], []);
   const run = () => propose.mutate({}, { onSuccess: setProposal, onError: (e) => toast(e.message, 'alarm') });

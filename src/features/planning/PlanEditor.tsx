@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'react';
-import { assessPlan, type PlannedBuild } from '../../../shared/production/schedule';
+import { assessPlan, PLAN_EXPLAINED, type PlannedBuild } from '../../../shared/production/schedule';
 import { Button } from '../../components/ui/Button';
+import { useFormatters } from '../../lib/format';
 import type { BatchUnit, PlanProposal } from './api';
 
 /**
@@ -12,6 +13,7 @@ export function PlanEditor({ proposal, units, busy, onApply, onCancel }: { propo
   const [builds, setBuilds] = useState<PlannedBuild[]>(proposal.builds);
   const assessed = useMemo(() => assessPlan(builds, proposal.jobs, proposal.assemblers), [builds, proposal]);
   const days = [...new Set(assessed.load.map((l) => l.date))].sort();
+  const fmt = useFormatters();
   const serial = new Map(units.map((u) => [u.id, u.serial]));
   const late = new Set(assessed.late);
   const change = (unitId: number, patch: Partial<PlannedBuild>) => setBuilds((bs) => bs.map((b) => (b.unitId === unitId ? { ...b, ...patch } : b)));
@@ -19,12 +21,12 @@ export function PlanEditor({ proposal, units, busy, onApply, onCancel }: { propo
 
   return (
     <div className="grid gap-4 rounded-lg border border-copper-600/40 bg-paper p-4">
-      <h3 className="text-lg font-bold text-spruce-900">Proposed plan from {proposal.startDate}</h3>
-      <p className="text-ink-soft">Longest-processing-time-first list scheduling: earliest due date first, longest build first within it, each to the qualified assembler who finishes it soonest within their daily minutes.</p>
+      <h3 className="text-lg font-bold text-spruce-900">Proposed plan from {fmt.date(proposal.startDate)}</h3>
+      <p className="text-ink-soft">{PLAN_EXPLAINED}</p>
       <div className="overflow-x-auto">
         <table className="border-collapse text-sm">
           <caption className="sr-only">Load per assembler per day</caption>
-          <thead><tr><th scope="col" className="px-2 py-1 text-left">Assembler</th>{days.map((d) => <th key={d} scope="col" className="px-2 py-1">{d}</th>)}</tr></thead>
+          <thead><tr><th scope="col" className="px-2 py-1 text-left">Assembler</th>{days.map((d) => <th key={d} scope="col" className="px-2 py-1 whitespace-nowrap">{fmt.day(d)}</th>)}</tr></thead>
           <tbody>
             {proposal.assemblers.map((a) => (
               <tr key={a.id}>

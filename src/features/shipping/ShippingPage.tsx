@@ -1,4 +1,5 @@
 import type { ColumnDef } from '@tanstack/react-table';
+import { Ident } from '../../components/ui/Ident';
 import { useMemo, useState } from 'react';
 import type { SortDirection } from '../../../shared/schemas/list';
 import { SHIPPING_STATES, type ShipmentListQuery, type ShippingListQuery } from '../../../shared/schemas/production';
@@ -28,7 +29,7 @@ export default function ShippingPage() {
   const toast = useToast();
   const fmt = useFormatters();
   const columns = useMemo<ColumnDef<ShippingOrder, unknown>[]>(() => [
-    { id: 'number', accessorKey: 'number', header: 'Order', cell: ({ row }) => <span className="font-semibold">{row.original.number}</span> },
+    { id: 'number', accessorKey: 'number', header: 'Order', cell: ({ row }) => <span className="font-semibold"><Ident>{row.original.number}</Ident></span> },
     { id: 'customerName', accessorKey: 'customerName', header: 'Customer', cell: ({ row }) => <>{row.original.customerName}<br /><span className="text-sm text-ink-soft">{row.original.destination}</span></> },
     { accessorKey: 'passed', header: 'Units passed', enableSorting: false, cell: ({ row }) => `${row.original.passed} of ${row.original.ordered}` },
     { id: 'dueAt', accessorKey: 'dueAt', header: 'Due', cell: ({ row }) => (row.original.dueAt ? fmt.date(row.original.dueAt) : '—') },
@@ -107,7 +108,7 @@ export default function ShippingPage() {
             <h2 id="stock-heading" className="mb-2 text-xl font-bold text-spruce-900">Passed stock builds</h2>
             {queue.data.finishedStock.length ? (
               <ul className="grid gap-2">{queue.data.finishedStock.map((u) => (
-                <li key={u.id} className="flex flex-wrap items-center gap-3"><span className="font-mono">{u.serial}</span> {u.modelName} — {u.optionName}
+                <li key={u.id} className="flex flex-wrap items-center gap-3"><Ident mono>{u.serial}</Ident> {u.modelName} — {u.optionName}
                   {u.state === 'passed' ? <Button variant="secondary" busy={toStock.isPending} onClick={() => toStock.mutate(u.id, { onSuccess: () => toast(`${u.serial} is in finished stock`), onError: (e) => toast(e.message, 'alarm') })}>Put in finished stock</Button> : <span className="text-good-700">in finished stock</span>}
                 </li>))}</ul>
             ) : <p className="text-ink-soft">No passed stock builds.</p>}

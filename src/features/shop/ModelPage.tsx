@@ -4,7 +4,7 @@ import { ListeningPreview } from '../../components/listening/ListeningPreview';
 import { Button } from '../../components/ui/Button';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useToast } from '../../components/ui/toast';
-import { useFormatters } from '../../lib/format';
+import { shopFormat, useFormatters } from '../../lib/format';
 import { paths } from '../../lib/navigation';
 import { useShopModel, type ShopOption } from './api';
 import { cart, MAX_PER_LINE } from './cart';
@@ -13,8 +13,8 @@ import { HarmonicsExplainer } from './HarmonicsExplainer';
 import { dbcOf, describeProfile, useOptionProfiles } from './profiles';
 
 const NO_OPTIONS: ShopOption[] = [];
-const percent = (ratio: number) => `${(ratio * 100).toFixed(ratio < 0.1 ? 1 : 0)} %`;
-const dbc = (v: number | null) => (v === null ? 'none (below −100 dBc)' : `${v.toFixed(1)} dBc`);
+const percent = (ratio: number) => `${shopFormat().number(ratio * 100, ratio < 0.1 ? 1 : 0)} %`;
+const dbc = (v: number | null) => (v === null ? 'none (below −100 dBc)' : `${shopFormat().number(v, 1)} dBc`);
 
 export default function ModelPage() {
   const modelId = Number(useParams().modelId);
@@ -49,7 +49,6 @@ export default function ModelPage() {
     <>
       <PageHeader title={m.name}>
         <Link to={paths.shop} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">All pedals</Link>
-        <Link to={paths.cart} className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold">Cart</Link>
       </PageHeader>
       <div className={`mb-6 grid gap-6 ${m.photoUrl ? 'md:grid-cols-[2fr_3fr]' : ''}`}>
         {m.photoUrl ? <img src={m.photoUrl} alt={`${m.name} pedal`} className="w-full rounded-lg object-cover" /> : null}
@@ -113,7 +112,6 @@ export default function ModelPage() {
               <input type="number" min={1} max={MAX_PER_LINE} value={quantity} onChange={(e) => setQuantity(Math.max(1, Math.min(MAX_PER_LINE, Number(e.target.value) || 1)))} className="min-h-11 w-24 rounded-md border border-spruce-700/40 bg-white px-3" />
             </label>
             <Button type="submit" disabled={!selected}>{selected ? `Add ${m.name} with ${selected.name} to cart` : 'Choose an option to add it to the cart'}</Button>
-            <Link to={paths.cart} className="inline-flex min-h-11 items-center font-semibold text-copper-700 underline">Go to the cart</Link>
           </div>
         </form>
       )}

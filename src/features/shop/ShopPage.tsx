@@ -1,23 +1,16 @@
 import { Link } from 'react-router';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useFormatters } from '../../lib/format';
-import { paths, shopModelPath } from '../../lib/navigation';
+import { shopModelPath } from '../../lib/navigation';
 import { useShopModels } from './api';
-import { useCart } from './cart';
 import { PedalSketch } from './PedalSketch';
 
 export default function ShopPage() {
   const models = useShopModels();
   const { money } = useFormatters();
-  const lines = useCart();
-  const count = lines.reduce((n, l) => n + l.quantity, 0);
   return (
     <>
-      <PageHeader title="Pedals">
-        <Link to={paths.cart} className="inline-flex min-h-11 items-center rounded-md border border-spruce-700/40 bg-white px-4 font-semibold text-ink">
-          Cart{count > 0 ? ` (${count})` : ''}
-        </Link>
-      </PageHeader>
+      <PageHeader title="Pedals" />
       <p className="mb-6 max-w-3xl text-ink-soft">
         Each pedal is built by hand to order. Choose its clipping option — the diodes that shape the sound — after comparing how each one distorts.
       </p>

@@ -1,3 +1,4 @@
+import { shopFormat } from '../../lib/format';
 import type { OptionProfile } from './profiles';
 import { dbcOf } from './profiles';
 
@@ -32,7 +33,7 @@ export function HarmonicBars({ profiles }: { profiles: OptionProfile[] }) {
             const top = y(db);
             return (
               <rect key={p.option.id} x={left + gi * groupW + 6 + i * barW} y={top} width={barW - 2} height={Math.max(0, 10 + plotH - top)} fill={OPTION_COLOURS[profiles.indexOf(p) % OPTION_COLOURS.length]}>
-                <title>{`${p.option.name}: H${order} ${db.toFixed(1)} dBc`}</title>
+                <title>{`${p.option.name}: H${order} ${shopFormat().number(db, 1)} dBc`}</title>
               </rect>
             );
           })}

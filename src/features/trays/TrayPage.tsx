@@ -1,4 +1,5 @@
 import type { ColumnDef } from '@tanstack/react-table';
+import { shopFormat } from '../../lib/format';
 import { useMemo, useRef, useState, type KeyboardEvent } from 'react';
 import { useParams } from 'react-router';
 import { parseReadings, TRAY_MAX_SLOTS, type TrayStats } from '../../../shared/production/trays';
@@ -9,8 +10,8 @@ import { useToast } from '../../components/ui/toast';
 import { useFormatters } from '../../lib/format';
 import { useImportTrayCsv, useSaveTrayReadings, useTray, type TrayDetail, type TraySlot } from './api';
 
-const mv = (v: number) => `${(v * 1000).toFixed(1)} mV`;
-const volts = (v: number | null) => (v === null ? '—' : `${v.toFixed(4)} V`);
+const mv = (v: number) => `${shopFormat().number(v * 1000, 1)} mV`;
+const volts = (v: number | null) => (v === null ? '—' : `${shopFormat().number(v, 4)} V`);
 const FLAG_WORDS = { range: 'outside the device’s range', distribution: 'far from this tray' } as const;
 
 /** The tray's readings as bars; the figure's label says the same in words for screen readers. */
@@ -19,10 +20,10 @@ function Histogram({ stats }: { stats: TrayStats }) {
   const top = Math.max(...stats.histogram.map((b) => b.count));
   return (
     <figure className="grid gap-2">
-      <div role="img" aria-label={`Histogram of ${stats.count} readings from ${volts(stats.minV)} to ${volts(stats.maxV)}, most in ${(() => { const b = stats.histogram.find((x) => x.count === top)!; return `${b.fromV.toFixed(4)}–${b.toV.toFixed(4)} V`; })()}`}
+      <div role="img" aria-label={`Histogram of ${stats.count} readings from ${volts(stats.minV)} to ${volts(stats.maxV)}, most in ${(() => { const b = stats.histogram.find((x) => x.count === top)!; return `${shopFormat().number(b.fromV, 4)}–${shopFormat().number(b.toV, 4)} V`; })()}`}
         className="flex h-32 items-end gap-1 border-b border-spruce-700/40">
         {stats.histogram.map((b) => (
-          <div key={b.fromV} title={`${b.fromV.toFixed(4)}–${b.toV.toFixed(4)} V: ${b.count}`} className="flex-1 rounded-t bg-spruce-700" style={{ height: `${(b.count / top) * 100}%` }} />
+          <div key={b.fromV} title={`${shopFormat().number(b.fromV, 4)}–${shopFormat().number(b.toV, 4)} V: ${b.count}`} className="flex-1 rounded-t bg-spruce-700" style={{ height: `${(b.count / top) * 100}%` }} />
         ))}
       </div>
       <figcaption className="flex justify-between font-mono text-sm text-ink-soft"><span>{volts(stats.minV)}</span><span>{volts(stats.maxV)}</span></figcaption>
@@ -44,7 +45,7 @@ function StatsPanel({ detail }: { detail: TrayDetail }) {
             <div><dt className="text-sm text-ink-soft">σ</dt><dd className="font-mono text-lg">{stats.sigmaV === null ? '—' : mv(stats.sigmaV)}</dd></div>
             <div><dt className="text-sm text-ink-soft">Median</dt><dd className="font-mono text-lg">{volts(stats.medianV)}</dd></div>
             <div><dt className="text-sm text-ink-soft">Model’s nominal at {tray.testCurrentMa} mA</dt><dd className="font-mono text-lg">{volts(stats.nominal.vf)}</dd></div>
-            <div><dt className="text-sm text-ink-soft">Expected for {tray.kind}</dt><dd className="font-mono text-lg">{stats.range.min.toFixed(2)}–{stats.range.max.toFixed(2)} V</dd></div>
+            <div><dt className="text-sm text-ink-soft">Expected for {tray.kind}</dt><dd className="font-mono text-lg">{shopFormat().number(stats.range.min, 2)}–{shopFormat().number(stats.range.max, 2)} V</dd></div>
           </dl>
           <Histogram stats={stats} />
           {stats.nominal.shifted && stats.nominal.offsetV !== null ? (
@@ -75,7 +76,7 @@ function SlotEntry({ detail }: { detail: TrayDetail }) {
     if (problems.length || readings.length !== 1) { setError(problems[0]?.replace(/^line 1: /, '') ?? 'Enter one reading, e.g. 0.5981 or 598.1 mV'); return; }
     setError(null);
     save.mutate({ readings }, {
-      onSuccess: () => { setSaid(`${label} saved: ${readings[0].vf.toFixed(4)} V`); setValue(''); setSlot((s) => Math.min(TRAY_MAX_SLOTS, s + 1)); input.current?.focus(); },
+      onSuccess: () => { setSaid(`${label} saved: ${shopFormat().number(readings[0].vf, 4)} V`); setValue(''); setSlot((s) => Math.min(TRAY_MAX_SLOTS, s + 1)); input.current?.focus(); },
       onError: (e) => setError(e.message),
     });
   };
@@ -156,8 +157,8 @@ export default function TrayPage() {
   const median = tray.data?.stats.medianV ?? null;
   const columns = useMemo<ColumnDef<TraySlot, unknown>[]>(() => [
     { accessorKey: 'slot', header: 'Slot', cell: ({ row }) => <span className="font-mono">{row.original.label}</span> },
-    { accessorKey: 'vf', header: 'Vf', cell: ({ row }) => <span className="font-mono">{row.original.vf.toFixed(4)} V</span> },
-    { id: 'offset', header: 'From median', enableSorting: false, cell: ({ row }) => (median === null ? '—' : <span className="font-mono">{((row.original.vf - median) * 1000).toFixed(1)} mV</span>) },
+    { accessorKey: 'vf', header: 'Vf', cell: ({ row }) => <span className="font-mono">{shopFormat().number(row.original.vf, 4)} V</span> },
+    { id: 'offset', header: 'From median', enableSorting: false, cell: ({ row }) => (median === null ? '—' : <span className="font-mono">{shopFormat().number((row.original.vf - median) * 1000, 1)} mV</span>) },
     { id: 'flags', header: 'Flag', enableSorting: false, cell: ({ row }) => (row.original.flags.length ? <strong className="text-alarm-700">{row.original.flags.map((f) => FLAG_WORDS[f]).join('; ')}</strong> : 'OK') },
     { id: 'unit', header: 'In unit', enableSorting: false, cell: ({ row }) => (row.original.unit ? `${row.original.unit.serial} (${row.original.unit.side})` : 'free') },
   ], [median]);

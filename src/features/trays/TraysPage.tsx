@@ -1,4 +1,5 @@
 import { zodResolver } from '@hookform/resolvers/zod';
+import { shopFormat } from '../../lib/format';
 import type { ColumnDef } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
@@ -59,7 +60,7 @@ export default function TraysPage() {
     { id: 'receivedOn', accessorKey: 'receivedOn', header: 'Received', cell: ({ row }) => fmt.date(row.original.receivedOn) },
     { accessorKey: 'slots', header: 'Measured', enableSorting: false },
     { accessorKey: 'free', header: 'Free', enableSorting: false },
-    { accessorKey: 'meanVf', header: 'Mean Vf', enableSorting: false, cell: ({ row }) => (row.original.meanVf === null ? '—' : `${row.original.meanVf.toFixed(4)} V`) },
+    { accessorKey: 'meanVf', header: 'Mean Vf', enableSorting: false, cell: ({ row }) => (row.original.meanVf === null ? '—' : `${shopFormat().number(row.original.meanVf, 4)} V`) },
   ], [fmt]);
   return (
     <>

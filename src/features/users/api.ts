@@ -30,10 +30,26 @@ export function useCreateUser() {
   });
 }
 
+/** A role change the owner can still undo (for `undoSeconds` after it was made). */
+export interface RoleChange {
+  id: number;
+  from: Role;
+  to: Role;
+  undoSeconds: number;
+}
+
 export function useUpdateUser() {
   const client = useQueryClient();
   return useMutation({
-    mutationFn: ({ id, ...input }: UpdateUserInput & { id: number }) => api.patch<{ user: UserRow }>(`/api/users/${id}`, input),
+    mutationFn: ({ id, ...input }: UpdateUserInput & { id: number }) => api.patch<{ user: UserRow; roleChange: RoleChange | null }>(`/api/users/${id}`, input),
+    onSuccess: () => client.invalidateQueries({ queryKey: userKeys.lists() }),
+  });
+}
+
+export function useUndoRoleChange() {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (changeId: number) => api.post<{ user: UserRow }>(`/api/role-changes/${changeId}/undo`, {}),
     onSuccess: () => client.invalidateQueries({ queryKey: userKeys.lists() }),
   });
 }

@@ -74,7 +74,7 @@ function driveBoard(v: BoardValues): DemoBomLine[] {
     ['HW-STANDOFF', 2],
     ['HW-BAT-CLIP', 1],
     ['W-HOOKUP-24', 12, 'off-board wiring, 10 cm pieces'],
-    ['PK-BOX-125', 1],
+    ['PK-BOX-122', 1],
     ...(v.extraLines ?? []),
   ];
 }
@@ -146,10 +146,10 @@ export const DEMO_MODELS: DemoModel[] = [
     revisions: [
       { label: 'First run', notes: 'Original board; tone cap 22 nF.', frozen: true,
         drive: { drive_min_gain: 1, drive_max_gain: 120, drive_taper: 'audio', input_peak_v: 0.1, supply_v: 9, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-SMD-1', opamp: 'IC-4558', gainGround: '4K7', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-125B' }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-SMD-1', opamp: 'IC-4558', gainGround: '4K7', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-122X66' }), steps: steps() },
       { label: 'Quieter board', notes: 'New ground plane, JFET-input op-amp, level trim.', frozen: false,
         drive: { drive_min_gain: 1, drive_max_gain: 150, drive_taper: 'audio', input_peak_v: 0.1, supply_v: 9, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-SMD-2', opamp: 'IC-TL072', gainGround: '4K7', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-125B', extraLines: [['TRIM-B100K', 'VR4', 'output level trim, set at final check']] }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-SMD-2', opamp: 'IC-TL072', gainGround: '4K7', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-122X66', extraLines: [['TRIM-B100K', 'VR4', 'output level trim, set at final check']] }), steps: steps() },
     ],
     options: [
       { code: 'SI2', name: 'Silicon pair', description: 'Two small-signal silicon diodes, one each way: tight and even, odd harmonics first.', topology: 'shunt', network: SHUNT, positive: ['si-small-signal'], negative: ['si-small-signal'], surcharge: 0, published: true },
@@ -165,10 +165,10 @@ export const DEMO_MODELS: DemoModel[] = [
     revisions: [
       { label: 'Nine-volt board', notes: 'Ran from 9 V only.', frozen: true,
         drive: { drive_min_gain: 1, drive_max_gain: 40, drive_taper: 'audio', input_peak_v: 0.15, supply_v: 9, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-LFO-1', opamp: 'IC-4558', gainGround: '4K7', feedback: '100K', drivePot: 'POT-A100K-16', tonePot: 'POT-B10K-16', enclosure: 'ENC-125B' }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-LFO-1', opamp: 'IC-4558', gainGround: '4K7', feedback: '100K', drivePot: 'POT-A100K-16', tonePot: 'POT-B10K-16', enclosure: 'ENC-122X66' }), steps: steps() },
       { label: 'Eighteen-volt board', notes: 'On-board voltage doubler removed; accepts 9–18 V, specified at 18 V.', frozen: false,
         drive: { drive_min_gain: 1, drive_max_gain: 50, drive_taper: 'audio', input_peak_v: 0.15, supply_v: 18, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-LFO-2', opamp: 'IC-TL072', gainGround: '4K7', feedback: '100K', drivePot: 'POT-A100K-16', tonePot: 'POT-B10K-16', enclosure: 'ENC-125B', extraLines: [['Q-BS170', 'Q2', 'relay bypass driver'], ['SW-SPDT-MINI', 'SW2', 'bright switch']] }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-LFO-2', opamp: 'IC-TL072', gainGround: '4K7', feedback: '100K', drivePot: 'POT-A100K-16', tonePot: 'POT-B10K-16', enclosure: 'ENC-122X66', extraLines: [['Q-BS170', 'Q2', 'relay bypass driver'], ['SW-SPDT-MINI', 'SW2', 'bright switch']] }), steps: steps() },
     ],
     options: [
       { code: 'SI2', name: 'Silicon pair', description: 'Silicon diodes across the feedback resistor: smooth, mid-forward break-up.', topology: 'feedback', network: FEEDBACK, positive: ['si-small-signal'], negative: ['si-small-signal'], surcharge: 0, published: true },
@@ -185,10 +185,10 @@ export const DEMO_MODELS: DemoModel[] = [
     revisions: [
       { label: 'Prototype run', notes: 'Rectifier clipper only.', frozen: true,
         drive: { drive_min_gain: 5, drive_max_gain: 400, drive_taper: 'audio', input_peak_v: 0.1, supply_v: 9, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-CPD-1', opamp: 'IC-4558', gainGround: '1K', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-1590BB' }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-CPD-1', opamp: 'IC-4558', gainGround: '1K', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-119X94' }), steps: steps() },
       { label: 'Wider drive', notes: 'Second gain stage trimmed in; 78L05 for the status logic.', frozen: false,
         drive: { drive_min_gain: 5, drive_max_gain: 500, drive_taper: 'audio', input_peak_v: 0.1, supply_v: 9, reference_drive: 0.5 },
-        bom: driveBoard({ pcb: 'PCB-CPD-2', opamp: 'IC-TL072', gainGround: '1K', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-1590BB', extraLines: [['IC-78L05', 'U2'], ['Q-J201', 'Q3', 'mute switch'], ['C-10U-EL', 'C15', 'regulator output']] }), steps: steps() },
+        bom: driveBoard({ pcb: 'PCB-CPD-2', opamp: 'IC-TL072', gainGround: '1K', feedback: '470K', drivePot: 'POT-A500K-16', tonePot: 'POT-B25K-16', enclosure: 'ENC-119X94', extraLines: [['IC-78L05', 'U2'], ['Q-J201', 'Q3', 'mute switch'], ['C-10U-EL', 'C15', 'regulator output']] }), steps: steps() },
     ],
     options: [
       { code: 'RECT2', name: 'Rectifier pair', description: 'Silicon rectifiers: the hardest, most compressed clip.', topology: 'shunt', network: SHUNT, positive: ['si-rectifier'], negative: ['si-rectifier'], surcharge: 0, published: true },
