@@ -27,7 +27,7 @@ const KEYS = [
   'shipping', 'contract', 'circuit', 'drive', 'page', 'pageSize', 'sort', 'dir', 'state', 'status', 'token',
   'shopName', 'shopEmail', 'shopAddress', 'vatId', 'publicUrl', 'serialPrefix', 'orderNumberPrefix', 'timeZone', 'locale',
   'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
-  'thdTolerancePercent', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',
+  'thdTolerancePercent', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country', 'confirmFast',
   'deviceId', 'supplierLot', 'receivedOn', 'notes', 'firstSlot', 'trayIds', 'units', 'slots', 'slot', 'vf', 'slotId', 'optionDeviceId',
 ];
 const QUERY_KEYS = ['deviceId', 'q', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];
