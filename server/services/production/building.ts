@@ -170,7 +170,7 @@ export async function finishStep(knex: Knex, user: SessionUser, unitId: number, 
     const percent = fastStepPercent(await getSettings(trx));
     const fast = isFastStep(progress.elapsed, step.standard_minutes, percent);
     if (fast && !input.confirmFast) {
-      throw new DomainError(409, 'fast_step', `“${step.title}” took ${progress.elapsed} min, under ${percent} % of its standard ${step.standard_minutes} min: confirm it is really finished`);
+      throw new DomainError(409, 'fast_step', `“${step.title}” took ${progress.elapsed < 1 ? 'under a minute' : `${progress.elapsed} min`}, under ${percent} % of its standard ${step.standard_minutes} min: confirm it is really finished`);
     }
     const [row] = await trx('unit_steps').where({ id: progress.id }).update({ finished_at: trx.fn.now(), actual_minutes: progress.elapsed }).returning('actual_minutes');
     const confirmed = fast ? '; confirmed as finished although far under the standard time' : '';
