@@ -1,10 +1,7 @@
 // Rules of the bench tablet that the server enforces and the client explains, in one place.
 
-/** Used until the shop's settings row carries `fast_step_percent`. */
-export const DEFAULT_FAST_STEP_PERCENT = 25;
-
 /**
- * A step finished in under `percent` % of its standard minutes is "far faster" than usual and asks
+ * A step finished in under `percent` % (the shop's `fast_step_percent` setting) of its standard minutes is "far faster" than usual and asks
  * the assembler to confirm (a mis-tap, or a step skipped). E.g. 2 min against a standard of 10 min
  * at 25 % is fast; 3 min is not.
  */

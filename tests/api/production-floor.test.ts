@@ -145,20 +145,22 @@ describe('the bench tablet’s step rules', () => {
   });
 
   it('follows the threshold in the shop’s settings', async () => {
-    const hasSetting = await t.knex.schema.hasColumn('settings', 'fast_step_percent');
-    const before = hasSetting ? (await t.knex('settings').where({ id: 1 }).first()).fast_step_percent : null;
+    const before = (await t.knex('settings').where({ id: 1 }).first()).fast_step_percent;
     try {
-      if (hasSetting) await t.knex('settings').where({ id: 1 }).update({ fast_step_percent: 50 });
+      await t.knex('settings').where({ id: 1 }).update({ fast_step_percent: 50 });
       const { c, unit } = await junoUnit();
       const [populate] = c.steps;
       await post(juno, `/api/units/${unit.id}/steps/${populate}/start`).expect(200);
       await startedMinutesAgo(unit.id, populate, 20); // a third of 60 min: fast at 50 %, not at the default 25 %
       const res = await post(juno, `/api/units/${unit.id}/steps/${populate}/finish`);
-      expect(res.status).toBe(hasSetting ? 409 : 200);
-      const detail = await juno.get(`/api/units/${unit.id}`).expect(200);
-      expect(detail.body.fastStepPercent).toBe(hasSetting ? 50 : 25);
+      expect(res.status).toBe(409);
+      expect(res.body.error.message).toMatch(/took 20 min, under 50 % of its standard 60 min/);
+      expect((await juno.get(`/api/units/${unit.id}`).expect(200)).body.fastStepPercent).toBe(50);
+      // 0 % turns the question off.
+      await t.knex('settings').where({ id: 1 }).update({ fast_step_percent: 0 });
+      await post(juno, `/api/units/${unit.id}/steps/${populate}/finish`).expect(200);
     } finally {
-      if (hasSetting) await t.knex('settings').where({ id: 1 }).update({ fast_step_percent: before });
+      await t.knex('settings').where({ id: 1 }).update({ fast_step_percent: before });
     }
   });
 

@@ -1,7 +1,7 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
 import type { DeviceReadingsInput, FinishStepInput, PartLotsInput, ReopenStepInput } from '../../../shared/schemas/production';
-import { DEFAULT_FAST_STEP_PERCENT, isFastStep, lateReason, shopDate } from '../../../shared/production/bench-rules';
+import { isFastStep, lateReason, shopDate } from '../../../shared/production/bench-rules';
 import { isVfOutOfRange, vfRange } from '../../../shared/production/forward-voltage';
 import { PHOTO_TYPES } from '../../../shared/schemas/catalog';
 import { conflict, DomainError, forbidden, invalid, notFound } from '../../errors';
@@ -22,12 +22,6 @@ export function assertMayView(user: SessionUser, unit: { assembler_id: number | 
 
 function assertBuilder(user: SessionUser, unit: { assembler_id: number | null; serial: string }) {
   if (unit.assembler_id !== user.id) throw forbidden(`Unit ${unit.serial} is not assigned to you`);
-}
-
-/** The shop's threshold for a "far faster than standard" step finish, in % of the standard minutes. */
-export function fastStepPercent(settings: ShopSettings) {
-  const value = (settings as ShopSettings & { fast_step_percent?: number | null }).fast_step_percent;
-  return typeof value === 'number' ? value : DEFAULT_FAST_STEP_PERCENT;
 }
 
 /** Why an open build is late today (its planned day or its order's due date has passed), or null. */
@@ -100,7 +94,7 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
       late: open ? buildLateReason({ planned_date: unit.planned_date, due_at: order?.due_at ?? null }, settings, shopDate(new Date(), settings.time_zone)) : null,
     },
     testCurrentMa: settings.vf_test_current_ma,
-    fastStepPercent: fastStepPercent(settings),
+    fastStepPercent: settings.fast_step_percent,
     thdTolerancePercent: settings.thd_tolerance_percent,
     steps: steps.map((s) => ({
       id: s.id, position: s.position, title: s.title, instructions: s.instructions, standardMinutes: s.standard_minutes, skill: s.skill,
@@ -167,7 +161,7 @@ export async function finishStep(knex: Knex, user: SessionUser, unitId: number, 
     if (!progress) throw conflict('Start this step before finishing it');
     if (progress.finished_at) throw conflict('This step is already finished');
     const step = await trx('build_steps').where({ id: stepId }).first();
-    const percent = fastStepPercent(await getSettings(trx));
+    const percent = (await getSettings(trx)).fast_step_percent;
     const fast = isFastStep(progress.elapsed, step.standard_minutes, percent);
     if (fast && !input.confirmFast) {
       throw new DomainError(409, 'fast_step', `“${step.title}” took ${progress.elapsed < 1 ? 'under a minute' : `${progress.elapsed} min`}, under ${percent} % of its standard ${step.standard_minutes} min: confirm it is really finished`);
