@@ -166,7 +166,7 @@ describe('the bench tablet', () => {
       await row.getByText('2026-01-05').waitFor();
       await shot(page, `my-builds-${size.name}`);
 
-      // A scanner types fast and ends with Enter: with no field focused, the unit opens.
+      // A scanner types the label and ends with Enter: with no field focused, the unit opens.
       await page.locator('body').click({ position: { x: 5, y: size.viewport.height - 5 } });
       await page.keyboard.type(unit.serial, { delay: 5 });
       await page.keyboard.press('Enter');

@@ -1,13 +1,17 @@
 import { useEffect, useRef } from 'react';
 
-/** Keystrokes closer together than this come from a scanner, not a hand (people type ~100–300 ms apart). */
-export const SCAN_GAP_MS = 50;
+/**
+ * A pause longer than this between keystrokes starts a new entry. A scanner types a whole label
+ * in a few tens of milliseconds; the generous limit keeps a slow tablet (or a person typing on
+ * the page) from splitting one serial in two.
+ */
+export const PAUSE_MS = 1000;
 const MIN_LENGTH = 4;
 
 /**
- * Hands over what a barcode scanner "types" anywhere on the page: a burst of keystrokes, each
- * within SCAN_GAP_MS of the last, ending with Enter. Keys typed into another field are left
- * alone, so a scan never lands in a form the user is filling in.
+ * Hands over what a barcode scanner "types" anywhere on the page: a run of keystrokes ending with
+ * Enter. Keys typed into another field are left alone, so a scan never lands in a form the user
+ * is filling in.
  */
 export function useScanner(onScan: (text: string) => void) {
   const latest = useRef(onScan);
@@ -19,7 +23,7 @@ export function useScanner(onScan: (text: string) => void) {
       const target = e.target as HTMLElement | null;
       if (target && (target.isContentEditable || ['INPUT', 'TEXTAREA', 'SELECT'].includes(target.tagName))) return;
       const now = performance.now();
-      if (now - last > SCAN_GAP_MS) buffer = '';
+      if (now - last > PAUSE_MS) buffer = '';
       last = now;
       if (e.key === 'Enter') {
         if (buffer.length >= MIN_LENGTH) {
