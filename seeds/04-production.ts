@@ -57,7 +57,7 @@ export async function seed(knex: Knex): Promise<void> {
     const who = asUser(await knex('users').where({ id: unit.assembler_id }).first());
     for (const step of steps) {
       await startStep(knex, who, unit.id, step.id);
-      await finishStep(knex, who, unit.id, step.id);
+      await finishStep(knex, who, unit.id, step.id, { confirmFast: true });
       // Spread the demo's step times around the standard so actual vs standard shows something.
       await knex('unit_steps').where({ unit_id: unit.id, step_id: step.id })
         .update({ started_at: knex.raw(`finished_at - make_interval(mins => ?)`, [Math.round(step.standard_minutes * (0.9 + 0.05 * (offsetMv % 5)))]), actual_minutes: Math.round(step.standard_minutes * (0.9 + 0.05 * (offsetMv % 5))) });

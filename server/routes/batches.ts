@@ -1,12 +1,12 @@
 import type { Knex } from 'knex';
 import { PLANNING } from '../../shared/roles';
 import type { Config } from '../config';
-import { applyAssignmentsSchema, batchListSchema, cancelSchema, candidateLinesSchema, createBatchSchema, proposePlanSchema, releaseBatchSchema } from '../../shared/schemas/production';
+import { addBatchLinesSchema, applyAssignmentsSchema, batchListSchema, cancelSchema, candidateLinesSchema, createBatchSchema, proposePlanSchema, releaseBatchSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
 import { pathId } from '../http/params';
 import { currentUser, type RouteDef } from '../http/route-table';
 import { applyAssignments, proposeBatchPlan } from '../services/production/assignment';
-import { createBatch, getBatch, listBatches, planningCandidates, purchaseListCsv } from '../services/production/planning';
+import { addBatchLines, createBatch, getBatch, removeBatchLine, listBatches, planningCandidates, purchaseListCsv } from '../services/production/planning';
 import { cancelBatch, releaseBatch } from '../services/production/release';
 import { kitBatch, reserveForBatch } from '../services/production/stock';
 
@@ -27,6 +27,18 @@ export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl' | 'RELE
         const { filename, csv } = await purchaseListCsv(knex, batchId(req));
         res.type('text/csv').attachment(filename).send(csv);
       },
+    },
+    {
+      // A batch being planned takes more order lines or stock builds (409 once released).
+      method: 'post', path: '/api/batches/:id/lines', allow: PLANNING,
+      handler: async (req, res) => {
+        const id = batchId(req);
+        res.status(201).json(await addBatchLines(knex, id, parseWith(addBatchLinesSchema, req.body)));
+      },
+    },
+    {
+      method: 'delete', path: '/api/batches/:id/lines/:lineId', allow: PLANNING,
+      handler: async (req, res) => res.json(await removeBatchLine(knex, batchId(req), pathId(req, 'lineId', 'batch line'))),
     },
     {
       method: 'post', path: '/api/batches/:id/release', allow: PLANNING,

@@ -1,12 +1,12 @@
 import type { Knex } from 'knex';
 import { ASSEMBLY, BENCH, PLANNING, STAFF, TESTING } from '../../shared/roles';
 import type { Config } from '../config';
-import { benchListSchema, buildListSchema, benchTestSchema, CAPTURE_LIMITS, captureAnalyseSchema, cancelSchema, deviceReadingsSchema, partLotsSchema } from '../../shared/schemas/production';
+import { benchListSchema, buildListSchema, benchTestSchema, CAPTURE_LIMITS, captureAnalyseSchema, cancelSchema, deviceReadingsSchema, finishStepSchema, partLotsSchema, reopenStepSchema } from '../../shared/schemas/production';
 import { parseWith } from '../errors';
-import { pathId } from '../http/params';
+import { pathId, pathSerial } from '../http/params';
 import { singleUpload } from '../http/upload';
 import { currentUser, type RouteDef } from '../http/route-table';
-import { addPhoto, finishStep, getPhoto, getUnit, markBuilt, myBuilds, recordLots, recordReadings, startStep } from '../services/production/building';
+import { addPhoto, finishStep, getPhoto, getUnit, markBuilt, myBuilds, recordLots, recordReadings, reopenStep, startStep, unitBySerial } from '../services/production/building';
 import { cancelUnit } from '../services/production/stock';
 import { analyseCaptureUpload, benchQueue, recordTest } from '../services/production/testing';
 
@@ -23,8 +23,21 @@ export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): Route
     },
     {
       method: 'post', path: '/api/units/:id/steps/:stepId/finish', allow: ASSEMBLY,
-      handler: async (req, res) => res.json(await finishStep(knex, currentUser(req), pathId(req, 'id', 'unit'), pathId(req, 'stepId', 'step'))),
+      handler: async (req, res) => {
+        const [id, stepId] = [pathId(req, 'id', 'unit'), pathId(req, 'stepId', 'step')];
+        // A finish far under the standard time is a 409 with code `fast_step` until confirmed.
+        res.json(await finishStep(knex, currentUser(req), id, stepId, parseWith(finishStepSchema, req.body ?? {})));
+      },
     },
+    {
+      method: 'post', path: '/api/units/:id/steps/:stepId/reopen', allow: ASSEMBLY,
+      handler: async (req, res) => {
+        const [id, stepId] = [pathId(req, 'id', 'unit'), pathId(req, 'stepId', 'step')];
+        res.json(await reopenStep(knex, currentUser(req), id, stepId, parseWith(reopenStepSchema, req.body)));
+      },
+    },
+    // A typed or scanned serial opens its unit (an assembler only their own).
+    { method: 'get', path: '/api/serials/:serial', allow: STAFF, handler: async (req, res) => res.json(await unitBySerial(knex, currentUser(req), pathSerial(req))) },
     {
       method: 'put', path: '/api/units/:id/devices', allow: ASSEMBLY,
       handler: async (req, res) => {

@@ -8,16 +8,25 @@ import { BATCH_STATES } from '../production/states';
 const id = idOf('Pick one');
 const isoDate = dateSchema('2026-12-07');
 
+const orderLineIds = z.array(id).max(500, 'At most 500 order lines').default([]);
+const stockBuilds = z
+  .array(z.object({ optionId: id, quantity: z.coerce.number().int('Whole units only').min(1, 'At least 1').max(500, 'At most 500') }))
+  .max(20)
+  .default([]);
+const somethingToBuild = { message: 'Pull in at least one order line or add a stock build', path: ['orderLineIds'] };
+
 export const createBatchSchema = z.object({
   revisionId: id,
-  orderLineIds: z.array(id).max(500, 'At most 500 order lines').default([]),
-  stockBuilds: z
-    .array(z.object({ optionId: id, quantity: z.coerce.number().int('Whole units only').min(1, 'At least 1').max(500, 'At most 500') }))
-    .max(20)
-    .default([]),
+  orderLineIds,
+  stockBuilds,
   notes: str().trim().max(2000).default(''),
-}).refine((b) => b.orderLineIds.length + b.stockBuilds.length > 0, { message: 'Pull in at least one order line or add a stock build', path: ['orderLineIds'] });
+}).refine((b) => b.orderLineIds.length + b.stockBuilds.length > 0, somethingToBuild);
 export type CreateBatchInput = z.infer<typeof createBatchSchema>;
+
+/** More order lines or stock builds for a batch still being planned. */
+export const addBatchLinesSchema = z.object({ orderLineIds, stockBuilds })
+  .refine((b) => b.orderLineIds.length + b.stockBuilds.length > 0, somethingToBuild);
+export type AddBatchLinesInput = z.infer<typeof addBatchLinesSchema>;
 
 export const releaseBatchSchema = z.object({
   startDate: isoDate.optional(),
@@ -43,6 +52,14 @@ export const assemblerProfileSchema = z.object({
   dailyCapacityMinutes: z.coerce.number().int('Whole minutes').min(0, 'At least 0').max(1440, 'At most 1440 (a whole day)'),
 });
 export type AssemblerProfileInput = z.infer<typeof assemblerProfileSchema>;
+
+/** Finishing a step; `confirmFast` says the assembler confirmed a finish far under the standard time. */
+export const finishStepSchema = z.object({ confirmFast: z.boolean({ error: 'confirmFast is true or false' }).default(false) });
+export type FinishStepInput = z.infer<typeof finishStepSchema>;
+
+/** Reopening a finished step: the reason goes into the unit's history. */
+export const reopenStepSchema = z.object({ reason: str().trim().min(3, 'Say why (at least 3 characters)').max(500) });
+export type ReopenStepInput = z.infer<typeof reopenStepSchema>;
 
 export const deviceReadingsSchema = z.object({
   readings: z

@@ -38,7 +38,7 @@ async function buildUnit(unitId: number, c: Awaited<ReturnType<typeof makeCatalo
   for (const step of c.steps) {
     const started = await t.knex('unit_steps').where({ unit_id: unitId, step_id: step }).first();
     if (!started) await juno.post(`/api/units/${unitId}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
-    await juno.post(`/api/units/${unitId}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    await juno.post(`/api/units/${unitId}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({ confirmFast: true }).expect(200);
   }
   const detail = await juno.get(`/api/units/${unitId}`).expect(200);
   const readings = detail.body.devices.map((d: { optionDeviceId: number; nominalVf: number }) => ({ optionDeviceId: d.optionDeviceId, vf: Number((d.nominalVf + 0.004).toFixed(3)) }));

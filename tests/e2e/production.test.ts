@@ -85,7 +85,10 @@ describe('production in the browser', () => {
       await planner.getByLabel('Reason to release with shortages').fill('demo stock is thin; deliveries due this week');
     }
     await shot(planner, 'batch-plan');
-    await planner.getByRole('button', { name: 'Release batch' }).click();
+    await planner.getByRole('button', { name: 'Release batch…' }).click();
+    // Release asks first and names the customer it will mail.
+    await planner.getByRole('list', { name: 'Customers to be mailed' }).getByText(line.number).waitFor();
+    await planner.getByRole('button', { name: 'Release and mail 1 customer' }).click();
     await toast(planner, /Released: 1 unit created, 1 customer/);
     // A supplier delivery covers whatever the demo stock is short of, before kitting.
     const detail = await t.knex('units').where({ order_id: line.order_id }).first('batch_id');
@@ -115,13 +118,16 @@ describe('production in the browser', () => {
     await shot(juno, 'my-builds');
     await juno.getByRole('link', { name: unit.serial }).click();
     await juno.getByRole('heading', { name: 'Checklist' }).waitFor();
-    // Every soldering step shows the caution, once.
+    // The soldering caution is shown in full once for the build; each soldering step names it.
     const solderingSteps = await t.knex('build_steps').where({ revision_id: revision.id, soldering: true }).count<{ count: number }[]>('* as count');
-    expect(await juno.getByText(SOLDERING_CAUTION, { exact: true }).count()).toBe(Number(solderingSteps[0].count));
+    expect(await juno.getByText(SOLDERING_CAUTION).count()).toBe(1);
+    expect(await juno.getByRole('listitem').filter({ hasText: /Caution:\s*Soldering/ }).count()).toBe(Number(solderingSteps[0].count));
     const steps = await t.knex('build_steps').where({ revision_id: revision.id }).orderBy('position');
     for (const s of steps) {
       await juno.getByRole('button', { name: `Start step ${s.position}`, exact: true }).click();
       await juno.getByRole('button', { name: `Finish step ${s.position}`, exact: true }).click();
+      // Finished within seconds, far under the standard time: the tablet asks first.
+      await juno.getByRole('button', { name: `Yes, step ${s.position} is finished` }).click();
       await toast(juno, new RegExp(`Finished “${s.title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}”`));
     }
     const vfInputs = juno.locator('input[id^="vf-"]');

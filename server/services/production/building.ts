@@ -1,13 +1,14 @@
 import type { Knex } from 'knex';
 import type { SessionUser } from '../../../shared/roles';
-import type { BuildListQuery, DeviceReadingsInput, PartLotsInput } from '../../../shared/schemas/production';
+import type { BuildListQuery, DeviceReadingsInput, FinishStepInput, PartLotsInput, ReopenStepInput } from '../../../shared/schemas/production';
+import { isFastStep, lateReason, shopDate } from '../../../shared/production/bench-rules';
 import { isVfOutOfRange, vfRange } from '../../../shared/production/forward-voltage';
 import { PHOTO_TYPES } from '../../../shared/schemas/catalog';
-import { conflict, forbidden, invalid, notFound } from '../../errors';
+import { conflict, DomainError, forbidden, invalid, notFound } from '../../errors';
 import { containsPattern, paged } from '../../http/paged';
 import { imageTypeOf } from '../image-type';
 import { transitionOrder } from '../orders/transitions';
-import { getSettings } from '../settings';
+import { getSettings, type ShopSettings } from '../settings';
 import { lockUnit, lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { slotLabelsFor } from './matching';
@@ -24,10 +25,17 @@ function assertBuilder(user: SessionUser, unit: { assembler_id: number | null; s
   if (unit.assembler_id !== user.id) throw forbidden(`Unit ${unit.serial} is not assigned to you`);
 }
 
-/** The assembler's queue, in build order. */
+/** Why an open build is late today (its planned day or its order's due date has passed), or null. */
+function buildLateReason(row: { planned_date: Date | string | null; due_at: Date | string | null }, settings: ShopSettings, today: string) {
+  return lateReason({ plannedDate: row.planned_date ? toDate(row.planned_date) : null, dueDate: row.due_at ? shopDate(row.due_at, settings.time_zone) : null }, today);
+}
+
+/** The assembler's queue, in build order, a page at a time, with late builds flagged. */
 const BUILD_SORT: Record<BuildListQuery['sort'], string> = { queue: 'queue_rank', plannedDate: 'u.planned_date', serial: 'u.serial', modelName: 'm.name' };
 
 export async function myBuilds(db: Db, userId: number, params: BuildListQuery) {
+  const settings = await getSettings(db);
+  const today = shopDate(new Date(), settings.time_zone);
   const base = () => {
     const q = db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
       .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id')
@@ -37,17 +45,29 @@ export async function myBuilds(db: Db, userId: number, params: BuildListQuery) {
   };
   return paged(params, {
     count: base(),
-    rows: base().select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name',
-      db.raw('(SELECT COUNT(*)::int FROM build_steps s WHERE s.revision_id = b.revision_id) AS steps'),
-      db.raw('(SELECT COUNT(*)::int FROM unit_steps us WHERE us.unit_id = u.id AND us.finished_at IS NOT NULL) AS steps_done'),
-      // Build order over the whole queue (rework, then on the bench, then by planned day), so pages follow it.
-      db.raw("row_number() OVER (ORDER BY CASE u.state WHEN 'rework' THEN 0 WHEN 'building' THEN 1 ELSE 2 END, u.planned_date, u.queue_position, u.id) AS queue_rank")),
+    rows: base().leftJoin('orders as o', 'o.id', 'u.order_id')
+      .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name', 'o.due_at',
+        db.raw('(SELECT COUNT(*)::int FROM build_steps s WHERE s.revision_id = b.revision_id) AS steps'),
+        db.raw('(SELECT COUNT(*)::int FROM unit_steps us WHERE us.unit_id = u.id AND us.finished_at IS NOT NULL) AS steps_done'),
+        // Build order over the whole queue (rework, then on the bench, then by planned day), so pages follow it.
+        db.raw("row_number() OVER (ORDER BY CASE u.state WHEN 'rework' THEN 0 WHEN 'building' THEN 1 ELSE 2 END, u.planned_date, u.queue_position, u.id) AS queue_rank")),
     sortColumns: BUILD_SORT, tieBreak: 'u.id',
-    map: (r: BuildRowDb) => ({ queueRank: Number(r.queue_rank), id: r.id, serial: r.serial, state: r.state, plannedDate: r.planned_date ? toDate(r.planned_date) : null, kitted: r.kitted_at !== null, modelName: r.model_name, optionName: r.option_name, steps: r.steps, stepsDone: r.steps_done }),
+    map: (r: BuildRowDb) => ({
+      queueRank: Number(r.queue_rank), id: r.id, serial: r.serial, state: r.state, plannedDate: r.planned_date ? toDate(r.planned_date) : null, kitted: r.kitted_at !== null,
+      modelName: r.model_name, optionName: r.option_name, steps: r.steps, stepsDone: r.steps_done, late: buildLateReason(r, settings, today),
+    }),
   });
 }
 
-interface BuildRowDb { queue_rank: string; id: number; serial: string; state: string; planned_date: Date | null; kitted_at: Date | null; model_name: string; option_name: string; steps: number; steps_done: number }
+/** The unit behind a typed or scanned serial (any letter case); an assembler finds only their own builds. */
+export async function unitBySerial(db: Db, user: SessionUser, serial: string) {
+  const unit = await db('units').whereRaw('upper(serial) = upper(?)', [serial]).first('id', 'serial', 'state', 'assembler_id');
+  if (!unit) throw notFound(`No unit has the serial ${serial.toUpperCase()}`);
+  assertMayView(user, unit);
+  return { id: unit.id as number, serial: unit.serial as string, state: unit.state as string };
+}
+
+interface BuildRowDb { queue_rank: string; id: number; serial: string; state: string; planned_date: Date | null; kitted_at: Date | null; model_name: string; option_name: string; steps: number; steps_done: number; due_at: Date | null }
 
 /** Everything the unit page shows: checklist, devices to match, lots, photos, tests and history. */
 export async function getUnit(db: Db, user: SessionUser, unitId: number) {
@@ -78,14 +98,18 @@ export async function getUnit(db: Db, user: SessionUser, unitId: number) {
     .select('e.id', 'e.kind', 'e.from_state', 'e.to_state', 'e.message', 'e.created_at', 'u.name as user_name');
   const assembler = unit.assembler_id ? await db('users').where({ id: unit.assembler_id }).first('name') : null;
   const fromTrays = (await slotLabelsFor(db, [unitId])).get(unitId);
+  const order = unit.order_id ? await db('orders').where({ id: unit.order_id }).first('due_at') : null;
+  const open = ['waiting', 'building', 'rework'].includes(unit.state);
   return {
     unit: {
       id: unit.id, serial: unit.serial, state: unit.state, kitted: unit.kitted_at !== null, plannedDate: unit.planned_date ? toDate(unit.planned_date) : null,
       assemblerId: unit.assembler_id, assemblerName: assembler?.name ?? null, orderId: unit.order_id, predicted: unit.predicted,
       modelName: revision.model_name, revisionNumber: revision.number, optionName: option.name, optionCode: option.code, batchId: batch.id, batchNumber: batch.number,
       referenceDrive: revision.reference_drive, supplyV: revision.supply_v,
+      late: open ? buildLateReason({ planned_date: unit.planned_date, due_at: order?.due_at ?? null }, settings, shopDate(new Date(), settings.time_zone)) : null,
     },
     testCurrentMa: settings.vf_test_current_ma,
+    fastStepPercent: settings.fast_step_percent,
     thdTolerancePercent: settings.thd_tolerance_percent,
     harmonicToleranceDb: settings.harmonic_tolerance_db,
     steps: steps.map((s) => ({
@@ -141,18 +165,41 @@ export async function startStep(knex: Knex, user: SessionUser, unitId: number, s
   });
 }
 
-/** Finishes a started step and keeps its actual minutes beside the standard. */
-export async function finishStep(knex: Knex, user: SessionUser, unitId: number, stepId: number) {
+/**
+ * Finishes a started step and keeps its actual minutes beside the standard. A finish in under the
+ * shop's `fast_step_percent` of the standard minutes is refused (409, code `fast_step`) until the
+ * assembler confirms it; the confirmation goes into the history.
+ */
+export async function finishStep(knex: Knex, user: SessionUser, unitId: number, stepId: number, input: FinishStepInput = { confirmFast: false }) {
+  return knex.transaction(async (trx) => {
+    await ownedUnitForWork(trx, user, unitId);
+    const progress = await trx('unit_steps').where({ unit_id: unitId, step_id: stepId })
+      .select('*', trx.raw('ROUND((EXTRACT(EPOCH FROM (now() - started_at)) / 60.0)::numeric, 1)::float AS elapsed')).forUpdate().first();
+    if (!progress) throw conflict('Start this step before finishing it');
+    if (progress.finished_at) throw conflict('This step is already finished');
+    const step = await trx('build_steps').where({ id: stepId }).first();
+    const percent = (await getSettings(trx)).fast_step_percent;
+    const fast = isFastStep(progress.elapsed, step.standard_minutes, percent);
+    if (fast && !input.confirmFast) {
+      throw new DomainError(409, 'fast_step', `“${step.title}” took ${progress.elapsed < 1 ? 'under a minute' : `${progress.elapsed} min`}, under ${percent} % of its standard ${step.standard_minutes} min: confirm it is really finished`);
+    }
+    const [row] = await trx('unit_steps').where({ id: progress.id }).update({ finished_at: trx.fn.now(), actual_minutes: progress.elapsed }).returning('actual_minutes');
+    const confirmed = fast ? '; confirmed as finished although far under the standard time' : '';
+    await unitEvent(trx, unitId, 'step', `finished “${step.title}” in ${row.actual_minutes} min (standard ${step.standard_minutes} min)${confirmed}`, user.id);
+    return { unitId, stepId, actualMinutes: Number(row.actual_minutes), standardMinutes: step.standard_minutes, confirmedFast: fast };
+  });
+}
+
+/** Reopens a finished step (a mis-tap, or work to redo): it is in progress again from now, and the reason is kept in the history. */
+export async function reopenStep(knex: Knex, user: SessionUser, unitId: number, stepId: number, input: ReopenStepInput) {
   return knex.transaction(async (trx) => {
     await ownedUnitForWork(trx, user, unitId);
     const progress = await trx('unit_steps').where({ unit_id: unitId, step_id: stepId }).forUpdate().first();
-    if (!progress) throw conflict('Start this step before finishing it');
-    if (progress.finished_at) throw conflict('This step is already finished');
-    const [row] = await trx('unit_steps').where({ id: progress.id })
-      .update({ finished_at: trx.fn.now(), actual_minutes: trx.raw('ROUND((EXTRACT(EPOCH FROM (now() - started_at)) / 60.0)::numeric, 1)') }).returning('actual_minutes');
+    if (!progress?.finished_at) throw conflict('Only a finished step can be reopened');
     const step = await trx('build_steps').where({ id: stepId }).first();
-    await unitEvent(trx, unitId, 'step', `finished “${step.title}” in ${row.actual_minutes} min (standard ${step.standard_minutes} min)`, user.id);
-    return { unitId, stepId, actualMinutes: Number(row.actual_minutes), standardMinutes: step.standard_minutes };
+    await trx('unit_steps').where({ id: progress.id }).update({ started_at: trx.fn.now(), finished_at: null, actual_minutes: null, user_id: user.id });
+    await unitEvent(trx, unitId, 'step', `reopened “${step.title}”: ${input.reason}`, user.id);
+    return { unitId, stepId, reopened: true };
   });
 }
 

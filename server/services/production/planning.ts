@@ -1,6 +1,6 @@
 import type { Knex } from 'knex';
 import { stringify } from 'csv-stringify/sync';
-import type { BatchListQuery, CandidateLinesQuery, CreateBatchInput } from '../../../shared/schemas/production';
+import type { AddBatchLinesInput, BatchListQuery, CandidateLinesQuery, CreateBatchInput } from '../../../shared/schemas/production';
 import { containsPattern, paged } from '../../http/paged';
 import { BATCH_STATE_LABELS, BATCH_TRANSITIONS, type BatchState } from '../../../shared/production/states';
 import { batchLabel } from '../../../shared/production/serials';
@@ -49,34 +49,75 @@ export async function planningCandidates(db: Db, params: CandidateLinesQuery) {
 
 interface CandidateLineRow { id: number; model_id: number; option_id: number; quantity: number; description: string; order_number: string; due_at: Date | null; customer_name: string }
 
+/**
+ * Checks order lines and stock builds for a batch of `modelId` and gives the batch_lines rows for
+ * them: every order line paid, of this model and in no other live batch; every option of this model.
+ * Locks the order lines, so two planners cannot pull the same line into two batches.
+ */
+async function checkedLineRows(trx: Knex.Transaction, batchId: number | null, modelId: number, input: AddBatchLinesInput) {
+  const lines = input.orderLineIds.length
+    ? await trx('order_lines as l').join('orders as o', 'o.id', 'l.order_id').whereIn('l.id', input.orderLineIds).forUpdate('l')
+        .select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.batch_id', 'o.state', 'o.number')
+    : [];
+  if (lines.length !== new Set(input.orderLineIds).size) throw invalid('Some order lines do not exist', { orderLineIds: 'Unknown order line' });
+  for (const l of lines) {
+    if (l.model_id !== modelId) throw invalid(`Order ${l.number} is for another model`, { orderLineIds: 'A line is for another model' });
+    if (l.state !== 'paid' || l.batch_id) throw conflict(`Order ${l.number} is not paid and waiting for a batch`);
+  }
+  const taken = input.orderLineIds.length
+    ? await trx('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereIn('bl.order_line_id', input.orderLineIds).whereNot('b.state', 'cancelled').first('b.id')
+    : null;
+  if (taken) throw conflict(taken.id === batchId ? 'That order line is already in this batch' : 'An order line is already in another batch being planned');
+  const optionIds = [...new Set(input.stockBuilds.map((s) => s.optionId))];
+  const options = optionIds.length ? await trx('clipping_options').whereIn('id', optionIds).where({ model_id: modelId }) : [];
+  if (options.length !== optionIds.length) throw invalid('A stock build names an option of another model', { stockBuilds: 'Unknown option for this model' });
+  return [
+    ...lines.map((l) => ({ option_id: l.option_id as number, order_line_id: l.id as number | null, quantity: l.quantity as number })),
+    ...input.stockBuilds.map((s) => ({ option_id: s.optionId, order_line_id: null, quantity: s.quantity })),
+  ];
+}
+
 /** A new batch in planning, pulling the given order lines and stock builds. All or nothing. */
 export async function createBatch(knex: Knex, userId: number, input: CreateBatchInput) {
   return knex.transaction(async (trx) => {
     const revision = await trx('model_revisions').where({ id: input.revisionId }).first();
     if (!revision) throw invalid('Pick a model revision', { revisionId: 'No such revision' });
-    const lines = input.orderLineIds.length
-      ? await trx('order_lines as l').join('orders as o', 'o.id', 'l.order_id').whereIn('l.id', input.orderLineIds).forUpdate('l')
-          .select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.batch_id', 'o.state', 'o.number')
-      : [];
-    if (lines.length !== new Set(input.orderLineIds).size) throw invalid('Some order lines do not exist', { orderLineIds: 'Unknown order line' });
-    for (const l of lines) {
-      if (l.model_id !== revision.model_id) throw invalid(`Order ${l.number} is for another model`, { orderLineIds: 'A line is for another model' });
-      if (l.state !== 'paid' || l.batch_id) throw conflict(`Order ${l.number} is not paid and waiting for a batch`);
-    }
-    const taken = await trx('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereIn('bl.order_line_id', input.orderLineIds).whereNot('b.state', 'cancelled').first();
-    if (taken) throw conflict('An order line is already in another batch being planned');
-    const optionIds = [...new Set(input.stockBuilds.map((s) => s.optionId))];
-    const options = optionIds.length ? await trx('clipping_options').whereIn('id', optionIds).where({ model_id: revision.model_id }) : [];
-    if (options.length !== optionIds.length) throw invalid('A stock build names an option of another model', { stockBuilds: 'Unknown option for this model' });
-
+    const rows = await checkedLineRows(trx, null, revision.model_id, input);
     const [{ nextval }] = (await trx.raw("SELECT nextval('batch_number_seq')::int AS nextval")).rows;
     const [batch] = await trx('batches').insert({ number: nextval, revision_id: revision.id, created_by: userId, notes: input.notes }).returning('*');
-    const rows = [
-      ...lines.map((l) => ({ batch_id: batch.id, option_id: l.option_id, order_line_id: l.id, quantity: l.quantity })),
-      ...input.stockBuilds.map((s) => ({ batch_id: batch.id, option_id: s.optionId, order_line_id: null, quantity: s.quantity })),
-    ];
-    await trx('batch_lines').insert(rows);
+    await trx('batch_lines').insert(rows.map((r) => ({ ...r, batch_id: batch.id })));
     return { id: batch.id as number, number: batch.number as number };
+  });
+}
+
+/** A batch that may still change what it builds: locked (the ledger's lock order starts here) and still being planned, else 409. */
+async function lockDraftBatch(trx: Knex.Transaction, batchId: number) {
+  const batch = await lockBatch(trx, batchId);
+  if (batch.state !== 'draft') throw conflict(`Batch ${batchLabel(batch.number)} is ${BATCH_STATE_LABELS[batch.state as BatchState].toLowerCase()}: only a batch being planned can change what it builds`);
+  return batch;
+}
+
+/** Adds order lines and stock builds to a batch still being planned. All or nothing. */
+export async function addBatchLines(knex: Knex, batchId: number, input: AddBatchLinesInput) {
+  return knex.transaction(async (trx) => {
+    const batch = await lockDraftBatch(trx, batchId);
+    const revision = await trx('model_revisions').where({ id: batch.revision_id }).first('model_id');
+    const rows = await checkedLineRows(trx, batchId, revision.model_id, input);
+    const added = await trx('batch_lines').insert(rows.map((r) => ({ ...r, batch_id: batchId }))).returning('id');
+    return { id: batchId, added: added.length, units: rows.reduce((n, r) => n + r.quantity, 0) };
+  });
+}
+
+/** Takes one line (an order line or a stock build) out of a batch still being planned; the last line cannot go. */
+export async function removeBatchLine(knex: Knex, batchId: number, lineId: number) {
+  return knex.transaction(async (trx) => {
+    const batch = await lockDraftBatch(trx, batchId);
+    const line = await trx('batch_lines').where({ id: lineId, batch_id: batchId }).first();
+    if (!line) throw notFound('No such line in this batch');
+    const others = await trx('batch_lines').where({ batch_id: batchId }).whereNot({ id: lineId }).count({ n: '*' }).first();
+    if (Number(others?.n ?? 0) === 0) throw conflict(`This is the last line of batch ${batchLabel(batch.number)}: add another first, or cancel the batch`);
+    await trx('batch_lines').where({ id: lineId }).delete();
+    return { id: batchId, removed: lineId, units: line.quantity as number };
   });
 }
 
@@ -103,8 +144,9 @@ export async function getBatch(db: Db, batchId: number) {
     .where('b.id', batchId).select('b.*', 'r.number as revision_number', 'r.label as revision_label', 'm.name as model_name', 'm.id as model_id').first();
   if (!batch) throw notFound('No such batch');
   const lines = await db('batch_lines as bl').join('clipping_options as c', 'c.id', 'bl.option_id')
-    .leftJoin('order_lines as ol', 'ol.id', 'bl.order_line_id').leftJoin('orders as o', 'o.id', 'ol.order_id')
-    .where('bl.batch_id', batchId).select('bl.id', 'bl.quantity', 'bl.option_id', 'c.code', 'c.name as option_name', 'o.number as order_number', 'o.due_at')
+    .leftJoin('order_lines as ol', 'ol.id', 'bl.order_line_id').leftJoin('orders as o', 'o.id', 'ol.order_id').leftJoin('users as cu', 'cu.id', 'o.customer_id')
+    .where('bl.batch_id', batchId).select('bl.id', 'bl.quantity', 'bl.option_id', 'c.code', 'c.name as option_name', 'o.number as order_number', 'o.due_at',
+      'o.state as order_state', 'cu.name as customer_name', 'cu.email as customer_email')
     .orderBy('bl.id');
   const units = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id').join('clipping_options as c', 'c.id', 'u.option_id')
     .leftJoin('orders as o', 'o.id', 'u.order_id')
@@ -121,7 +163,9 @@ export async function getBatch(db: Db, batchId: number) {
     },
     // Units made so far by a release (the release job's progress while the batch is 'releasing').
     release: batch.release_total === null ? null : { total: batch.release_total as number, done: batch.release_done as number, error: (batch.release_error as string | null) ?? null },
-    lines: lines.map((l) => ({ id: l.id, quantity: l.quantity, optionId: l.option_id, optionCode: l.code, optionName: l.option_name, orderNumber: l.order_number, dueAt: l.due_at })),
+    lines: lines.map((l) => ({ id: l.id, quantity: l.quantity, optionId: l.option_id, optionCode: l.code, optionName: l.option_name, orderNumber: l.order_number, dueAt: l.due_at, customerName: l.customer_name })),
+    // Who the release mails a ship date: one mail per order still paid and waiting (release.ts, finishRelease).
+    customersToMail: batch.state === 'draft' ? customersToMail(lines) : [],
     units: units.map((u) => ({
       id: u.id, serial: u.serial, sequence: u.sequence, state: u.state, assemblerId: u.assembler_id, assemblerName: u.assembler_name,
       plannedDate: u.planned_date ? toDate(u.planned_date) : null, kitted: u.kitted_at !== null, optionCode: u.option_code, orderNumber: u.order_number, dueAt: u.due_at,
@@ -131,6 +175,16 @@ export async function getBatch(db: Db, batchId: number) {
     requirements,
     earliestStart: earliestStart(requirements),
   };
+}
+
+function customersToMail(lines: { order_number: string | null; order_state: string | null; customer_name: string | null; customer_email: string | null }[]) {
+  const byOrder = new Map<string, { orderNumber: string; name: string; email: string }>();
+  for (const l of lines) {
+    if (l.order_number && l.order_state && ['paid', 'scheduled'].includes(l.order_state)) {
+      byOrder.set(l.order_number, { orderNumber: l.order_number, name: l.customer_name ?? '', email: l.customer_email ?? '' });
+    }
+  }
+  return [...byOrder.values()];
 }
 
 export const toDate = (d: Date | string) => (typeof d === 'string' ? d.slice(0, 10) : new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 10));

@@ -1,4 +1,4 @@
-import { createContext, useCallback, useContext, useState, type ReactNode } from 'react';
+import { createContext, useCallback, useContext, useEffect, useRef, useState, type ReactNode } from 'react';
 
 interface Toast {
   id: number;
@@ -8,27 +8,36 @@ interface Toast {
 
 const ToastContext = createContext<(message: string, tone?: Toast['tone']) => void>(() => {});
 
-/** Says the result of an action in words, in a polite live region. */
+/** How long a message stays, from the last one shown. */
+const SHOW_MS = 5000;
+
+/**
+ * Says the result of an action in words, in a polite live region. One message at a time: a new
+ * one replaces the last (quick taps at the bench never pile messages up), and it sits at the
+ * bottom of the screen, clear of the page's title and its buttons.
+ */
 export function ToastProvider({ children }: { children: ReactNode }) {
-  const [toasts, setToasts] = useState<Toast[]>([]);
+  const [toast, setToast] = useState<Toast | null>(null);
+  const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const show = useCallback((message: string, tone: Toast['tone'] = 'good') => {
-    const id = Date.now() + Math.random();
-    setToasts((list) => [...list, { id, message, tone }]);
-    setTimeout(() => setToasts((list) => list.filter((t) => t.id !== id)), 5000);
+    if (timer.current) clearTimeout(timer.current);
+    setToast({ id: Date.now() + Math.random(), message, tone });
+    timer.current = setTimeout(() => setToast(null), SHOW_MS);
   }, []);
+  useEffect(() => () => { if (timer.current) clearTimeout(timer.current); }, []);
   return (
     <ToastContext.Provider value={show}>
       {children}
-      <div aria-live="polite" className="fixed right-4 bottom-4 z-50 flex flex-col gap-2">
-        {toasts.map((t) => (
+      <div aria-live="polite" className="pointer-events-none fixed inset-x-4 bottom-4 z-50 flex justify-end">
+        {toast ? (
           <div
-            key={t.id}
+            key={toast.id}
             role="status"
-            className={`rounded-md px-4 py-3 font-semibold shadow-lg ${t.tone === 'good' ? 'bg-spruce-900 text-white' : 'bg-alarm-700 text-white'}`}
+            className={`pointer-events-auto max-w-xl rounded-md px-4 py-3 font-semibold shadow-lg ${toast.tone === 'good' ? 'bg-spruce-900 text-white' : 'bg-alarm-700 text-white'}`}
           >
-            {t.message}
+            {toast.message}
           </div>
-        ))}
+        ) : null}
       </div>
     </ToastContext.Provider>
   );

@@ -3,6 +3,7 @@ import { useMemo, useState } from 'react';
 import type { SortDirection } from '../../../shared/schemas/list';
 import type { BenchListQuery } from '../../../shared/schemas/production';
 import { Link } from 'react-router';
+import { SerialBox } from '../../components/serials/SerialBox';
 import { DataTable } from '../../components/ui/DataTable';
 import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui/states';
 import { useFormatters } from '../../lib/format';
@@ -23,6 +24,7 @@ export default function BenchPage() {
     <>
       <PageHeader title="Test bench" />
       <MainsCaution />
+      <SerialBox to={(u) => `/bench/${u.id}`} />
       {queue.isPending ? <Loading /> : queue.isError ? <ErrorState error={queue.error} retry={() => queue.refetch()} />
         : queue.data.total === 0 ? <EmptyState title="No units waiting for test">Built units appear here for their bench test.</EmptyState>
         : <DataTable data={queue.data.items} columns={columns} caption="Units waiting for test" server={{

@@ -65,10 +65,11 @@ export default function UnitBuildPage() {
     <>
       <PageHeader title={`Build ${d.unit.serial}`}><Link to="/builds" className="inline-flex min-h-11 items-center underline">My builds</Link></PageHeader>
       <p className="mb-4 text-lg">{d.unit.modelName} rev. {d.unit.revisionNumber} — {d.unit.optionName} · <strong>{UNIT_STATE_LABELS[d.unit.state]}</strong>{d.unit.plannedDate ? ` · planned for ${d.unit.plannedDate}` : ''}</p>
+      {d.unit.late ? <Notice tone="alarm">Late: {d.unit.late}.</Notice> : null}
       {!d.unit.kitted ? <Notice tone="alarm">This unit’s parts have not been kitted yet: ask the planner.</Notice> : null}
       {d.unit.state === 'rework' && lastFail ? <Notice tone="alarm">Back from the test bench: {lastFail.message}</Notice> : null}
       <div className="mt-6 grid gap-8">
-        <section aria-labelledby="steps-heading"><h2 id="steps-heading" className="mb-3 text-xl font-bold text-spruce-900">Checklist</h2><Checklist unitId={id} steps={d.steps} open={open && d.unit.state !== 'rework'} /></section>
+        <section aria-labelledby="steps-heading"><h2 id="steps-heading" className="mb-3 text-xl font-bold text-spruce-900">Checklist</h2><Checklist unitId={id} steps={d.steps} open={open && d.unit.state !== 'rework'} fastStepPercent={d.fastStepPercent} /></section>
         <section aria-labelledby="vf-heading" className="rounded-lg bg-white p-6 shadow-sm"><h2 id="vf-heading" className="mb-3 text-xl font-bold text-spruce-900">Device matching</h2>
           {open ? <DeviceReadings key={d.devices.map((x) => x.measuredVf).join()} unitId={id} devices={d.devices} testCurrentMa={d.testCurrentMa} /> : <p>Readings are closed for this unit.</p>}
           {d.unit.predicted ? <p className="mt-3">Predicted THD at the reference setting: <strong>{d.unit.predicted.thdPercent.toFixed(2)} %</strong>{d.unit.predicted.fromMeasuredVf ? ' (from this unit’s measured devices)' : ' (nominal devices)'}</p> : null}

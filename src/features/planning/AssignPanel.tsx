@@ -46,8 +46,7 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
   ], [selected, cancelUnit, toast]);
 
   return (
-    <section aria-labelledby="assign-heading" className="grid gap-4 rounded-lg bg-white p-6 shadow-sm">
-      <h2 id="assign-heading" className="text-xl font-bold text-spruce-900">Who builds what, and when</h2>
+    <div className="grid gap-4">
       <div className="flex flex-wrap items-end gap-3">
         <Button variant="secondary" busy={propose.isPending} disabled={!assignable.length} onClick={() => propose.mutate(detail.batch.plannedStart?.slice(0, 10), {
           onSuccess: (p) => { setProposal(p); toast(`Proposed a plan for ${p.builds.length} unit${p.builds.length === 1 ? '' : 's'}${p.unassignable.length ? `; ${p.unassignable.length} need skills nobody has` : ''}`); },
@@ -75,6 +74,6 @@ export function AssignPanel({ detail }: { detail: BatchDetail }) {
         onError: (e) => toast(e.message, 'alarm'),
       })} /> : null}
       <DataTable data={detail.units} columns={columns} caption="Units of this batch" />
-    </section>
+    </div>
   );
 }

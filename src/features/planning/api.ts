@@ -1,5 +1,5 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, CandidateLinesQuery, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
+import type { AddBatchLinesInput, ApplyAssignmentsInput, AssemblerProfileInput, BatchListQuery, CandidateLinesQuery, CreateBatchInput, ReleaseBatchInput } from '../../../shared/schemas/production';
 import { listSearch, type Page } from '../../../shared/schemas/list';
 import type { BatchState, UnitState } from '../../../shared/production/states';
 import type { DayLoad, PlanAssembler, PlanJob, PlannedBuild } from '../../../shared/production/schedule';
@@ -14,8 +14,10 @@ export interface Requirement {
 }
 export interface BatchUnit { id: number; serial: string; sequence: number; state: UnitState; assemblerId: number | null; assemblerName: string | null; plannedDate: string | null; kitted: boolean; optionCode: string; orderNumber: string | null; dueAt: string | null; slots: string[] }
 export interface BatchDetail {
-  batch: { id: number; label: string; state: BatchState; modelName: string; revisionNumber: number; revisionLabel: string; notes: string; shortageOverrideReason: string | null; releasedAt: string | null; plannedStart: string | null };
-  lines: { id: number; quantity: number; optionCode: string; optionName: string; orderNumber: string | null; dueAt: string | null }[];
+  batch: { id: number; label: string; state: BatchState; modelId: number; modelName: string; revisionNumber: number; revisionLabel: string; notes: string; shortageOverrideReason: string | null; releasedAt: string | null; plannedStart: string | null };
+  lines: { id: number; quantity: number; optionId: number; optionCode: string; optionName: string; orderNumber: string | null; dueAt: string | null; customerName: string | null }[];
+  /** Whom releasing mails a ship date (while the batch is being planned). */
+  customersToMail: { orderNumber: string; name: string; email: string }[];
   units: BatchUnit[];
   requirements: Requirement[];
   earliestStart: { date: string; waitingOn: string | null };
@@ -64,6 +66,8 @@ function useBatchMutation<I, O>(fn: (input: I) => Promise<O>) {
 
 export const useCreateBatch = () => useBatchMutation((input: CreateBatchInput) => api.post<{ id: number; number: number }>('/api/batches', input));
 export const useReleaseBatch = (id: number) => useBatchMutation((input: ReleaseBatchInput) => api.post<{ state: 'released' | 'releasing'; units: number; done: number; orders: number }>(`/api/batches/${id}/release`, input));
+export const useAddBatchLines = (id: number) => useBatchMutation((input: AddBatchLinesInput) => api.post<{ added: number; units: number }>(`/api/batches/${id}/lines`, input));
+export const useRemoveBatchLine = (id: number) => useBatchMutation((lineId: number) => api.delete<{ units: number }>(`/api/batches/${id}/lines/${lineId}`));
 export const useCancelBatch = (id: number) => useBatchMutation((reason: string) => api.post(`/api/batches/${id}/cancel`, { reason }));
 export const useReserveStock = (id: number) => useBatchMutation(() => api.post<{ reserved: number; stillShort: number }>(`/api/batches/${id}/reserve`));
 export const useKitBatch = (id: number) => useBatchMutation(() => api.post<{ kitted: number; notKitted: number; firstProblem: string | null }>(`/api/batches/${id}/kit`));
