@@ -2,11 +2,12 @@ import type { ChartData } from 'chart.js';
 import { Chart } from 'react-chartjs-2';
 import { HARMONIC_FLOOR_DBC, formatDbcLevel, type CaptureComparison } from '../../../shared/production/capture-check';
 import { SERIES_COLOURS } from '../../components/charts';
+import { shopFormat } from '../../lib/format';
 
 /** The chart's bottom: quieter levels are drawn at it (the bench cannot read them anyway). */
 const CHART_FLOOR_DBC = -100;
 const clampDb = (db: number) => Math.max(CHART_FLOOR_DBC, Math.min(0, db));
-const percent = (x: number) => `${x.toFixed(2)} %`;
+const percent = (x: number) => `${shopFormat().number(x, 2)} %`;
 const band = (low: number | null, high: number) => (low === null ? `at most ${formatDbcLevel(high)}` : `${formatDbcLevel(low)} to ${formatDbcLevel(high)}`);
 
 function Result({ within }: { within: boolean | null }) {
@@ -108,7 +109,7 @@ export function SpectrumOverlay({ comparison, title }: { comparison: CaptureComp
                   label: (c) => {
                     const raw = c.raw as number | [number, number] | null;
                     if (raw === null) return `${c.dataset.label}: not measured`;
-                    return Array.isArray(raw) ? `${c.dataset.label}: ${raw[0].toFixed(1)} to ${raw[1].toFixed(1)} dBc` : `${c.dataset.label}: ${raw.toFixed(1)} dBc`;
+                    return Array.isArray(raw) ? `${c.dataset.label}: ${shopFormat().number(raw[0], 1)} to ${shopFormat().number(raw[1], 1)} dBc` : `${c.dataset.label}: ${shopFormat().number(raw, 1)} dBc`;
                   },
                 },
               },

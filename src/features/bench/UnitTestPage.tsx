@@ -15,6 +15,7 @@ import { useFormatters } from '../../lib/format';
 import { useAnalyseCapture, useRecordTest, useTestUnit, type TestRecord, type UnitCaptureAnalysis } from './api';
 import { ComparisonTable, SpectrumOverlay } from './CaptureComparison';
 import { MainsCaution } from './MainsCaution';
+import { shopFormat } from '../../lib/format';
 
 const NO_THD = 'Enter the measured THD (%), or choose a WAV capture to read it from';
 
@@ -35,9 +36,9 @@ function TestResult({ test, prediction }: { test: TestRecord; prediction: Predic
   return (
     <li className="rounded-lg border border-spruce-700/20 bg-white p-4">
       <p className="font-semibold">{fmt.dateTime(test.createdAt)} · {test.outcome === 'pass' ? 'Passed' : 'Sent back for rework'} by {test.testerName ?? '—'}{test.reason ? `: ${test.reason}` : ''}</p>
-      <p>Current draw {test.currentDrawMa.toFixed(1)} mA · measured THD {test.measuredThdPercent.toFixed(2)} % {test.capture ? '(from the capture)' : '(typed)'} · predicted {test.predictedThdPercent?.toFixed(2) ?? '—'} % (±{test.tolerancePercent} %)
+      <p>Current draw {shopFormat().number(test.currentDrawMa, 1)} mA · measured THD {shopFormat().number(test.measuredThdPercent, 2)} % {test.capture ? '(from the capture)' : '(typed)'} · predicted {test.predictedThdPercent == null ? '—' : shopFormat().number(test.predictedThdPercent, 2)} % (±{test.tolerancePercent} %)
         {' · '}<strong className={test.withinTolerance ? 'text-good-700' : 'text-alarm-700'}>{test.withinTolerance ? 'within tolerance' : 'out of tolerance'}</strong></p>
-      {test.capture ? <p className="text-sm text-ink-soft">Capture: {(test.capture.sampleRate / 1000).toFixed(1)} kHz, {test.capture.channels === 1 ? 'mono' : 'stereo'}, {test.capture.durationS.toFixed(2)} s · fundamental {test.capture.fundamentalHz.toFixed(1)} Hz · THD {captureThd?.toFixed(2)} %</p> : null}
+      {test.capture ? <p className="text-sm text-ink-soft">Capture: {shopFormat().number((test.capture.sampleRate / 1000), 1)} kHz, {test.capture.channels === 1 ? 'mono' : 'stereo'}, {shopFormat().number(test.capture.durationS, 2)} s · fundamental {shopFormat().number(test.capture.fundamentalHz, 1)} Hz · THD {captureThd == null ? '—' : shopFormat().number(captureThd, 2)} %</p> : null}
       {comparison && test.measuredHarmonics ? (
         <div className="mt-3 grid gap-4">
           <ComparisonTable comparison={comparison} caption="Predicted and measured at the reference setting" thdR={prediction ? { predicted: prediction.thdRPercent, measured: test.measuredThdRPercent } : undefined} />
@@ -104,7 +105,7 @@ export default function UnitTestPage() {
     if (capture) data.append('capture', capture.file);
     record.mutate(data, {
       onSuccess: (r) => {
-        toast(`${d.unit.serial}: ${r.unitState === 'passed' ? 'passed' : 'sent back for rework'} with THD ${r.measuredThdPercent.toFixed(2)} % ${r.capture ? 'from the capture' : 'typed'}${r.withinTolerance ? '' : ' (out of tolerance)'}`, r.withinTolerance ? undefined : 'alarm');
+        toast(`${d.unit.serial}: ${r.unitState === 'passed' ? 'passed' : 'sent back for rework'} with THD ${shopFormat().number(r.measuredThdPercent, 2)} % ${r.capture ? 'from the capture' : 'typed'}${r.withinTolerance ? '' : ' (out of tolerance)'}`, r.withinTolerance ? undefined : 'alarm');
         removeCapture();
       },
       onError: (e) => { applyFieldErrors(e, form.setError); if (e instanceof ApiError && e.fields?.capture) form.setError('root', { message: e.fields.capture }); toast(e.message, 'alarm'); },
@@ -125,8 +126,8 @@ export default function UnitTestPage() {
       <p className="mb-4 text-lg">{d.unit.modelName} rev. {d.unit.revisionNumber} — {d.unit.optionName} · built by {d.unit.assemblerName ?? '—'} · <strong>{UNIT_STATE_LABELS[d.unit.state]}</strong></p>
       <section className="mb-6 rounded-lg bg-white p-6 shadow-sm" aria-labelledby="predicted-heading">
         <h2 id="predicted-heading" className="mb-2 text-xl font-bold text-spruce-900">Predicted for this unit</h2>
-        {prediction ? <p>THD<sub>F</sub> at drive {Math.round(d.unit.referenceDrive * 100)} % with a 1 kHz tone: <strong>{prediction.thdFPercent.toFixed(2)} %</strong> (tolerance ±{d.thdTolerancePercent} % of it; each harmonic ±{d.harmonicToleranceDb} dB){d.unit.predicted?.fromMeasuredVf ? ', from the measured devices' : ', from nominal devices'}. H2 {formatDbcLevel(prediction.harmonics.find((h) => h.order === 2)?.dbc ?? -200)} · H3 {formatDbcLevel(prediction.harmonics.find((h) => h.order === 3)?.dbc ?? -200)}.</p> : <p>No prediction yet: it is computed when a capture is analysed or the test is saved.</p>}
-        <p className="mt-1 text-sm text-ink-soft">Devices: {d.devices.map((x) => `${x.name} (${x.side}) ${x.measuredVf !== null ? `${(x.measuredVf * 1000).toFixed(0)} mV` : 'not measured'}`).join(' · ')}. Supply {d.unit.supplyV} V DC, centre negative.</p>
+        {prediction ? <p>THD<sub>F</sub> at drive {Math.round(d.unit.referenceDrive * 100)} % with a 1 kHz tone: <strong>{shopFormat().number(prediction.thdFPercent, 2)} %</strong> (tolerance ±{d.thdTolerancePercent} % of it; each harmonic ±{d.harmonicToleranceDb} dB){d.unit.predicted?.fromMeasuredVf ? ', from the measured devices' : ', from nominal devices'}. H2 {formatDbcLevel(prediction.harmonics.find((h) => h.order === 2)?.dbc ?? -200)} · H3 {formatDbcLevel(prediction.harmonics.find((h) => h.order === 3)?.dbc ?? -200)}.</p> : <p>No prediction yet: it is computed when a capture is analysed or the test is saved.</p>}
+        <p className="mt-1 text-sm text-ink-soft">Devices: {d.devices.map((x) => `${x.name} (${x.side}) ${x.measuredVf !== null ? `${shopFormat().number((x.measuredVf * 1000), 0)} mV` : 'not measured'}`).join(' · ')}. Supply {d.unit.supplyV} V DC, centre negative.</p>
       </section>
       {d.unit.state === 'built' ? (
         <form onSubmit={onSubmit} noValidate className="mb-8 grid gap-5 rounded-lg bg-white p-6 shadow-sm" aria-labelledby="bench-heading">
@@ -144,7 +145,7 @@ export default function UnitTestPage() {
             {capture && !reading && !capture.error ? <Loading label={`Analysing ${capture.file.name}…`} /> : null}
             {reading ? (
               <p role="status" className="rounded-md bg-spruce-100 p-3">
-                <strong>Measured THD<sub>F</sub> from the capture: {reading.thdFPercent.toFixed(2)} %</strong> (THD<sub>R</sub> {reading.thdRPercent.toFixed(2)} %) · fundamental {reading.fundamentalHz.toFixed(1)} Hz at {reading.harmonics[0].amplitudeFs.toFixed(3)} of full scale · {(reading.sampleRate / 1000).toFixed(1)} kHz, {reading.bitsPerSample}-bit, {reading.channels === 1 ? 'mono' : 'stereo'}, {reading.durationS.toFixed(2)} s
+                <strong>Measured THD<sub>F</sub> from the capture: {shopFormat().number(reading.thdFPercent, 2)} %</strong> (THD<sub>R</sub> {shopFormat().number(reading.thdRPercent, 2)} %) · fundamental {shopFormat().number(reading.fundamentalHz, 1)} Hz at {shopFormat().number(reading.harmonics[0].amplitudeFs, 3)} of full scale · {shopFormat().number((reading.sampleRate / 1000), 1)} kHz, {reading.bitsPerSample}-bit, {reading.channels === 1 ? 'mono' : 'stereo'}, {shopFormat().number(reading.durationS, 2)} s
               </p>
             ) : null}
             {!capture ? (

@@ -8,6 +8,7 @@ import { EmptyState, ErrorState, Loading, PageHeader } from '../../components/ui
 import { useSession } from '../auth/api';
 import type { BuildListQuery } from '../../../shared/schemas/production';
 import { useMyBuilds, type BuildRow } from './api';
+import { shopFormat } from '../../lib/format';
 
 /** The assembler's own queue, rework first, then what is on the bench, then by planned day. */
 export default function BuildsPage() {
@@ -22,7 +23,7 @@ export default function BuildsPage() {
       accessorKey: 'plannedDate', header: 'Planned day',
       cell: ({ row }) => (
         <span className="whitespace-nowrap">
-          {row.original.plannedDate ?? '—'}
+          {row.original.plannedDate ? shopFormat().date(row.original.plannedDate) : '—'}
           {/* The planned day is already beside it; a passed due date is named. */}
           {row.original.late ? <strong className="ml-2 rounded bg-alarm-700 px-2 py-0.5 text-sm text-white">Late{row.original.late.startsWith('order') ? ` · ${row.original.late}` : ''}</strong> : null}
         </span>

@@ -9,6 +9,7 @@ import { TextField } from '../../components/ui/TextField';
 import { useToast } from '../../components/ui/toast';
 import { ApiError, applyFieldErrors } from '../../lib/api';
 import { useReopenStep, useStep, type UnitDetail } from './api';
+import { shopFormat } from '../../lib/format';
 
 type Step = UnitDetail['steps'][number];
 interface Caution { id: string; name: string; text: string }
@@ -86,7 +87,7 @@ export function Checklist({ unitId, steps, open, fastStepPercent }: { unitId: nu
   const [reopening, setReopening] = useState<Step | null>(null);
 
   const finish = (s: Step, confirmFast = false) => step.mutate({ stepId: s.id, action: 'finish', confirmFast }, {
-    onSuccess: (r) => { setFast(null); toast(`Finished “${s.title}” in ${r.actualMinutes?.toFixed(1)} min (standard ${r.standardMinutes} min)`); },
+    onSuccess: (r) => { setFast(null); toast(`Finished “${s.title}” in ${r.actualMinutes == null ? '—' : shopFormat().number(r.actualMinutes, 1)} min (standard ${r.standardMinutes} min)`); },
     onError: (e) => (e instanceof ApiError && e.code === 'fast_step' ? setFast({ step: s, message: e.message }) : toast(e.message, 'alarm')),
   });
   return (
@@ -106,7 +107,7 @@ export function Checklist({ unitId, steps, open, fastStepPercent }: { unitId: nu
                     <span className="font-normal text-ink-soft">(see Cautions for this build)</span>
                   </p>
                 ) : null}
-                <p className="mt-2 text-sm text-ink-soft">Standard {s.standardMinutes} min{s.actualMinutes !== null ? ` · took ${s.actualMinutes.toFixed(1)} min` : ''} · skill: {s.skill}</p>
+                <p className="mt-2 text-sm text-ink-soft">Standard {s.standardMinutes} min{s.actualMinutes !== null ? ` · took ${shopFormat().number(s.actualMinutes, 1)} min` : ''} · skill: {s.skill}</p>
               </div>
               {open ? (
                 <div className="flex flex-wrap items-center gap-2">

@@ -8,6 +8,7 @@ import { useFormatters } from '../../lib/format';
 import { useAddPhoto, useBuildUnit, useMarkBuilt, useSaveLots, type UnitDetail } from './api';
 import { Checklist } from './Checklist';
 import { DeviceReadings } from './DeviceReadings';
+import { shopFormat } from '../../lib/format';
 
 function PartLots({ unitId, lots }: { unitId: number; lots: UnitDetail['lots'] }) {
   const save = useSaveLots(unitId);
@@ -72,7 +73,7 @@ export default function UnitBuildPage() {
         <section aria-labelledby="steps-heading"><h2 id="steps-heading" className="mb-3 text-xl font-bold text-spruce-900">Checklist</h2><Checklist unitId={id} steps={d.steps} open={open && d.unit.state !== 'rework'} fastStepPercent={d.fastStepPercent} /></section>
         <section aria-labelledby="vf-heading" className="rounded-lg bg-white p-6 shadow-sm"><h2 id="vf-heading" className="mb-3 text-xl font-bold text-spruce-900">Device matching</h2>
           {open ? <DeviceReadings key={d.devices.map((x) => x.measuredVf).join()} unitId={id} devices={d.devices} testCurrentMa={d.testCurrentMa} /> : <p>Readings are closed for this unit.</p>}
-          {d.unit.predicted ? <p className="mt-3">Predicted THD at the reference setting: <strong>{d.unit.predicted.thdPercent.toFixed(2)} %</strong>{d.unit.predicted.fromMeasuredVf ? ' (from this unit’s measured devices)' : ' (nominal devices)'}</p> : null}
+          {d.unit.predicted ? <p className="mt-3">Predicted THD at the reference setting: <strong>{shopFormat().number(d.unit.predicted.thdPercent, 2)} %</strong>{d.unit.predicted.fromMeasuredVf ? ' (from this unit’s measured devices)' : ' (nominal devices)'}</p> : null}
         </section>
         <section aria-labelledby="lots-heading" className="rounded-lg bg-white p-6 shadow-sm"><h2 id="lots-heading" className="mb-3 text-xl font-bold text-spruce-900">Part lots</h2>{open ? <PartLots unitId={id} lots={d.lots} /> : <p>{d.lots.map((l) => `${l.partNumber}: ${l.lot ?? '—'}`).join(' · ') || 'None asked for.'}</p>}</section>
         <section aria-labelledby="photos-heading" className="rounded-lg bg-white p-6 shadow-sm"><h2 id="photos-heading" className="mb-3 text-xl font-bold text-spruce-900">Photos</h2><Photos unitId={id} photos={d.photos} /></section>

@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { Section } from '../../components/ui/Section';
 import type { BatchDetail } from './api';
 import { RequirementsTable } from './RequirementsTable';
+import { shopFormat } from '../../lib/format';
 
 /** Lists longer than this start folded. */
 export const LONG_LIST = 12;
@@ -13,7 +14,7 @@ export function BatchParts({ detail, released }: { detail: BatchDetail; released
   const [onlyShort, setOnlyShort] = useState(short.length > 0);
   const shown = onlyShort ? short : rows;
   const summary = !rows.length ? 'Every unit is kitted: nothing left to draw from stock.'
-    : short.length ? `${short.length} of ${rows.length} parts short · earliest start ${detail.earliestStart.date}${detail.earliestStart.waitingOn ? ` (waiting on ${detail.earliestStart.waitingOn})` : ''}`
+    : short.length ? `${short.length} of ${rows.length} parts short · earliest start ${shopFormat().date(detail.earliestStart.date)}${detail.earliestStart.waitingOn ? ` (waiting on ${detail.earliestStart.waitingOn})` : ''}`
     : `All ${rows.length} parts covered by free stock.`;
   return (
     <Section id="parts" title="Parts against stock" summary={summary} defaultOpen={short.length > 0 || rows.length <= LONG_LIST}

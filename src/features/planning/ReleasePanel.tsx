@@ -5,6 +5,7 @@ import { Notice } from '../../components/ui/states';
 import { TextField } from '../../components/ui/TextField';
 import { useToast } from '../../components/ui/toast';
 import { useReleaseBatch, type BatchDetail } from './api';
+import { shopFormat } from '../../lib/format';
 
 /**
  * Release to the bench. Releasing freezes the revision, creates the units and mails each customer
@@ -43,7 +44,7 @@ export function ReleasePanel({ detail }: { detail: BatchDetail }) {
     <div className="grid gap-3">
       <p className="text-ink-soft">Release freezes revision {detail.batch.revisionNumber}, creates the serial-numbered units and tells each customer when their pedal should ship.</p>
       {shortages.length ? (
-        <Notice tone="alarm">{shortages.length} part{shortages.length === 1 ? ' is' : 's are'} short. Earliest start {detail.earliestStart.date}{detail.earliestStart.waitingOn ? ` (waiting on ${detail.earliestStart.waitingOn})` : ''}. Order them, or give a reason to release anyway.</Notice>
+        <Notice tone="alarm">{shortages.length} part{shortages.length === 1 ? ' is' : 's are'} short. Earliest start {shopFormat().date(detail.earliestStart.date)}{detail.earliestStart.waitingOn ? ` (waiting on ${detail.earliestStart.waitingOn})` : ''}. Order them, or give a reason to release anyway.</Notice>
       ) : <Notice tone="good">Every part is covered by free stock.</Notice>}
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField label="Building starts on" type="date" value={startDate} onChange={(e) => setStartDate(e.target.value)} />
