@@ -208,7 +208,7 @@ describe('late builds and serials', () => {
     const late = await junoUnit('2024-03-04');
     const overdue = await junoUnit('2099-01-05', '2024-02-01T12:00:00Z');
     const ahead = await junoUnit('2099-01-05', '2099-02-01T12:00:00Z');
-    const builds = (await juno.get('/api/builds').expect(200)).body.builds as { id: number; late: string | null }[];
+    const builds = (await juno.get('/api/builds?pageSize=100').expect(200)).body.items as { id: number; late: string | null }[];
     const byId = new Map(builds.map((b) => [b.id, b.late]));
     expect(byId.get(late.unit.id)).toBe('planned for 2024-03-04');
     expect(byId.get(overdue.unit.id)).toBe('order was due 2024-02-01');
