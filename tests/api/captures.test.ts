@@ -38,7 +38,7 @@ async function builtUnit() {
   await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: junoId, date: '2027-01-05' }] }).expect(200);
   for (const step of c.steps) {
     await juno.post(`/api/units/${unit.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
-    await juno.post(`/api/units/${unit.id}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    await juno.post(`/api/units/${unit.id}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({ confirmFast: true }).expect(200);
   }
   const detail = await juno.get(`/api/units/${unit.id}`).expect(200);
   const readings = detail.body.devices.map((d: { optionDeviceId: number; nominalVf: number }) => ({ optionDeviceId: d.optionDeviceId, vf: Number((d.nominalVf + 0.004).toFixed(3)) }));

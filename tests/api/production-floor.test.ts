@@ -67,8 +67,8 @@ describe('a batch being planned stays editable until release', () => {
     expect(detail.lines).toHaveLength(1);
     expect(detail.customersToMail).toHaveLength(1);
     // The removed order line is free for planning again.
-    const candidates = (await planner.get('/api/batches/candidates').expect(200)).body;
-    expect(candidates.orderLines.map((l: { id: number }) => l.id)).toContain(second.lineId);
+    const candidates = (await planner.get(`/api/batches/candidates?modelId=${c.modelId}`).expect(200)).body;
+    expect(candidates.orderLines.items.map((l: { id: number }) => l.id)).toContain(second.lineId);
   });
 
   it('refuses a line already in a batch, the last line, a line of another batch and another model’s option', async () => {
