@@ -62,6 +62,14 @@ async function signIn(size: Size, email: string): Promise<Page> {
   await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
   return page;
 }
+/** Below desktop width the shell folds its navigation behind "Menu": open it when it is folded. */
+async function openNav(page: Page) {
+  const menu = page.getByRole('button', { name: 'Menu' });
+  const nav = page.getByRole('navigation', { name: 'Main' });
+  // The shell shows one of the two once the page has loaded.
+  await expect.poll(async () => (await menu.isVisible()) || (await nav.isVisible()), { timeout: 30_000 }).toBe(true);
+  if (await menu.isVisible() && (await menu.getAttribute('aria-expanded')) !== 'true') await menu.click();
+}
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `${name}.png`), fullPage: true });
 const roleOf = async (email: string) => (await t.knex('users').where({ email }).first('role')).role as string;
 
@@ -178,6 +186,7 @@ for (const size of Object.keys(SIZES) as Size[]) {
 
     it('calls it Sent mail, and the preview of a mail fits the screen', async () => {
       const page = await signIn(size, DEMO.planner);
+      await openNav(page);
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Sent mail' }).click();
       await page.getByRole('heading', { name: 'Sent mail', level: 1 }).waitFor();
       await page.getByRole('button', { name: `Receipt for order ${orderNumber}` }).first().click();
@@ -242,6 +251,7 @@ for (const size of Object.keys(SIZES) as Size[]) {
       const customer = await signIn(size, DEMO.customer);
       await customer.goto(`${server.url}/shop`);
       await customer.getByRole('heading', { name: 'Pedals' }).waitFor();
+      await openNav(customer);
       expect(await customer.getByRole('link', { name: /cart/i }).count()).toBe(1);
       await shot(customer, `shop-customer-${size}`);
       await customer.close();
