@@ -36,6 +36,21 @@ export function isUsableTimeZone(value: string): boolean {
   }
 }
 
+/** A moment as its calendar day (YYYY-MM-DD) in `timeZone`: a value for comparing days, not for people. */
+export function calendarDay(moment: Date | string, timeZone: string): string {
+  // en-CA writes dates as YYYY-MM-DD.
+  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(moment));
+}
+
+/** A country's name from its ISO 3166-1 alpha-2 code, e.g. 'CH' → 'Switzerland' (the code itself when unknown). */
+export function countryName(code: string, locale: string = DEFAULT_LOCALE): string {
+  try {
+    return new Intl.DisplayNames([usableLocale(locale)], { type: 'region' }).of(code) ?? code;
+  } catch {
+    return code;
+  }
+}
+
 /** A locale Intl accepts, else the default (a typo in the settings must not blank every page). */
 function usableLocale(locale: string | null | undefined): string {
   if (!locale) return DEFAULT_LOCALE;

@@ -1,5 +1,6 @@
 import PDFDocument from 'pdfkit';
 import { registerFonts } from './fonts';
+import { createFormatter } from '../../shared/format';
 
 // An invoice or a credit note, drawn from the snapshot stored on its `invoices` row (what was
 // sold, to whom, by whom, at which rate), so the same document renders the same PDF later.
@@ -35,7 +36,6 @@ export interface InvoiceDocument {
   logo: Uint8Array | null;
 }
 
-const percent = (basisPoints: number, locale: string) => `${new Intl.NumberFormat(locale, { maximumFractionDigits: 2 }).format(basisPoints / 100)} %`;
 
 export function renderInvoice(d: InvoiceDocument): Promise<Buffer> {
   const credit = d.kind === 'credit-note';
@@ -45,8 +45,10 @@ export function renderInvoice(d: InvoiceDocument): Promise<Buffer> {
   const chunks: Buffer[] = [];
   doc.on('data', (c: Buffer) => chunks.push(c));
   const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));
-  const money = (cents: number) => new Intl.NumberFormat(d.locale, { style: 'currency', currency: d.currency }).format(((credit ? -1 : 1) * cents) / 100);
-  const date = new Intl.DateTimeFormat(d.locale, { dateStyle: 'long', timeZone: d.timeZone }).format(new Date(d.issuedAt));
+  const f = createFormatter({ locale: d.locale, timeZone: d.timeZone, currency: d.currency });
+  const money = (cents: number) => f.money((credit ? -1 : 1) * cents);
+  const date = f.date(d.issuedAt);
+  const percent = (basisPoints: number) => `${f.significant(basisPoints / 100, 4)} %`;
   const left = doc.page.margins.left;
   const width = doc.page.width - left - doc.page.margins.right;
 
@@ -101,7 +103,7 @@ export function renderInvoice(d: InvoiceDocument): Promise<Buffer> {
   row(cols.map((c) => c.label), 'bold');
   doc.moveTo(left, doc.y - 2).lineTo(left + width, doc.y - 2).strokeColor('#1f4d43').lineWidth(0.8).stroke();
   for (const l of d.lines) {
-    row([l.description, String(l.quantity), money(l.netCents), percent(l.taxRateBasisPoints, d.locale), money(l.taxCents), money(l.totalCents)], 'body');
+    row([l.description, String(l.quantity), money(l.netCents), percent(l.taxRateBasisPoints), money(l.taxCents), money(l.totalCents)], 'body');
   }
   doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor('#999').lineWidth(0.5).stroke();
   doc.moveDown(0.5);
@@ -111,7 +113,7 @@ export function renderInvoice(d: InvoiceDocument): Promise<Buffer> {
     doc.text(value, left + width - 105, y, { width: 105, align: 'right' });
   };
   total('Net amount', money(d.netCents));
-  total(`VAT at ${percent(d.taxRateBasisPoints, d.locale)}`, money(d.taxCents));
+  total(`VAT at ${percent(d.taxRateBasisPoints)}`, money(d.taxCents));
   total(credit ? 'Total credited' : 'Total paid', money(d.totalCents), 'bold');
   doc.moveDown(1.5);
   doc.x = left;

@@ -4,6 +4,7 @@
 import PDFDocument from 'pdfkit';
 import { code128Png, drawQr } from './codes';
 import { registerFonts } from './fonts';
+import { countryName as sharedCountryName } from '../../shared/format';
 
 const MM = 72 / 25.4;
 
@@ -30,9 +31,7 @@ function pdfBuffer(doc: PDFKit.PDFDocument): Promise<Buffer> {
 }
 
 /** A country code as its English name (DE → Germany); the code itself when unknown. */
-const countryName = (code: string) => {
-  try { return new Intl.DisplayNames(['en'], { type: 'region' }).of(code.toUpperCase()) ?? code; } catch { return code; }
-};
+const countryName = (code: string) => sharedCountryName(code.toUpperCase(), 'en');
 
 /** Where the address label's barcode sits (points from the top left), for printing checks and tests. */
 export function addressBarcodeBox(size: AddressLabelSize) {

@@ -1,4 +1,5 @@
 // Rules of the bench tablet that the server enforces and the client explains, in one place.
+import { calendarDay } from '../format';
 
 /**
  * A step finished in under `percent` % (the shop's `fast_step_percent` setting) of its standard minutes is "far faster" than usual and asks
@@ -18,6 +19,5 @@ export function lateReason(build: { plannedDate: string | null; dueDate: string 
 
 /** A moment as a calendar day (YYYY-MM-DD) in the shop's time zone. */
 export function shopDate(moment: Date | string, timeZone: string) {
-  // en-CA formats dates as YYYY-MM-DD.
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(moment));
+  return calendarDay(moment, timeZone);
 }

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import path from 'node:path';
 import { anonymousAgent, startTestApp, uniqueEmail } from '../support/app';
-import { launchBrowser, listen } from '../support/browser';
+import { launchBrowser, listen, openNav } from '../support/browser';
 
 const DOCS = path.resolve('docs');
 const t = startTestApp();
@@ -82,6 +82,7 @@ describe('the front door for visitors', () => {
     await page.getByLabel('Password').fill('remembered-long-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.waitForURL('**/shop');
+    await openNav(page);
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'My orders' }).waitFor();
 
     // The same link a second time says it is spent and offers a new one.

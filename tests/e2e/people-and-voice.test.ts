@@ -7,7 +7,7 @@ import { renderMail } from '../../server/services/mail/render';
 import { createFormatter } from '../../shared/format';
 import { insertPedal, placeOrder } from '../api/orders-fixtures';
 import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp, uniqueEmail, type TestAgent } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { launchBrowser, listen, openNav, SCREENSHOTS } from '../support/browser';
 
 // People & roles and the app's one voice, in Chromium at a desktop and a bench-tablet size:
 // staff and customers listed apart, a role change confirmed old → new and undone, Deactivate
@@ -61,14 +61,6 @@ async function signIn(size: Size, email: string): Promise<Page> {
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
   return page;
-}
-/** Below desktop width the shell folds its navigation behind "Menu": open it when it is folded. */
-async function openNav(page: Page) {
-  const menu = page.getByRole('button', { name: 'Menu' });
-  const nav = page.getByRole('navigation', { name: 'Main' });
-  // The shell shows one of the two once the page has loaded.
-  await expect.poll(async () => (await menu.isVisible()) || (await nav.isVisible()), { timeout: 30_000 }).toBe(true);
-  if (await menu.isVisible() && (await menu.getAttribute('aria-expanded')) !== 'true') await menu.click();
 }
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `${name}.png`), fullPage: true });
 const roleOf = async (email: string) => (await t.knex('users').where({ email }).first('role')).role as string;

@@ -4,10 +4,10 @@ import { DEMO } from '../support/app';
 import { SCREENSHOTS, signIn, useBrowserApp } from '../support/browser';
 
 const EXPECTED_NAV: Record<keyof typeof DEMO, { home: string; nav: string[] }> = {
-  owner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Sent mail', 'People & roles', 'Shop settings', 'My account'] },
-  planner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Pedal models', 'Orders', 'Sent mail', 'My account'] },
-  assembler: { home: '/builds', nav: ['My builds', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
-  tester: { home: '/bench', nav: ['Test bench', 'Parts & stock', 'Clipping devices', 'Pedal models', 'My account'] },
+  owner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Device trays', 'Pedal models', 'Orders', 'Sent mail', 'People & roles', 'Shop settings', 'My account'] },
+  planner: { home: '/board', nav: ['Production board', 'Batches', 'Shipping', 'Parts & stock', 'Clipping devices', 'Device trays', 'Pedal models', 'Orders', 'Sent mail', 'My account'] },
+  assembler: { home: '/builds', nav: ['My builds', 'Parts & stock', 'Clipping devices', 'Device trays', 'Pedal models', 'My account'] },
+  tester: { home: '/bench', nav: ['Test bench', 'Parts & stock', 'Clipping devices', 'Device trays', 'Pedal models', 'My account'] },
   customer: { home: '/shop', nav: ['Pedals', 'Cart', 'My orders', 'My account'] },
 };
 

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { launchBrowser, listen, openNav, SCREENSHOTS } from '../support/browser';
 import { makeCatalog, makePaidOrder } from '../api/production-fixture';
 
 // Trays on a bench tablet (1024 × 768): Juno starts a tray and enters its readings slot by slot and
@@ -53,6 +53,7 @@ describe('trays in the browser', () => {
 
     // Juno on the tablet: a new tray, four readings typed with Enter, four pasted as a column.
     const juno = await signIn(DEMO.assembler, '/builds');
+    await openNav(juno);
     await juno.getByRole('link', { name: 'Device trays' }).click();
     await juno.getByRole('heading', { name: 'New tray' }).waitFor();
     await juno.getByLabel('Device').selectOption(String(device.id));

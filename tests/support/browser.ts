@@ -1,5 +1,5 @@
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { afterAll, beforeAll } from 'vitest';
+import { afterAll, beforeAll, expect } from 'vitest';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
@@ -63,4 +63,13 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
+}
+
+/** Below desktop width the shell folds its navigation behind "Menu": opens it when it is folded (a no-op on a desktop). */
+export async function openNav(page: Page) {
+  const menu = page.getByRole('button', { name: 'Menu' });
+  const nav = page.getByRole('navigation', { name: 'Main' });
+  // The shell shows one of the two once the page has loaded.
+  await expect.poll(async () => (await menu.isVisible()) || (await nav.isVisible()), { timeout: 30_000 }).toBe(true);
+  if (await menu.isVisible() && (await menu.getAttribute('aria-expanded')) !== 'true') await menu.click();
 }

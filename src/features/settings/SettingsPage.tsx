@@ -10,6 +10,7 @@ import { useToast } from '../../components/ui/toast';
 import { ApiError } from '../../lib/api';
 import { useFormatters } from '../../lib/format';
 import { useOwnerSettings, useRemoveLogo, useSaveSettings, useUploadLogo } from './api';
+import { countryName as sharedCountryName, createFormatter } from '../../../shared/format';
 
 // The owner's settings: one form over the shared settings schema. Money is typed in the shop's
 // currency units and sent as cents; a zone's countries are typed as codes separated by commas.
@@ -47,10 +48,7 @@ function formField(path: string): string {
   return path;
 }
 
-const countryName = (() => {
-  const names = new Intl.DisplayNames(['en'], { type: 'region' });
-  return (code: string) => names.of(code) ?? code;
-})();
+const countryName = (code: string) => sharedCountryName(code, 'en');
 
 function Section({ title, id, children, note }: { title: string; id: string; children: React.ReactNode; note?: string }) {
   return (
@@ -121,7 +119,8 @@ function SettingsForm({ settings }: { settings: OwnerSettings }) {
   const locale = useWatch({ control: form.control, name: 'locale' });
   const sample = useMemo(() => {
     try {
-      return `${new Intl.NumberFormat(locale, { style: 'currency', currency: settings.currency }).format(1234.5)} · ${new Intl.DateTimeFormat(locale, { dateStyle: 'medium' }).format(new Date())}`;
+      const f = createFormatter({ locale, currency: settings.currency });
+      return `${f.money(123_450)} · ${f.date(new Date())}`;
     } catch {
       return '';
     }
