@@ -5,6 +5,7 @@ import type { Browser, Page } from 'playwright-core';
 import { getBatch } from '../../server/services/production/planning';
 import { appendMovements } from '../../server/services/stock/ledger';
 import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
+import { createFormatter } from '../../shared/format';
 import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp, type TestAgent } from '../support/app';
 import { launchBrowser, listen } from '../support/browser';
 import { makePaidOrder } from '../api/production-fixture';
@@ -163,7 +164,8 @@ describe('the bench tablet', () => {
       // Late builds are flagged in words.
       const row = page.getByRole('row').filter({ hasText: unit.serial });
       await row.getByText('Late', { exact: true }).waitFor();
-      await row.getByText('2026-01-05').waitFor();
+      // The planned day, written by the shop's one formatter.
+      await row.getByText(createFormatter().date('2026-01-05')).waitFor();
       await shot(page, `my-builds-${size.name}`);
 
       // A scanner types the label and ends with Enter: with no field focused, the unit opens.
