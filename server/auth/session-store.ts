@@ -8,7 +8,8 @@
 // The same read also fetches the signed-in account's row (active accounts only), so a signed-in
 // request costs one query before its handler instead of two; passport's deserializeUser takes it
 // from `userLoadedWithSession` (server/auth/session.ts). It is read on every request as before, so
-// deactivation and role changes still act at once.
+// deactivation and role changes still act at once. Both statements are named, so each pooled
+// connection parses them once (as server/db/prepared.ts does for knex's queries).
 import connectPgSimple from 'connect-pg-simple';
 import session, { type SessionData } from 'express-session';
 import type pg from 'pg';
@@ -50,7 +51,7 @@ export class ThrottledPgStore extends PgStore {
     const sql = `SELECT s.sess, extract(epoch FROM s.expire::timestamptz)::float8 * 1000 AS expire_ms, to_jsonb(u) - 'password_hash' AS account
       FROM "session" s LEFT JOIN users u ON u.active AND u.id = ${SESSION_USER_ID}
       WHERE s.sid = $1 AND s.expire >= now()`;
-    this.pool.query<{ sess: Loaded; expire_ms: number; account: UserRow | null }>(sql, [sid]).then(
+    this.pool.query<{ sess: Loaded; expire_ms: number; account: UserRow | null }>({ name: 'kp_session_read', text: sql, values: [sid] }).then(
       ({ rows: [row] }) => {
         if (!row) return callback(null, null);
         const sess = typeof row.sess === 'string' ? (JSON.parse(row.sess) as Loaded) : row.sess;
@@ -78,10 +79,11 @@ export class ThrottledPgStore extends PgStore {
       callback?.();
       return;
     }
-    this.pool.query(
-      `UPDATE "session" SET expire = to_timestamp($1 / 1000.0) WHERE sid = $2 AND expire < to_timestamp($1 / 1000.0) - make_interval(secs => $3)`,
-      [expires, sid, TOUCH_INTERVAL_MS / 1000],
-    ).then(
+    this.pool.query({
+      name: 'kp_session_touch',
+      text: `UPDATE "session" SET expire = to_timestamp($1 / 1000.0) WHERE sid = $2 AND expire < to_timestamp($1 / 1000.0) - make_interval(secs => $3)`,
+      values: [expires, sid, TOUCH_INTERVAL_MS / 1000],
+    }).then(
       () => {
         storedExpiry.set(sess, expires);
         callback?.();
