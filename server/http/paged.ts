@@ -1,10 +1,12 @@
 import type { Knex } from 'knex';
-import type { ListParams, Page } from '../../shared/schemas/list';
+import { COUNT_CAP, type ListParams, type Page } from '../../shared/schemas/list';
 
 /**
  * One page of a list query: counts the matches, then fetches the requested page sorted by the
  * endpoint's whitelisted column (the key was checked by the shared schema) with the id as tie
- * breaker, so pages never overlap. `count` is the query without selects or order (filters only).
+ * breaker, so pages never overlap. `count` is the query without selects or order (filters only);
+ * it reads at most COUNT_CAP + 1 rows (`cappedCount`), so a count costs the same on five years of
+ * history as on one.
  */
 export async function paged<Row, Item, S extends string>(
   params: ListParams<S>,
@@ -16,13 +18,20 @@ export async function paged<Row, Item, S extends string>(
     map: (row: Row) => Item;
   },
 ): Promise<Page<Item>> {
-  const [{ n }] = await spec.count.clearSelect().clearOrder().count<{ n: number }[]>('* as n');
+  const { total, totalCapped } = await cappedCount(spec.count);
   const column = spec.sortColumns[params.sort];
   const rows = (await spec.rows
     .orderBy([{ column, order: params.dir, nulls: params.dir === 'asc' ? 'last' : 'first' }, { column: spec.tieBreak, order: params.dir }])
     .limit(params.pageSize)
     .offset((params.page - 1) * params.pageSize)) as Row[];
-  return { items: rows.map(spec.map), total: Number(n), page: params.page, pageSize: params.pageSize };
+  return { items: rows.map(spec.map), total, totalCapped, page: params.page, pageSize: params.pageSize };
+}
+
+/** How many rows the query matches, counting at most COUNT_CAP + 1 of them. */
+export async function cappedCount(query: Knex.QueryBuilder): Promise<{ total: number; totalCapped: boolean }> {
+  const matches = query.clearSelect().clearOrder().select(query.client.raw('1')).limit(COUNT_CAP + 1);
+  const [{ n }] = (await query.client.queryBuilder().count({ n: '*' }).from(matches.as('matches'))) as { n: number }[];
+  return Number(n) > COUNT_CAP ? { total: COUNT_CAP, totalCapped: true } : { total: Number(n), totalCapped: false };
 }
 
 /** A LIKE pattern that matches the text anywhere, with the wildcards in it taken literally. */

@@ -9,10 +9,19 @@ export const PAGE_SIZE_MAX = 100;
 export const SORT_DIRECTIONS = ['asc', 'desc'] as const;
 export type SortDirection = (typeof SORT_DIRECTIONS)[number];
 
-/** One page of a list: the rows, how many match in all, and which page this is. */
+/**
+ * Counting stops here: a list's count reads at most this many rows, so its cost stays bounded
+ * however long the shop's history grows. Past it, `total` is this number and `totalCapped` is true
+ * ("10000+ orders"); searching and filtering narrow a list back under it.
+ */
+export const COUNT_CAP = 10_000;
+
+/** One page of a list: the rows, how many match in all (or COUNT_CAP+, see totalCapped), and which page this is. */
 export interface Page<T> {
   items: T[];
   total: number;
+  /** True when more than COUNT_CAP rows match and `total` is COUNT_CAP. */
+  totalCapped: boolean;
   page: number;
   pageSize: number;
 }

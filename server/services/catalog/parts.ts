@@ -3,7 +3,7 @@ import type { Knex } from 'knex';
 import { stringify } from 'csv-stringify/sync';
 import type { PartInput, PartListQuery } from '../../../shared/schemas/catalog';
 import { conflict, invalid, isUniqueViolation, notFound } from '../../errors';
-import { containsPattern } from '../../http/paged';
+import { cappedCount, containsPattern } from '../../http/paged';
 import { movementHistory } from './stock';
 
 const SORT_COLUMNS: Record<PartListQuery['sort'], string> = {
@@ -44,12 +44,12 @@ function view(r: any): PartView {
 
 /** GET /api/parts: one page, the total count, and how many are below their reorder point overall. */
 export async function listParts(knex: Knex, q: PartListQuery) {
-  const [{ count }] = await baseQuery(knex, q).count<{ count: number }[]>('* as count');
+  const { total, totalCapped } = await cappedCount(baseQuery(knex, q));
   const [{ low }] = await baseQuery(knex, { category: undefined, lowStock: true }).count<{ low: number }[]>('* as low');
   const rows = await baseQuery(knex, q).select(COLUMNS)
     .orderBy([{ column: SORT_COLUMNS[q.sort], order: q.dir }, { column: 'p.id', order: 'asc' }])
     .limit(q.pageSize).offset((q.page - 1) * q.pageSize);
-  return { items: rows.map(view), total: Number(count), lowStockTotal: Number(low), page: q.page, pageSize: q.pageSize };
+  return { items: rows.map(view), total, totalCapped, lowStockTotal: Number(low), page: q.page, pageSize: q.pageSize };
 }
 
 export async function getPart(knex: Knex, id: number) {

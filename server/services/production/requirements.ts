@@ -96,7 +96,8 @@ export async function explodeBoms(db: Db, requests: BomRequest[]): Promise<Requi
       ? db('parts as p').leftJoin('suppliers as s', 's.id', 'p.supplier_id').join('part_stock as ps', 'ps.part_id', 'p.id').whereIn('p.id', partIds)
           .select('p.id', 'p.part_number', 'p.category', 'p.value', 'p.package', 'p.unit_cost_cents', 'p.lead_time_days', 's.name as supplier', 'ps.available')
       : [],
-    batchIds.length && partIds.length ? batchHoldingsMany(db, batchIds, partIds) : [],
+    // Every part a batch holds (a few dozen rows a batch): filtering by part too only made the plan dearer.
+    batchIds.length && partIds.length ? batchHoldingsMany(db, batchIds) : [],
   ]);
   const held = new Map(heldRows.map((h) => [`${h.batch_id}:${h.part_id}`, h]));
   return requests.map((req, i) => {

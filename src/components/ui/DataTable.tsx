@@ -88,16 +88,17 @@ export function DataTable<T>({ data, columns, caption, rowClassName, server }: P
   );
 }
 
-/** "120 orders · page 2 of 5" with previous and next. */
+/** "120 orders · page 2 of 5" with previous and next; past the count cap, "10000+ orders · page 2 of 400+". */
 export function Pager({ listing, label }: { listing: ServerListing; label: string }) {
-  const { page, pageSize, total } = listing.page;
+  const { page, pageSize, total, totalCapped } = listing.page;
   const pages = Math.max(1, Math.ceil(total / pageSize));
   const [one, many] = listing.noun ?? ['row', 'rows'];
+  const more = totalCapped ? '+' : '';
   return (
     <nav aria-label={`${label}: pages`} className="flex flex-wrap items-center gap-3">
-      <span role="status">{total} {total === 1 ? one : many} · page {page} of {pages}</span>
+      <span role="status">{total}{more} {total === 1 && !totalCapped ? one : many} · page {page} of {pages}{more}</span>
       <Button type="button" variant="quiet" disabled={page <= 1} onClick={() => listing.onPage(page - 1)}>Previous page</Button>
-      <Button type="button" variant="quiet" disabled={page >= pages} onClick={() => listing.onPage(page + 1)}>Next page</Button>
+      <Button type="button" variant="quiet" disabled={page >= pages && !totalCapped} onClick={() => listing.onPage(page + 1)}>Next page</Button>
     </nav>
   );
 }
