@@ -1,6 +1,7 @@
 // `npm run bench -- cli`: the profile CLI as a user runs it, whole processes, from the esbuild bundle
 // (scripts/cli.mjs). Three ways in: the bare bundle, the launcher that checks the bundle is fresh
-// (what `npm run profile` runs), and `npm run --silent profile` itself. Target: under 150 ms.
+// (what `npm run profile` runs), and `npm run --silent profile` itself; then the match CLI through
+// its launcher on a 200-reading tray. Target: under 150 ms.
 // Prints wall (median) and CPU per run (children's CPU from /proc, robust to a loaded machine).
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -15,6 +16,12 @@ const TARGET_MS = 150;
 const INPUT = {
   toneHz: 1000, inputPeakV: 0.1, driveGain: 20, railPeakV: 3, harmonics: 10,
   clipper: { topology: 'shunt', seriesOhms: 2200, shuntFarads: 1e-8, positive: [{ preset: 'si-small-signal' }], negative: [{ preset: 'led-red' }] },
+};
+
+// 200 forward-voltage readings (V) spread like one tray of a silicon part, matched into 80 pairs.
+const MATCH_INPUT = {
+  readings: Array.from({ length: 200 }, (_, i) => ({ id: `T1-${String(i + 1).padStart(3, '0')}`, vf: 0.6 + ((i * 37) % 101) / 4000 })),
+  pairs: 80, objective: 'max',
 };
 
 /** Runs the command `reps` times: median wall ms and mean CPU ms per run. */
@@ -38,17 +45,22 @@ function runCliBench() {
   try {
     const file = path.join(dir, 'input.json');
     writeFileSync(file, JSON.stringify(INPUT));
+    const matchFile = path.join(dir, 'match.json');
+    writeFileSync(matchFile, JSON.stringify(MATCH_INPUT));
     // The first run builds the bundle when it is missing or stale; it is not measured.
     measure(process.execPath, ['scripts/cli.mjs', 'profile', file], 1);
+    measure(process.execPath, ['scripts/cli.mjs', 'match', matchFile], 1);
     const rows: [string, string, string[], number][] = [
+      ['node itself, for scale (node -e 0)', process.execPath, ['-e', 'console.log("{}")'], 11],
       ['bundle (node …/kneepoint-cli/profile.mjs)', process.execPath, [path.join('node_modules', '.cache', 'kneepoint-cli', 'profile.mjs'), file], 11],
       ['launcher (node scripts/cli.mjs profile)', process.execPath, ['scripts/cli.mjs', 'profile', file], 11],
       ['npm run --silent profile', 'npm', ['run', '--silent', 'profile', '--', file], 5],
+      ['match launcher (node scripts/cli.mjs match)', process.execPath, ['scripts/cli.mjs', 'match', matchFile], 11],
     ];
     for (const [label, command, args, reps] of rows) {
       const m = measure(command, args, reps);
       console.log(`  cli ${label.padEnd(44)} wall ${m.wall.toFixed(0).padStart(4)} ms, cpu ${m.cpu.toFixed(0).padStart(4)} ms (${reps} runs)` +
-        `${label.startsWith('launcher') ? ` — target < ${TARGET_MS} ms: wall ${m.wall < TARGET_MS ? 'met' : 'NOT met'}, cpu ${m.cpu < TARGET_MS ? 'met' : 'NOT met'} (on a loaded machine read the cpu figure)` : ''}`);
+        `${label.startsWith('launcher') || label.startsWith('match launcher') ? ` — target < ${TARGET_MS} ms: wall ${m.wall < TARGET_MS ? 'met' : 'NOT met'}, cpu ${m.cpu < TARGET_MS ? 'met' : 'NOT met'} (on a loaded machine read the cpu figure)` : ''}`);
     }
   } finally {
     rmSync(dir, { recursive: true, force: true });
