@@ -80,15 +80,17 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
 
 /** Shipments, one page at a time: newest first unless asked otherwise; `delivered` filters. */
 export async function shipmentList(db: Db, params: ShipmentListQuery) {
-  const base = () => {
-    const q = db('shipments as s').join('orders as o', 'o.id', 's.order_id').join('users as u', 'u.id', 'o.customer_id');
+  // Every shipment has its order and customer (foreign keys), so the count joins them only to search.
+  const base = (joined = true) => {
+    const q = db('shipments as s');
+    if (joined) q.join('orders as o', 'o.id', 's.order_id').join('users as u', 'u.id', 'o.customer_id');
     if (params.delivered === true) q.whereNotNull('s.delivered_at');
     if (params.delivered === false) q.whereNull('s.delivered_at');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('s.tracking_number', like)); }
     return q;
   };
   return paged(params, {
-    count: base(),
+    count: base(Boolean(params.q)),
     rows: base().select('s.id', 's.carrier', 's.tracking_number', 's.tracking_url', 's.shipped_at', 's.delivered_at', 's.packing_slip_file_id', 'o.id as order_id', 'o.number', 'o.state', 'u.name as customer_name',
       'o.ship_name', 'o.ship_city', 'o.ship_country'),
     sortColumns: SHIPMENT_SORT, tieBreak: 's.id',
