@@ -137,6 +137,7 @@ async function browserFigures(cliMs: number): Promise<void> {
     await bar.waitFor();
     const total = Number(await bar.getAttribute('max'));
     // The press of Search (the page counts the space before it starts the worker), apart from the run.
+    await page.waitForTimeout(200);
     const pressed = await longTasks(page);
     const during: number[] = [];
     const results = page.getByRole('region', { name: 'Design results' });
