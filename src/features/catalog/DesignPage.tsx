@@ -213,12 +213,30 @@ function candidateCosting(c: DesignedCandidate, space: Device[], caps: Capacitor
   return { bom, unitCostCents: unitCost, surchargeCents: suggestedSurchargeCents(bom.cents, baseline, model.basePriceCents, model.cost?.totalCents ?? null) };
 }
 
+/** The room a chart takes, with its title, until it is drawn (so nothing below it moves). */
+function ChartSpace({ title }: { title: string }) {
+  return (
+    <figure className="rounded-lg bg-white p-4 shadow-sm" aria-busy="true">
+      <figcaption className="mb-2 font-semibold text-spruce-900">{title}</figcaption>
+      <div className="flex h-64 items-center justify-center text-ink-soft">Drawing the chart…</div>
+    </figure>
+  );
+}
+
 /** H2 or H3 in dBc without the unit (the column names it), e.g. "-12.9", or "< -200" for an absent harmonic. */
 const level = (v: number) => (v <= -200 ? `< ${shopFormat().number(-200, 0)}` : shopFormat().number(v, 1));
 
 function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => void; busy: boolean; costing: (c: DesignedCandidate) => Costing }) {
   const { money } = useFormatters();
   const top = result.candidates;
+  // The two charts are drawn one per task after the table: a chart's first draw is a main-thread task of
+  // about 40 ms, so drawn with the table in one task the screen would stall past 50 ms.
+  const [charts, setCharts] = useState(0);
+  useEffect(() => {
+    if (charts >= 2) return;
+    const timer = setTimeout(() => setCharts((n) => n + 1), 0);
+    return () => clearTimeout(timer);
+  }, [charts]);
   // The onset and second-drive columns show only when the target asked for them.
   const hasOnset = top.some((c) => c.onsetDrive !== undefined);
   const hasSecond = top.some((c) => c.second !== undefined);
@@ -238,8 +256,8 @@ function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: 
         {top[0] && top[0].distance > 0 ? ' None meets every range; the nearest are shown.' : ''}
       </Notice>
       <div className="grid gap-4 lg:grid-cols-2">
-        <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} />
-        <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} />
+        {charts >= 1 ? <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} /> : <ChartSpace title="THD_F against drive" />}
+        {charts >= 2 ? <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} /> : <ChartSpace title="H2–H7 at the reference drive" />}
       </div>
       <p className="text-sm text-ink-soft">Parts cost is what the candidate's devices (and capacitor) add to the bill of materials. The suggested surcharge keeps the model's margin (base price ÷ unit cost) on the cost beyond the cheapest existing option, rounded up to 0.50; it is set on an option created from a candidate and can be changed there.</p>
       <div className="overflow-x-auto">
