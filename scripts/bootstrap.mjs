@@ -308,17 +308,17 @@ function test() {
 }
 
 // npm run bench [-- SECTION…] and npm run dataset: figures, never assertions. Sections that need a
-// database get a small seeded one of their own (kneepoint_bench_demo: client, loop, jobs); the api
+// database get a small seeded one of their own (kneepoint_bench_demo: client, loop, jobs, wire, design); the api
 // section and the dataset generator get the production-size one (KP_BENCH_DB, default
-// kneepoint_bench), which `scripts/bench/dataset.ts` fills once. The client section gets a built client.
+// kneepoint_bench), which `scripts/bench/dataset.ts` fills once. The client and design sections get a built client.
 function bench(script) {
   const args = process.argv.slice(3);
   const sections = args.filter((a, i) => !a.startsWith('--') && args[i - 1] !== '--scale');
   const wants = (name) => sections.length === 0 || sections.includes(name);
   const isDataset = script === 'scripts/bench/dataset.ts';
   if (!isDataset && wants('engine') && !existsSync('/usr/bin/ngspice')) aptInstall(['ngspice']);
-  if (!isDataset && wants('client') && !existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
-  const needsDemo = !isDataset && ['client', 'loop', 'jobs', 'wire'].some(wants);
+  if (!isDataset && (wants('client') || wants('design')) && !existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
+  const needsDemo = !isDataset && ['client', 'loop', 'jobs', 'wire', 'design'].some(wants);
   const needsLarge = isDataset || sections.includes('api');
   let env = { ...process.env };
   let stop = () => {};
@@ -335,7 +335,7 @@ function bench(script) {
     startPostgres(bin);
     if (needsDemo) env = { ...prepare('kneepoint_bench_demo', false).env, SESSION_SECRET: 'test-secret-bench-not-for-production', KP_BROWSER: '/usr/bin/chromium' };
     if (needsLarge) env.BENCH_DATABASE_URL = ensureDatabase(bin, bigName, { recreate: false });
-    if (!isDataset && wants('client') && !run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
+    if (!isDataset && (wants('client') || wants('design')) && !run(path.join(ROOT, 'node_modules', '.bin', 'vite'), ['build', '--logLevel', 'warn'])) fail('client build failed.');
     stop = () => {
       rmSync(marker, { force: true });
       if (!otherUsersOfCluster()) stopPostgres(bin);

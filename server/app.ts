@@ -17,6 +17,7 @@ import { clientFiles } from './http/static-files';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { settingsRoutes } from './routes/settings';
+import { designRoutes } from './routes/designs';
 import { profileRoutes } from './routes/profiles';
 import { userRoutes } from './routes/users';
 import { assemblerRoutes } from './routes/assemblers';
@@ -79,6 +80,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...userRoutes(knex),
     ...settingsRoutes(knex),
     ...profileRoutes(knex, config),
+    ...designRoutes(),
     ...shopRoutes(knex),
     ...orderRoutes(knex, config),
     ...paymentRoutes(knex, config),

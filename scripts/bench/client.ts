@@ -11,17 +11,19 @@ import type { BenchSection } from './engine';
 interface ShopModel { id: number; name: string; options: { id: number; name: string }[] }
 
 /** Records every long task of the page from its first script on, into window.__longTasks. */
-const OBSERVE_LONG_TASKS = `
+export const OBSERVE_LONG_TASKS = `
   window.__longTasks = [];
   new PerformanceObserver((list) => { for (const e of list.getEntries()) window.__longTasks.push(e.duration); })
     .observe({ type: 'longtask', buffered: true });
 `;
 
-async function longTasks(page: Page): Promise<number[]> {
+/** The long tasks recorded since the last call (and clears them). */
+export async function longTasks(page: Page): Promise<number[]> {
   return page.evaluate(() => (window as unknown as { __longTasks: number[] }).__longTasks.splice(0));
 }
 
-const worst = (xs: number[]): string => (xs.length === 0 ? 'none' : `${Math.max(...xs).toFixed(0)} ms (${xs.length} over 50 ms)`);
+/** The longest of some long tasks, e.g. "72 ms (3 over 50 ms)", or "none". */
+export const worst = (xs: number[]): string => (xs.length === 0 ? 'none' : `${Math.max(...xs).toFixed(0)} ms (${xs.length} over 50 ms)`);
 
 async function signIn(page: Page, url: string, email: string): Promise<void> {
   await page.goto(`${url}/sign-in`);

@@ -68,6 +68,22 @@ export const compute = {
   wavCapture: (file: Arg<'wavCapture'>) => run('wavCapture', file),
   unitPrediction: (a: Arg<'unitPrediction'>) => run('unitPrediction', a),
   batchMatching: (a: Arg<'batchMatching'>) => run('batchMatching', a),
+  /**
+   * The option designer's search; when `signal` aborts, the search stops at its next candidate and
+   * answers what it has (`cancelled: true`). A shared flag rather than piscina's own abort, which would
+   * end the thread and make the next task wait for a new one.
+   */
+  designSearch: async (body: unknown, signal?: AbortSignal) => {
+    const stop = new Int32Array(new SharedArrayBuffer(4));
+    const raise = () => Atomics.store(stop, 0, 1);
+    if (signal?.aborted) raise();
+    signal?.addEventListener('abort', raise, { once: true });
+    try {
+      return await run('designSearch', { body, stop });
+    } finally {
+      signal?.removeEventListener('abort', raise);
+    }
+  },
 };
 
 /** Starts the pool's first thread now (a server at start-up), so the first request does not wait for it. */

@@ -10,6 +10,7 @@ import { renderAddressLabel, renderSerialLabels, type AddressLabelInput, type Se
 import { renderPackingSlip, type SlipInput } from '../pdf/packing-slip';
 import { renderSpecSheet } from '../pdf/spec-sheet';
 import type { SpecSheetData } from '../pdf/spec-sheet-data';
+import { computeDesign } from '../services/engine/designs';
 import { computeContractProfile } from '../services/engine/profiles';
 import { analyseWav } from '../services/production/capture';
 import { zipArchive } from '../services/spec-sheets/zip';
@@ -90,3 +91,9 @@ export const unitPrediction = ({ spec, devices, testCurrentA }: UnitPredictionIn
 
 /** A batch's device matching from its trays (shared/matching/batch.ts): engine solves for every cross pair and baseline. */
 export const batchMatching = (input: PlanInput) => outcome(() => planBatchMatching(input));
+
+/**
+ * The option designer's search (POST /api/designs/search). `stop` is a flag shared with the caller (an
+ * Int32Array over a SharedArrayBuffer): set to 1, the search ends at the next candidate with `cancelled`.
+ */
+export const designSearch = (a: { body: unknown; stop: Int32Array }) => outcome(() => computeDesign(a.body, () => Atomics.load(a.stop, 0) !== 0));

@@ -5,4 +5,4 @@ import { register } from 'tsx/esm/api';
 register();
 const tasks = await import('./tasks.ts');
 
-export const { contractProfile, sheetBand, specSheetProfile, specSheetPdf, packingSlipPdf, invoicePdf, addressLabelPdf, serialLabelsPdf, zipEntries, wavCapture, unitPrediction, batchMatching } = tasks;
+export const { contractProfile, sheetBand, specSheetProfile, specSheetPdf, packingSlipPdf, invoicePdf, addressLabelPdf, serialLabelsPdf, zipEntries, wavCapture, unitPrediction, batchMatching, designSearch } = tasks;

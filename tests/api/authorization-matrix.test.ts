@@ -29,6 +29,8 @@ export const MATRIX: Record<string, Rule> = {
   'PUT /api/settings/logo': ['owner'],
   'DELETE /api/settings/logo': ['owner'],
   'POST /api/profiles': 'signed-in',
+  // Option designer (issue 13): the owner's search in the compute pool.
+  'POST /api/designs/search': ['owner'],
   // Catalog (issue 4)
   'GET /api/models': 'public',
   'GET /api/models/:id': 'public',

@@ -29,6 +29,8 @@ const KEYS = [
   'labourCentsPerHour', 'homeCountry', 'ossOverThreshold', 'pricesIncludeTax', 'shippingZones', 'vfTestCurrentMa',
   'thdTolerancePercent', 'harmonicToleranceDb', 'maxCurrentDrawMa', 'fastStepPercent', 'paperSize', 'sheetStaffNames', 'carriers', 'country',
   'confirmFast',
+  'toneHz', 'inputPeakV', 'driveGain', 'railPeakV', 'temperatureC', 'harmonics', 'devices', 'maxPerSide', 'symmetry', 'topologies',
+  'seriesOhms', 'feedbackOhms', 'groundOhms', 'capacitorFarads', 'target', 'limit',
   'deviceId', 'supplierLot', 'receivedOn', 'notes', 'firstSlot', 'trayIds', 'units', 'slots', 'slot', 'vf', 'slotId', 'optionDeviceId',
 ];
 const QUERY_KEYS = ['deviceId', 'q', 'size', 'search', 'from', 'to', 'partId', 'optionId', 'batchId', 'state', 'status', 'page', 'pageSize', 'sort', 'dir', 'category', 'lowStock', 'limit', 'offset', 'cursor'];

@@ -6,7 +6,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { ONSET_NEVER_PERCENT, countCandidates, designSearch, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
+import { ONSET_NEVER_PERCENT, countCandidates, designSearch, enumerateCandidates, parseDesignInput, runDesign, targetDistance, type DesignCandidate } from '../../shared/design/search';
 import { candidateBom, capacitanceFromValue, suggestedSurchargeCents } from '../../shared/design/costing';
 import { eSeriesValues } from '../../shared/design/schema';
 import { DEVICE_PRESETS, clippingOnset, computeProfile, driveSweep, findPreset, onsetDrive, runContract, type CircuitSpec, type ContractOutput } from '../../shared/engine/index';
@@ -164,6 +164,37 @@ describe('option designer: the onset and a second drive level', () => {
       expect(onsetDrive(spec)).toBe(computeProfile(spec).clippingOnsetDrive);
       expect(onsetDrive(spec)).toBe(clippingOnset(driveSweep(spec, 25)));
     }
+  });
+
+  it("bisects a static network's sweep to the same onset as walking all of it, at every crossing, at drive 0 and never", () => {
+    // Every circuit of a space at two drive stages: THD_F rises with the drive, so bisection over the
+    // sweep's own points gives the sweep's first crossing exactly.
+    const stages = [
+      { ...CONTROL, inputPeakV: 0.1, railPeakV: 4.5 },
+      { minGain: 2, maxGain: 500, taper: 'linear' as const, inputPeakV: 0.03, railPeakV: 9 },
+    ];
+    const parsed = parseDesignInput({ ...SPACE, maxPerSide: 3, topologies: ['shunt', 'feedback', 'none'], target: { thdFPercent: [0, 1] } });
+    const seen = new Set<string>();
+    for (const drive of stages) {
+      for (const c of enumerateCandidates(parsed.input, parsed.devices)) {
+        const spec: CircuitSpec = { clipper: roundTrip(c.clipper), toneHz: 1000, temperatureC: 27, drive };
+        const walked = clippingOnset(driveSweep(spec, 25));
+        expect(onsetDrive(spec)).toBe(walked);
+        seen.add(walked === null ? 'never' : walked === 0 ? 'at 0' : 'between');
+      }
+    }
+    // The space holds onsets between sweep points and at drive 0.
+    expect([...seen].sort()).toEqual(['at 0', 'between']);
+    // Above 1 % from the start (germanium, a hot input), and never (no clipper, a rail out of reach).
+    const hot: CircuitSpec = { ...circuitOf({ topology: 'shunt', seriesOhms: 1000, positive: [{ preset: 'germanium-point-contact' }], negative: [{ preset: 'germanium-point-contact' }] }), drive: { ...CONTROL, inputPeakV: 2, railPeakV: null } };
+    expect(clippingOnset(driveSweep(hot, 25))).toBe(0);
+    expect(onsetDrive(hot)).toBe(0);
+    const clean: CircuitSpec = { ...circuitOf({ topology: 'none' }), drive: { ...CONTROL, inputPeakV: 0.1, railPeakV: 1000 } };
+    expect(clippingOnset(driveSweep(clean, 25))).toBeNull();
+    expect(onsetDrive(clean)).toBeNull();
+    // Other sweep sizes too (computeProfile's sweepPoints).
+    const si = circuitOf({ topology: 'shunt', seriesOhms: 4700, positive: [{ preset: 'si-small-signal' }], negative: [{ preset: 'led-red' }] });
+    for (const points of [2, 3, 13, 101]) expect(onsetDrive(si, points)).toBe(clippingOnset(driveSweep(si, points)));
   });
 
   it("gives every candidate the profile's onset and the profile CLI's output at the second gain", () => {

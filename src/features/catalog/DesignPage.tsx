@@ -15,7 +15,7 @@ import { ErrorState, Loading, Notice, PageHeader } from '../../components/ui/sta
 import { useFormatters } from '../../lib/format';
 import { useCreateOption, useDevices, useModel, usePartsPage, type Device, type ModelDetail } from './api';
 import type { DesignedCandidate, DesignRequest, DesignResponse } from './design-messages';
-import { dbc, percent } from './units';
+import { farads, ohms, percent } from './units';
 
 const DEFAULTS = {
   thdLo: 5, thdHi: 15, space: 'stocked', symmetry: 'any', maxPerSide: 2, shunt: true, feedback: true,
@@ -213,15 +213,42 @@ function candidateCosting(c: DesignedCandidate, space: Device[], caps: Capacitor
   return { bom, unitCostCents: unitCost, surchargeCents: suggestedSurchargeCents(bom.cents, baseline, model.basePriceCents, model.cost?.totalCents ?? null) };
 }
 
+/** The room a chart takes, with its title, until it is drawn (so nothing below it moves). */
+function ChartSpace({ title }: { title: string }) {
+  return (
+    <figure className="rounded-lg bg-white p-4 shadow-sm" aria-busy="true">
+      <figcaption className="mb-2 font-semibold text-spruce-900">{title}</figcaption>
+      <div className="flex h-64 items-center justify-center text-ink-soft">Drawing the chart…</div>
+    </figure>
+  );
+}
+
+/** H2 or H3 in dBc without the unit (the column names it), e.g. "-12.9", or "< -200" for an absent harmonic. */
+const level = (v: number) => (v <= -200 ? `< ${shopFormat().number(-200, 0)}` : shopFormat().number(v, 1));
+
 function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: (c: DesignedCandidate, rank: number) => void; busy: boolean; costing: (c: DesignedCandidate) => Costing }) {
   const { money } = useFormatters();
   const top = result.candidates;
+  // The two charts are drawn one per task after the table: a chart's first draw is a main-thread task of
+  // about 40 ms, so drawn with the table in one task the screen would stall past 50 ms.
+  const [charts, setCharts] = useState(0);
+  useEffect(() => {
+    if (charts >= 2) return;
+    const timer = setTimeout(() => setCharts((n) => n + 1), 0);
+    return () => clearTimeout(timer);
+  }, [charts]);
+  // The onset and second-drive columns show only when the target asked for them.
+  const hasOnset = top.some((c) => c.onsetDrive !== undefined);
+  const hasSecond = top.some((c) => c.second !== undefined);
   const onset = (c: DesignedCandidate) => (c.onsetDrive === undefined ? '—' : c.onsetDrive === null ? 'never' : `${Math.round(c.onsetDrive * 100)} %`);
   const circuit = (c: DesignedCandidate) => {
     const f = c.clipper.topology === 'feedback' ? c.clipper.feedbackFarads : c.clipper.shuntFarads;
-    const cap = f > 0 ? ` + ${Number((f * 1e9).toPrecision(3))} nF` : '';
-    return c.clipper.topology === 'shunt' ? `shunt, ${c.clipper.seriesOhms} Ω${cap}` : `feedback${cap}`;
+    const cap = f > 0 ? ` + ${farads(f)}` : '';
+    return c.clipper.topology === 'shunt' ? `Shunt, ${ohms(c.clipper.seriesOhms)}${cap}` : `Feedback${cap}`;
   };
+  const th = 'px-1.5 py-2 align-bottom';
+  const td = 'px-1.5 py-2';
+  const num = `${td} whitespace-nowrap text-right font-mono`;
   return (
     <section className="mt-6 flex flex-col gap-4" aria-label="Design results">
       <Notice tone={top[0]?.distance === 0 ? 'good' : 'info'}>
@@ -229,26 +256,38 @@ function Results({ result, onCreate, busy, costing }: { result: Done; onCreate: 
         {top[0] && top[0].distance > 0 ? ' None meets every range; the nearest are shown.' : ''}
       </Notice>
       <div className="grid gap-4 lg:grid-cols-2">
-        <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} />
-        <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} />
+        {charts >= 1 ? <ThdDriveChart series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, points: c.sweep }))} /> : <ChartSpace title="THD_F against drive" />}
+        {charts >= 2 ? <SpectrumBars title="H2–H7 at the reference drive" series={top.slice(0, 5).map((c, i) => ({ label: `#${i + 1}`, dbc: c.at.harmonics.slice(1, 7).map((h) => h.dbc) }))} /> : <ChartSpace title="H2–H7 at the reference drive" />}
       </div>
       <p className="text-sm text-ink-soft">Parts cost is what the candidate's devices (and capacitor) add to the bill of materials. The suggested surcharge keeps the model's margin (base price ÷ unit cost) on the cost beyond the cheapest existing option, rounded up to 0.50; it is set on an option created from a candidate and can be changed there.</p>
       <div className="overflow-x-auto">
-      <table className="w-full rounded-lg bg-white text-left shadow-sm">
-        <caption className="p-2 text-left font-semibold text-spruce-900">The nearest ten</caption>
-        <thead className="bg-spruce-100"><tr><th className="p-2">#</th><th className="p-2">Circuit</th><th className="p-2">Positive</th><th className="p-2">Negative</th><th className="p-2">THD_F</th><th className="p-2">H2</th><th className="p-2">H3</th><th className="p-2">Out (V pk)</th><th className="p-2">Onset</th><th className="p-2">THD_F at 2nd</th><th className="p-2">Parts added</th><th className="p-2">Parts cost</th><th className="p-2">Unit cost</th><th className="p-2">Suggested surcharge</th><th className="p-2">Distance</th><th className="p-2" /></tr></thead>
+      <table className="w-full rounded-lg bg-white text-left text-sm shadow-sm">
+        <caption className="p-2 text-left text-base font-semibold text-spruce-900">The nearest ten</caption>
+        <thead className="bg-spruce-100"><tr>
+          <th className={th}>#</th><th className={th}>Circuit and parts</th>
+          <th className={`${th} text-right`}>THD_F</th><th className={`${th} text-right`}>H2 (dBc)</th><th className={`${th} text-right`}>H3 (dBc)</th>
+          <th className={`${th} text-right`}>Out (V pk)</th>
+          {hasOnset ? <th className={`${th} text-right`}>Onset</th> : null}
+          {hasSecond ? <th className={`${th} text-right`}>THD_F at 2nd drive</th> : null}
+          <th className={`${th} text-right`}>Parts cost</th><th className={`${th} text-right`}>Unit cost</th><th className={`${th} text-right`}>Suggested surcharge</th>
+          <th className={`${th} text-right`}>Distance</th><th className={th}><span className="sr-only">Action</span></th>
+        </tr></thead>
         <tbody>{top.map((c, i) => { const k = costing(c); return (
-          <tr key={i} className="border-t">
-            <td className="p-2">{i + 1}</td>
-            <td className="p-2">{circuit(c)}</td>
-            <td className="p-2">{side(c.strings.positive)}</td><td className="p-2">{side(c.strings.negative)}</td>
-            <td className="p-2 font-mono">{percent(c.at.thdF)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[1].dbc)}</td><td className="p-2 font-mono">{dbc(c.at.harmonics[2].dbc)}</td>
-            <td className="p-2 font-mono">{shopFormat().number(c.at.fundamentalPeakV, 2)}</td>
-            <td className="p-2 font-mono">{onset(c)}</td><td className="p-2 font-mono">{c.second ? percent(c.second.thdF) : '—'}</td>
-            <td className="p-2 text-sm">{k.bom.lines.map((l) => `${l.quantity} × ${l.partNumber}`).join(', ') || 'none'}{k.bom.unlinked.length ? ` (no part linked: ${k.bom.unlinked.join(', ')})` : ''}</td>
-            <td className="p-2 font-mono">{money(k.bom.cents)}</td><td className="p-2 font-mono">{k.unitCostCents === null ? '—' : money(k.unitCostCents)}</td><td className="p-2 font-mono">{money(k.surchargeCents)}</td>
-            <td className="p-2 font-mono">{shopFormat().number(c.distance, 3)}</td>
-            <td className="p-2"><Button type="button" variant="secondary" busy={busy} onClick={() => onCreate(c, i + 1)}>Create option from this</Button></td>
+          <tr key={i} className="border-t align-top">
+            <td className={td}>{i + 1}</td>
+            <td className={`${td} min-w-72`}>
+              <span className="block font-semibold">{circuit(c)}</span>
+              <span className="block">+ {side(c.strings.positive)}</span>
+              <span className="block">− {side(c.strings.negative)}</span>
+              <span className="block text-ink-soft">Adds {k.bom.lines.map((l) => `${l.quantity} × ${l.partNumber}`).join(', ') || 'no parts'}{k.bom.unlinked.length ? ` (no part linked: ${k.bom.unlinked.join(', ')})` : ''}</span>
+            </td>
+            <td className={num}>{percent(c.at.thdF)}</td><td className={num}>{level(c.at.harmonics[1].dbc)}</td><td className={num}>{level(c.at.harmonics[2].dbc)}</td>
+            <td className={num}>{shopFormat().number(c.at.fundamentalPeakV, 2)}</td>
+            {hasOnset ? <td className={num}>{onset(c)}</td> : null}
+            {hasSecond ? <td className={num}>{c.second ? percent(c.second.thdF) : '—'}</td> : null}
+            <td className={num}>{money(k.bom.cents)}</td><td className={num}>{k.unitCostCents === null ? '—' : money(k.unitCostCents)}</td><td className={num}>{money(k.surchargeCents)}</td>
+            <td className={num}>{shopFormat().number(c.distance, 3)}</td>
+            <td className={td}><Button type="button" variant="secondary" className="whitespace-nowrap" busy={busy} onClick={() => onCreate(c, i + 1)}>Create option</Button></td>
           </tr>
         ); })}</tbody>
       </table>
