@@ -1,4 +1,4 @@
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContextOptions, type Page } from 'playwright-core';
 import { afterAll, beforeAll, expect } from 'vitest';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
@@ -70,10 +70,10 @@ export async function signIn(page: Page, baseUrl: string, email: string, options
   else await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
 }
 
-/** A new page in the file's browser, of the given size (and touch), signed in as `email` (see signIn). */
-export async function signedInPage(app: BrowserApp, email: string, options: { viewport: { width: number; height: number }; hasTouch?: boolean; home?: string }) {
-  const page = await app.browser.newPage({ viewport: options.viewport, hasTouch: options.hasTouch });
-  await signIn(page, app.url, email, { home: options.home });
+/** A new page in the file's browser (Playwright's page options: viewport, hasTouch, acceptDownloads…), signed in as `email` (see signIn). */
+export async function signedInPage(app: BrowserApp, email: string, { home, ...pageOptions }: BrowserContextOptions & { home?: string }) {
+  const page = await app.browser.newPage(pageOptions);
+  await signIn(page, app.url, email, { home });
   return page;
 }
 
