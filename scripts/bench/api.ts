@@ -17,6 +17,7 @@ import { createBatch } from '../../server/services/production/planning';
 import { releaseBatch } from '../../server/services/production/release';
 import { benchDatabaseUrl, ensureDataset, scaleFromArgs } from './dataset';
 import type { BenchSection } from './engine';
+import { pollHealth } from './health-poll';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const CONNECTIONS = 50;
@@ -94,16 +95,7 @@ async function ensureArchiveBatch(url: string): Promise<number> {
 
 /** The web process's event-loop delay (p99 and max, ms) and /api/health latencies while `work` runs. */
 async function watchWeb(app: ChildProcess, base: string, work: () => Promise<void>) {
-  const health: number[] = [];
-  let running = true;
-  const poller = (async () => {
-    while (running) {
-      const t = performance.now();
-      await fetch(`${base}/api/health`).then((r) => r.arrayBuffer());
-      health.push(performance.now() - t);
-      await new Promise((resolve) => setTimeout(resolve, 20));
-    }
-  })();
+  const polling = pollHealth(base);
   const reply = new Promise<{ p99: number; max: number }>((resolve) => app.once('message', (m) => resolve(m as { p99: number; max: number })));
   app.send('loop:start');
   const started = performance.now();
@@ -111,8 +103,7 @@ async function watchWeb(app: ChildProcess, base: string, work: () => Promise<voi
   const seconds = (performance.now() - started) / 1000;
   app.send('loop:stop');
   const loop = await reply;
-  running = false;
-  await poller;
+  const health = await polling.stop();
   health.sort((a, b) => a - b);
   return { ...loop, seconds, healthP95: quantile(health, 0.95), polls: health.length };
 }

@@ -14,6 +14,7 @@ import { createBatch } from '../../server/services/production/planning';
 import { releaseBatch } from '../../server/services/production/release';
 import { claimSheetJob, requestBatchSheets, runSheetJob } from '../../server/services/spec-sheets/batch-jobs';
 import type { BenchSection } from './engine';
+import { pollHealth } from './health-poll';
 
 const TARGET_P99_MS = 50;
 const UNITS = 100;
@@ -31,23 +32,13 @@ const pct = (xs: number[], p: number) => {
 /** Runs `work` while sampling the event loop and polling /api/health; returns the figures. */
 async function measure(base: string, work: () => Promise<unknown>) {
   const loop = monitorEventLoopDelay({ resolution: 5 });
-  const health: number[] = [];
-  let running = true;
-  const poller = (async () => {
-    while (running) {
-      const t = performance.now();
-      await fetch(`${base}/api/health`).then((r) => r.arrayBuffer());
-      health.push(performance.now() - t);
-      await new Promise((resolve) => setTimeout(resolve, 20));
-    }
-  })();
+  const polling = pollHealth(base);
   loop.enable();
   const started = performance.now();
   await work();
   const seconds = (performance.now() - started) / 1000;
   loop.disable();
-  running = false;
-  await poller;
+  const health = await polling.stop();
   const ms = (ns: number) => ns / 1e6;
   return { p99: ms(loop.percentile(99)), max: ms(loop.max), h50: pct(health, 50), h95: pct(health, 95), n: health.length, seconds };
 }

@@ -1,50 +1,27 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import wavefile from 'wavefile';
 import { PDFParse } from 'pdf-parse';
 import { formatDbc, formatPercent } from '../../server/pdf/spec-sheet';
-import { anonymousAgent, DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+import { anonymousAgent, type TestAgent } from '../support/app';
 import { makeCatalog } from './production-fixture';
+import { buildAsJuno, readyJuno, useProductionApp } from './production-setup';
 
 // Capture first: POST /api/captures/analyse reads a bench capture and records nothing; a test saved
 // from a capture takes its THD and harmonics from it; a typed THD is needed only without one.
 
-const t = startTestApp();
-afterAll(() => t.stop());
+const { t, crew } = useProductionApp(['planner', 'owner', 'juno', 'tester', 'customer']);
 const { WaveFile } = wavefile;
-
-let planner: TestAgent;
-let owner: TestAgent;
-let juno: TestAgent;
-let tester: TestAgent;
-let customer: TestAgent;
-
-beforeAll(async () => {
-  planner = await signedInAgent(t.app, DEMO.planner);
-  owner = await signedInAgent(t.app, DEMO.owner);
-  juno = await signedInAgent(t.app, DEMO.assembler);
-  tester = await signedInAgent(t.app, DEMO.tester);
-  customer = await signedInAgent(t.app, DEMO.customer);
-});
 
 /** One stock build of the silicon-against-LED option, built by Juno with Vf readings: waiting for its bench test. */
 async function builtUnit() {
   const c = await makeCatalog(t.knex);
-  const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
-  await planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-  await planner.post(`/api/batches/${body.id}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+  const { body } = await crew.planner.post('/api/batches').set('X-CSRF-Token', crew.planner.csrf).send({ revisionId: c.revisionId, stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
+  await crew.planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+  await crew.planner.post(`/api/batches/${body.id}/kit`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
   const [unit] = await t.knex('units').where({ batch_id: body.id });
-  const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
-  await planner.put(`/api/assemblers/${junoId}`).set('X-CSRF-Token', planner.csrf).send({ skills: ['through-hole', 'device-matching', 'enclosure', 'smd-rework', 'final-check'], dailyCapacityMinutes: 420 }).expect(200);
-  await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: junoId, date: '2027-01-05' }] }).expect(200);
-  for (const step of c.steps) {
-    await juno.post(`/api/units/${unit.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
-    await juno.post(`/api/units/${unit.id}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({ confirmFast: true }).expect(200);
-  }
-  const detail = await juno.get(`/api/units/${unit.id}`).expect(200);
-  const readings = detail.body.devices.map((d: { optionDeviceId: number; nominalVf: number }) => ({ optionDeviceId: d.optionDeviceId, vf: Number((d.nominalVf + 0.004).toFixed(3)) }));
-  await juno.put(`/api/units/${unit.id}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings }).expect(200);
-  await juno.put(`/api/units/${unit.id}/lots`).set('X-CSRF-Token', juno.csrf).send({ lots: [{ bomLineId: c.pcbLine, lot: 'PCB-LOT-9' }] }).expect(200);
-  await juno.post(`/api/units/${unit.id}/built`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+  const junoId = await readyJuno(t.knex, crew.planner);
+  await crew.planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', crew.planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: junoId, date: '2027-01-05' }] }).expect(200);
+  await buildAsJuno(t.knex, crew.juno, unit.id, c);
   return (await t.knex('units').where({ id: unit.id }).first()) as { id: number; serial: string; predicted: { thdPercent: number; harmonics: { order: number; dbc: number }[] } };
 }
 
@@ -80,7 +57,7 @@ function captureOfPrediction(predicted: { order: number; dbc: number }[], shiftD
 
 /** The unit's spec sheet as text (pdf-parse). */
 async function sheetText(serial: string) {
-  const res = await planner.get(`/api/units/${serial}/spec-sheet.pdf`).buffer(true)
+  const res = await crew.planner.get(`/api/units/${serial}/spec-sheet.pdf`).buffer(true)
     .parse((r, cb) => { const b: Buffer[] = []; r.on('data', (d: Buffer) => b.push(d)); r.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
   const parser = new PDFParse({ data: new Uint8Array(res.body as Buffer) });
   const { text } = await parser.getText();
@@ -95,7 +72,7 @@ describe('POST /api/captures/analyse', () => {
     const before = { tests: (await t.knex('test_records').count({ n: '*' }).first())!.n, files: (await t.knex('files').count({ n: '*' }).first())!.n };
     // H1 at 0.5 of full scale, H2 = 10 % and H3 = 5 % of it: THD_F = √(0.1² + 0.05²) = 11.180 %,
     // THD_R = THD_F / √(1 + THD_F²) = 11.111 % (the definitions, closed form).
-    const res = await analyse(tester).attach('capture', wav([0.5, 0.05, 0.025]), 'bench.wav').expect(200);
+    const res = await analyse(crew.tester).attach('capture', wav([0.5, 0.05, 0.025]), 'bench.wav').expect(200);
     expect(Object.keys(res.body).sort()).toEqual(['bitsPerSample', 'channels', 'durationS', 'fundamentalHz', 'harmonics', 'sampleRate', 'thdFPercent', 'thdRPercent']);
     expect(res.body).toMatchObject({ sampleRate: 48000, channels: 1, bitsPerSample: 16 });
     expect(res.body.fundamentalHz).toBeCloseTo(1000.3, 1);
@@ -115,52 +92,52 @@ describe('POST /api/captures/analyse', () => {
   });
 
   it('reads a full-scale sine as 1.0, from 16-bit PCM and from 32-bit float alike', async () => {
-    const pcm = await analyse(planner).attach('capture', wav([1], { sampleRate: 44100 }), 'full.wav').expect(200);
+    const pcm = await analyse(crew.planner).attach('capture', wav([1], { sampleRate: 44100 }), 'full.wav').expect(200);
     expect(pcm.body.harmonics[0].amplitudeFs).toBeCloseTo(1, 3);
-    const float = await analyse(owner).attach('capture', wav([1], { bits: '32f', sampleRate: 96000, channels: 2 }), 'full.wav').expect(200);
+    const float = await analyse(crew.owner).attach('capture', wav([1], { bits: '32f', sampleRate: 96000, channels: 2 }), 'full.wav').expect(200);
     expect(float.body).toMatchObject({ bitsPerSample: 32, channels: 2, sampleRate: 96000 });
     expect(float.body.harmonics[0].amplitudeFs).toBeCloseTo(1, 3);
   });
 
   it('is for the tester, planner and owner only', async () => {
     const file = wav([0.5, 0.05]);
-    expect((await analyse(juno).attach('capture', file, 'bench.wav')).status).toBe(403);
-    expect((await analyse(customer).attach('capture', file, 'bench.wav')).status).toBe(403);
+    expect((await analyse(crew.juno).attach('capture', file, 'bench.wav')).status).toBe(403);
+    expect((await analyse(crew.customer).attach('capture', file, 'bench.wav')).status).toBe(403);
     const visitor = await anonymousAgent(t.app);
     const anonymous = await visitor.post('/api/captures/analyse').set('X-CSRF-Token', visitor.csrf).attach('capture', file, 'bench.wav');
     expect(anonymous.status).toBe(401);
   });
 
   it('refuses bad files with the test upload’s limits and words', async () => {
-    const missing = await analyse(tester).field('unitId', '');
+    const missing = await analyse(crew.tester).field('unitId', '');
     expect(missing.status).toBe(400);
     expect(missing.body.error.fields.capture).toMatch(/Choose a WAV file/);
-    const notWav = await analyse(tester).attach('capture', Buffer.from('hello, not audio at all'), 'capture.wav');
+    const notWav = await analyse(crew.tester).attach('capture', Buffer.from('hello, not audio at all'), 'capture.wav');
     expect(notWav.status).toBe(400);
     expect(notWav.body.error.fields.capture).toMatch(/Not a WAV file/);
-    const text = await analyse(tester).attach('capture', Buffer.from('notes'), { filename: 'notes.txt', contentType: 'text/plain' });
+    const text = await analyse(crew.tester).attach('capture', Buffer.from('notes'), { filename: 'notes.txt', contentType: 'text/plain' });
     expect(text.status).toBe(400);
     expect(text.body.error.fields.capture).toBe('Only .wav files');
-    const rate = await analyse(tester).attach('capture', wav([0.5, 0.05], { sampleRate: 22050 }), 'capture.wav');
+    const rate = await analyse(crew.tester).attach('capture', wav([0.5, 0.05], { sampleRate: 22050 }), 'capture.wav');
     expect(rate.status).toBe(400);
     expect(rate.body.error.fields.capture).toMatch(/22050 Hz: use 44\.1, 48 or 96 kHz/);
-    const short = await analyse(tester).attach('capture', wav([0.5, 0.05], { seconds: 0.05 }), 'capture.wav');
+    const short = await analyse(crew.tester).attach('capture', wav([0.5, 0.05], { seconds: 0.05 }), 'capture.wav');
     expect(short.status).toBe(400);
     expect(short.body.error.fields.capture).toMatch(/0\.05 s/);
-    const silent = await analyse(tester).attach('capture', wav([0]), 'capture.wav');
+    const silent = await analyse(crew.tester).attach('capture', wav([0]), 'capture.wav');
     expect(silent.status).toBe(400);
     expect(silent.body.error.message).toMatch(/No test tone/);
-    const big = await analyse(tester).attach('capture', Buffer.alloc(13 * 1024 * 1024, 1), 'capture.wav');
+    const big = await analyse(crew.tester).attach('capture', Buffer.alloc(13 * 1024 * 1024, 1), 'capture.wav');
     expect(big.status).toBe(413);
     expect(big.body.error.message).toMatch(/larger than 12 MB/);
-    const wrongField = await analyse(tester).attach('file', wav([0.5]), 'capture.wav');
+    const wrongField = await analyse(crew.tester).attach('file', wav([0.5]), 'capture.wav');
     expect(wrongField.status).toBe(400);
     expect(wrongField.body.error.message).toMatch(/“capture” field/);
   });
 
   it('with unitId puts the unit’s prediction at the reference setting and the comparison beside the reading', async () => {
     const unit = await builtUnit();
-    const res = await analyse(tester).field('unitId', String(unit.id)).attach('capture', captureOfPrediction(unit.predicted.harmonics), 'bench.wav').expect(200);
+    const res = await analyse(crew.tester).field('unitId', String(unit.id)).attach('capture', captureOfPrediction(unit.predicted.harmonics), 'bench.wav').expect(200);
     expect(res.body.unit).toEqual({ id: unit.id, serial: unit.serial });
     expect(res.body.prediction.referenceDrive).toBe(0.5);
     expect(res.body.prediction.thdFPercent).toBeCloseTo(unit.predicted.thdPercent, 6);
@@ -177,7 +154,7 @@ describe('POST /api/captures/analyse', () => {
     expect(h2.measuredDbc).toBeGreaterThan(h2.lowDbc);
     expect(h2.measuredDbc).toBeLessThan(h2.highDbc);
 
-    const off = await analyse(planner).field('unitId', String(unit.id)).attach('capture', captureOfPrediction(unit.predicted.harmonics, { 3: 8 }), 'bench.wav').expect(200);
+    const off = await analyse(crew.planner).field('unitId', String(unit.id)).attach('capture', captureOfPrediction(unit.predicted.harmonics, { 3: 8 }), 'bench.wav').expect(200);
     expect(off.body.comparison.within).toBe(false);
     expect(off.body.comparison.harmonics[1].within).toBe(false);
     expect(off.body.comparison.problems.join(' ')).toMatch(/H3 measured −[\d.]+ dBc against the predicted −[\d.]+ dBc \(±3 dB\)/);
@@ -185,9 +162,9 @@ describe('POST /api/captures/analyse', () => {
   });
 
   it('answers 404 for a unit that does not exist and 400 for a malformed unitId', async () => {
-    const missing = await analyse(tester).field('unitId', '2147483000').attach('capture', wav([0.5, 0.05]), 'bench.wav');
+    const missing = await analyse(crew.tester).field('unitId', '2147483000').attach('capture', wav([0.5, 0.05]), 'bench.wav');
     expect(missing.status).toBe(404);
-    const bad = await analyse(tester).field('unitId', '12abc').attach('capture', wav([0.5, 0.05]), 'bench.wav');
+    const bad = await analyse(crew.tester).field('unitId', '12abc').attach('capture', wav([0.5, 0.05]), 'bench.wav');
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields.unitId).toBe('Choose a unit');
   });
@@ -197,35 +174,35 @@ describe('saving a bench test', () => {
   it('refuses a test with neither a capture nor a typed THD (an empty box is not 0 %)', async () => {
     const unit = await builtUnit();
     for (const typed of [undefined, '', '   ']) {
-      let req = tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass');
+      let req = crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass');
       if (typed !== undefined) req = req.field('measuredThdPercent', typed);
       const res = await req;
       expect(res.status).toBe(400);
       expect(res.body.error.fields.measuredThdPercent).toMatch(/Enter the measured THD/);
     }
-    const json = await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).send({ currentDrawMa: 8, outcome: 'pass' });
+    const json = await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).send({ currentDrawMa: 8, outcome: 'pass' });
     expect(json.status).toBe(400);
     expect(await t.knex('test_records').where({ unit_id: unit.id }).first()).toBeUndefined();
   });
 
   it('takes the THD from the capture, not a typed box, and names prediction and measurement when out of tolerance', async () => {
     const unit = await builtUnit();
-    const both = await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '0').field('outcome', 'pass')
+    const both = await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '0').field('outcome', 'pass')
       .attach('capture', captureOfPrediction(unit.predicted.harmonics), 'bench.wav');
     expect(both.status).toBe(400);
     expect(both.body.error.fields.measuredThdPercent).toMatch(/read from the capture/);
 
-    const off = await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass')
+    const off = await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass')
       .attach('capture', captureOfPrediction(unit.predicted.harmonics, { 2: -9 }), 'bench.wav');
     expect(off.status).toBe(400);
     expect(off.body.error.fields.reason).toMatch(/H2 measured −[\d.]+ dBc against the predicted −[\d.]+ dBc/);
 
-    const typedOff = await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass')
+    const typedOff = await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass')
       .field('measuredThdPercent', (unit.predicted.thdPercent * 2).toFixed(2));
     expect(typedOff.status).toBe(400);
     expect(typedOff.body.error.fields.reason).toContain(`THD measured ${(unit.predicted.thdPercent * 2).toFixed(2)} % against the predicted ${unit.predicted.thdPercent.toFixed(2)} %`);
 
-    const ok = await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8.2').field('outcome', 'pass')
+    const ok = await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8.2').field('outcome', 'pass')
       .attach('capture', captureOfPrediction(unit.predicted.harmonics), 'bench.wav').expect(201);
     expect(ok.body.withinTolerance).toBe(true);
     const record = await t.knex('test_records').where({ unit_id: unit.id }).first();
@@ -237,7 +214,7 @@ describe('saving a bench test', () => {
     expect(record.measured_harmonics[0].amplitudeFs).toBeCloseTo(0.5, 3);
 
     // The unit page's data carries the measured harmonics beside the prediction.
-    const page = await planner.get(`/api/units/${unit.id}`).expect(200);
+    const page = await crew.planner.get(`/api/units/${unit.id}`).expect(200);
     expect(page.body.tests[0].measuredHarmonics).toHaveLength(10);
     expect(page.body.tests[0].measuredThdRPercent).toBeCloseTo(record.measured_thd_r_percent, 9);
     expect(page.body.harmonicToleranceDb).toBe(3);
@@ -260,7 +237,7 @@ describe('saving a bench test', () => {
   it('keeps a typed THD when there is no capture, with no harmonics', async () => {
     const unit = await builtUnit();
     const typed = (unit.predicted.thdPercent * 1.02).toFixed(2);
-    await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', typed).field('outcome', 'pass').expect(201);
+    await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', typed).field('outcome', 'pass').expect(201);
     const record = await t.knex('test_records').where({ unit_id: unit.id }).first();
     expect(record.measured_thd_percent).toBe(Number(typed));
     expect(record.measured_harmonics).toBeNull();

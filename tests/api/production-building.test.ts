@@ -1,50 +1,23 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import wavefile from 'wavefile';
-import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+import { DEMO, signedInAgent } from '../support/app';
 import { makeCatalog, makePaidOrder } from './production-fixture';
+import { buildAsJuno, junoId, readyJuno, useProductionApp } from './production-setup';
 
-const t = startTestApp();
-afterAll(() => t.stop());
+const { t, crew } = useProductionApp(['planner', 'juno', 'priya', 'tester']);
 const { WaveFile } = wavefile;
-
-let planner: TestAgent;
-let juno: TestAgent;
-let priya: TestAgent;
-let tester: TestAgent;
-const ALL_SKILLS = ['through-hole', 'device-matching', 'enclosure'];
-
-beforeAll(async () => {
-  planner = await signedInAgent(t.app, DEMO.planner);
-  juno = await signedInAgent(t.app, DEMO.assembler);
-  priya = await signedInAgent(t.app, 'priya@shop.example');
-  tester = await signedInAgent(t.app, DEMO.tester);
-});
 
 /** A released, kitted batch for one paid order of `quantity` units, every unit assigned to Juno. */
 async function releasedOrderBatch(quantity: number) {
   const c = await makeCatalog(t.knex);
   const order = await makePaidOrder(t.knex, c.modelId, c.options.asym, quantity);
-  const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [order.lineId] }).expect(201);
-  await planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+  const { body } = await crew.planner.post('/api/batches').set('X-CSRF-Token', crew.planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [order.lineId] }).expect(201);
+  await crew.planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
   const units = await t.knex('units').where({ batch_id: body.id }).orderBy('sequence');
-  const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
-  await planner.put(`/api/assemblers/${junoId}`).set('X-CSRF-Token', planner.csrf).send({ skills: [...ALL_SKILLS, 'smd-rework', 'final-check'], dailyCapacityMinutes: 420 }).expect(200);
-  await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf)
-    .send({ builds: units.map((u) => ({ unitId: u.id, assemblerId: junoId, date: '2027-01-05' })) }).expect(200);
+  const assemblerId = await readyJuno(t.knex, crew.planner);
+  await crew.planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', crew.planner.csrf)
+    .send({ builds: units.map((u) => ({ unitId: u.id, assemblerId, date: '2027-01-05' })) }).expect(200);
   return { c, order, batchId: body.id as number, units };
-}
-
-async function buildUnit(unitId: number, c: Awaited<ReturnType<typeof makeCatalog>>) {
-  for (const step of c.steps) {
-    const started = await t.knex('unit_steps').where({ unit_id: unitId, step_id: step }).first();
-    if (!started) await juno.post(`/api/units/${unitId}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
-    await juno.post(`/api/units/${unitId}/steps/${step}/finish`).set('X-CSRF-Token', juno.csrf).send({ confirmFast: true }).expect(200);
-  }
-  const detail = await juno.get(`/api/units/${unitId}`).expect(200);
-  const readings = detail.body.devices.map((d: { optionDeviceId: number; nominalVf: number }) => ({ optionDeviceId: d.optionDeviceId, vf: Number((d.nominalVf + 0.004).toFixed(3)) }));
-  await juno.put(`/api/units/${unitId}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings }).expect(200);
-  await juno.put(`/api/units/${unitId}/lots`).set('X-CSRF-Token', juno.csrf).send({ lots: [{ bomLineId: c.pcbLine, lot: 'PCB-LOT-7' }] }).expect(200);
-  await juno.post(`/api/units/${unitId}/built`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
 }
 
 function tone(thdShape: { h2: number; h3: number }, sampleRate = 48000, seconds = 0.5, channels = 1) {
@@ -62,44 +35,44 @@ function tone(thdShape: { h2: number; h3: number }, sampleRate = 48000, seconds 
 describe('building, testing and shipping a unit', () => {
   it('only kitted units can be built, and only by their own assembler', async () => {
     const { units } = await releasedOrderBatch(1);
-    const notKitted = await juno.post(`/api/units/${units[0].id}/steps/${(await t.knex('build_steps').first()).id}/start`).set('X-CSRF-Token', juno.csrf).send({});
+    const notKitted = await crew.juno.post(`/api/units/${units[0].id}/steps/${(await t.knex('build_steps').first()).id}/start`).set('X-CSRF-Token', crew.juno.csrf).send({});
     expect([404, 409]).toContain(notKitted.status);
-    const other = await priya.get(`/api/units/${units[0].id}`);
+    const other = await crew.priya.get(`/api/units/${units[0].id}`);
     expect(other.status).toBe(403);
     // The queue is paged; a search by serial finds the unit whatever else is queued.
-    const queue = await priya.get(`/api/builds?q=${units[0].serial}`).expect(200);
+    const queue = await crew.priya.get(`/api/builds?q=${units[0].serial}`).expect(200);
     expect(queue.body.items.map((b: { id: number }) => b.id)).not.toContain(units[0].id);
-    const mine = await juno.get(`/api/builds?q=${units[0].serial}`).expect(200);
+    const mine = await crew.juno.get(`/api/builds?q=${units[0].serial}`).expect(200);
     expect(mine.body.items.map((b: { id: number }) => b.id)).toContain(units[0].id);
     expect(mine.body.total).toBeGreaterThanOrEqual(1);
   });
 
   it('walks the whole path: kit, build with measured Vf, fail to rework, pass, order ready, ship with a packing slip, deliver', async () => {
     const { c, order, batchId, units } = await releasedOrderBatch(2);
-    await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    await crew.planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     const [u1, u2] = units;
     const step = c.steps[0];
-    await juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    await crew.juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', crew.juno.csrf).send({}).expect(200);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('in_production');
     expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('on_bench');
-    const twice = await juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', juno.csrf).send({});
+    const twice = await crew.juno.post(`/api/units/${u1.id}/steps/${step}/start`).set('X-CSRF-Token', crew.juno.csrf).send({});
     expect(twice.status).toBe(409);
-    const priyaTries = await priya.post(`/api/units/${u1.id}/steps/${c.steps[1]}/start`).set('X-CSRF-Token', priya.csrf).send({});
+    const priyaTries = await crew.priya.post(`/api/units/${u1.id}/steps/${c.steps[1]}/start`).set('X-CSRF-Token', crew.priya.csrf).send({});
     expect(priyaTries.status).toBe(403);
-    const early = await juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', juno.csrf).send({});
+    const early = await crew.juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', crew.juno.csrf).send({});
     expect(early.status).toBe(409);
     expect(early.body.error.message).toMatch(/steps not finished/);
 
     // A silicon diode reading 1.2 V is flagged before it is saved; the assembler may keep it knowingly.
-    const detail = await juno.get(`/api/units/${u1.id}`).expect(200);
+    const detail = await crew.juno.get(`/api/units/${u1.id}`).expect(200);
     const silicon = detail.body.devices.find((d: { kind: string }) => d.kind === 'silicon');
-    const bad = await juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 1.2 }] });
+    const bad = await crew.juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', crew.juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 1.2 }] });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields['readings.0.vf']).toMatch(/outside 0\.50–0\.80 V for silicon/);
-    const notNumber = await juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 'abc' }] });
+    const notNumber = await crew.juno.put(`/api/units/${u1.id}/devices`).set('X-CSRF-Token', crew.juno.csrf).send({ readings: [{ optionDeviceId: silicon.optionDeviceId, vf: 'abc' }] });
     expect(notNumber.status).toBe(400);
 
-    await buildUnit(u1.id, c);
+    await buildAsJuno(t.knex, crew.juno, u1.id, c);
     const built = await t.knex('units').where({ id: u1.id }).first();
     expect(built.state).toBe('built');
     // The silicon-vs-LED option is asymmetric: its predicted THD at the reference setting is well above zero.
@@ -109,22 +82,22 @@ describe('building, testing and shipping a unit', () => {
     expect(progress.every((p) => p.finished_at && p.actual_minutes !== null)).toBe(true);
 
     // Fail back to rework with a reason, then the assembler marks the rework done.
-    const noReason = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'fail');
+    const noReason = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'fail');
     expect(noReason.status).toBe(400);
     expect(noReason.body.error.fields.reason).toBeTruthy();
-    await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+    await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '19').field('measuredThdPercent', '5').field('outcome', 'fail').field('reason', 'LED fitted backwards').expect(201);
     expect((await t.knex('units').where({ id: u1.id }).first()).state).toBe('rework');
-    const retest = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'pass');
+    const retest = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '5').field('outcome', 'pass');
     expect(retest.status).toBe(409);
-    await juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', juno.csrf).send({}).expect(200);
+    await crew.juno.post(`/api/units/${u1.id}/built`).set('X-CSRF-Token', crew.juno.csrf).send({}).expect(200);
 
     // Out of tolerance needs a reason to pass; within tolerance passes plainly.
     const predicted = built.predicted.thdPercent as number;
-    const outOfTolerance = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+    const outOfTolerance = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 2).toFixed(2))).field('outcome', 'pass');
     expect(outOfTolerance.status).toBe(400);
-    const pass = await tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', tester.csrf)
+    const pass = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 1.05).toFixed(2))).field('outcome', 'pass').expect(201);
     expect(pass.body.withinTolerance).toBe(true);
     expect(await t.knex('outbox').where({ dedupe_key: `unit-passed:${u1.id}` }).first()).toBeTruthy();
@@ -132,21 +105,21 @@ describe('building, testing and shipping a unit', () => {
     // The order cannot ship while its second unit is unbuilt.
     // The demo settings' first carrier (seeds/01-shop-and-people.ts), with its tracking-URL template.
     const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
-    const tooSoon = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' });
+    const tooSoon = await crew.planner.post('/api/shipments').set('X-CSRF-Token', crew.planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' });
     expect(tooSoon.status).toBe(409);
-    await buildUnit(u2.id, c);
-    await tester.post(`/api/units/${u2.id}/tests`).set('X-CSRF-Token', tester.csrf)
+    await buildAsJuno(t.knex, crew.juno, u2.id, c);
+    await crew.tester.post(`/api/units/${u2.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'analyser range was wrong; listened and re-measured by hand').expect(201);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('ready');
 
-    const badShip = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: '', trackingNumber: '1' });
+    const badShip = await crew.planner.post('/api/shipments').set('X-CSRF-Token', crew.planner.csrf).send({ orderId: order.orderId, carrierId: '', trackingNumber: '1' });
     expect(badShip.status).toBe(400);
     expect(Object.keys(badShip.body.error.fields).sort()).toEqual(['carrierId', 'trackingNumber']);
     // A carrier that is not in the settings' list is refused with a field message.
-    const unknownCarrier = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: 2147483647, trackingNumber: 'PW123456789' });
+    const unknownCarrier = await crew.planner.post('/api/shipments').set('X-CSRF-Token', crew.planner.csrf).send({ orderId: order.orderId, carrierId: 2147483647, trackingNumber: 'PW123456789' });
     expect(unknownCarrier.status).toBe(400);
     expect(unknownCarrier.body.error.fields.carrierId).toMatch(/carriers in the settings/);
-    const shipped = await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' }).expect(201);
+    const shipped = await crew.planner.post('/api/shipments').set('X-CSRF-Token', crew.planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW123456789' }).expect(201);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('shipped');
     expect((await t.knex('units').where({ batch_id: batchId })).every((u) => u.state === 'shipped')).toBe(true);
     expect((await t.knex('batches').where({ id: batchId }).first()).state).toBe('closed');
@@ -156,7 +129,7 @@ describe('building, testing and shipping a unit', () => {
     // The order page tells the customer the same carrier and link.
     const seen = await (await signedInAgent(t.app, DEMO.customer)).get(`/api/orders/${order.orderId}`).expect(200);
     expect(seen.body.shipments).toEqual([expect.objectContaining({ carrier: carrier.name, trackingNumber: 'PW123456789', trackingUrl: link })]);
-    const pdf = await planner.get(shipped.body.packingSlipUrl).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
+    const pdf = await crew.planner.get(shipped.body.packingSlipUrl).buffer(true).parse((res, cb) => { const b: Buffer[] = []; res.on('data', (d: Buffer) => b.push(d)); res.on('end', () => cb(null, Buffer.concat(b))); }).expect(200);
     expect(pdf.headers['content-type']).toBe('application/pdf');
     expect((pdf.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
     const { PDFParse } = await import('pdf-parse');
@@ -165,9 +138,9 @@ describe('building, testing and shipping a unit', () => {
     expect(text).toContain(u1.serial);
     expect(text).toContain('PW123456789');
 
-    await planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    await crew.planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     expect((await t.knex('orders').where({ id: order.orderId }).first()).state).toBe('delivered');
-    const again = await planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', planner.csrf).send({});
+    const again = await crew.planner.post(`/api/shipments/${shipped.body.id}/delivered`).set('X-CSRF-Token', crew.planner.csrf).send({});
     expect(again.status).toBe(409);
     const history = await t.knex('unit_events').where({ unit_id: u1.id, kind: 'state-change' }).orderBy('id');
     expect(history.map((h) => h.to_state)).toEqual(['waiting', 'building', 'built', 'rework', 'built', 'passed', 'shipped']);
@@ -175,28 +148,27 @@ describe('building, testing and shipping a unit', () => {
 
   it('puts a passed stock build into finished stock and fulfils a later order of the same option from it', async () => {
     const c = await makeCatalog(t.knex);
-    const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
-    await planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-    await planner.post(`/api/batches/${body.id}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const { body } = await crew.planner.post('/api/batches').set('X-CSRF-Token', crew.planner.csrf).send({ revisionId: c.revisionId, stockBuilds: [{ optionId: c.options.asym, quantity: 1 }] }).expect(201);
+    await crew.planner.post(`/api/batches/${body.id}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    await crew.planner.post(`/api/batches/${body.id}/kit`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     const [unit] = await t.knex('units').where({ batch_id: body.id });
-    const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
-    await planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: junoId, date: '2027-01-05' }] }).expect(200);
-    await buildUnit(unit.id, c);
-    await tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'stock unit, checked by ear').expect(201);
-    await planner.post(`/api/units/${unit.id}/finished-stock`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    await crew.planner.post(`/api/batches/${body.id}/assignments`).set('X-CSRF-Token', crew.planner.csrf).send({ builds: [{ unitId: unit.id, assemblerId: await junoId(t.knex), date: '2027-01-05' }] }).expect(200);
+    await buildAsJuno(t.knex, crew.juno, unit.id, c);
+    await crew.tester.post(`/api/units/${unit.id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('measuredThdPercent', '1').field('outcome', 'pass').field('reason', 'stock unit, checked by ear').expect(201);
+    await crew.planner.post(`/api/units/${unit.id}/finished-stock`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     const order = await makePaidOrder(t.knex, c.modelId, c.options.asym, 1);
     const bigger = await makePaidOrder(t.knex, c.modelId, c.options.asym, 2);
-    const short = await planner.post(`/api/order-lines/${bigger.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({});
+    const short = await crew.planner.post(`/api/order-lines/${bigger.lineId}/from-stock`).set('X-CSRF-Token', crew.planner.csrf).send({});
     expect(short.status).toBe(409);
     expect(short.body.error.message).toMatch(/holds 1 of the 2/);
-    const queue = await planner.get('/api/shipping').expect(200);
+    const queue = await crew.planner.get('/api/shipping').expect(200);
     expect(queue.body.fromStock.map((l: { orderLineId: number }) => l.orderLineId)).toContain(order.lineId);
-    const done = await planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const done = await crew.planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     expect(done.body).toMatchObject({ orderState: 'ready', serials: [unit.serial] });
-    const again = await planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', planner.csrf).send({});
+    const again = await crew.planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', crew.planner.csrf).send({});
     expect(again.status).toBe(409);
     const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
-    await planner.post('/api/shipments').set('X-CSRF-Token', planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW-STOCK-1' }).expect(201);
+    await crew.planner.post('/api/shipments').set('X-CSRF-Token', crew.planner.csrf).send({ orderId: order.orderId, carrierId: carrier.id, trackingNumber: 'PW-STOCK-1' }).expect(201);
     expect((await t.knex('units').where({ id: unit.id }).first()).state).toBe('shipped');
   });
 
@@ -204,29 +176,29 @@ describe('building, testing and shipping a unit', () => {
     const { units } = await releasedOrderBatch(1);
     // The smallest valid PNG: 1×1 pixel (PNG specification, ISO/IEC 15948).
     const png = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNk+M9QDwADhgGAWjR9awAAAABJRU5ErkJggg==', 'base64');
-    const ok = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).field('caption', 'board before boxing').attach('photo', png, { filename: 'board.png', contentType: 'image/png' }).expect(201);
-    const photo = await juno.get(`/api/units/${units[0].id}/photos/${ok.body.id}`).expect(200);
+    const ok = await crew.juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.juno.csrf).field('caption', 'board before boxing').attach('photo', png, { filename: 'board.png', contentType: 'image/png' }).expect(201);
+    const photo = await crew.juno.get(`/api/units/${units[0].id}/photos/${ok.body.id}`).expect(200);
     expect(photo.headers['content-type']).toBe('image/png');
-    const text = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.from('not an image'), { filename: 'notes.txt', contentType: 'text/plain' });
+    const text = await crew.juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.juno.csrf).attach('photo', Buffer.from('not an image'), { filename: 'notes.txt', contentType: 'text/plain' });
     expect(text.status).toBe(400);
     expect(text.body.error.fields.photo).toMatch(/JPEG, PNG or WebP/);
-    const disguised = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.from('plain text dressed up'), { filename: 'x.png', contentType: 'image/png' });
+    const disguised = await crew.juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.juno.csrf).attach('photo', Buffer.from('plain text dressed up'), { filename: 'x.png', contentType: 'image/png' });
     expect(disguised.status).toBe(400);
-    const none = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).send({});
+    const none = await crew.juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.juno.csrf).send({});
     expect(none.status).toBe(400);
-    const big = await juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', juno.csrf).attach('photo', Buffer.alloc(9 * 1024 * 1024, 7), { filename: 'huge.png', contentType: 'image/png' });
+    const big = await crew.juno.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.juno.csrf).attach('photo', Buffer.alloc(9 * 1024 * 1024, 7), { filename: 'huge.png', contentType: 'image/png' });
     expect(big.status).toBe(413);
     expect(big.body.error.message).toMatch(/photo is larger than 8 MB/);
-    const other = await priya.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', priya.csrf).attach('photo', png, { filename: 'board.png', contentType: 'image/png' });
+    const other = await crew.priya.post(`/api/units/${units[0].id}/photos`).set('X-CSRF-Token', crew.priya.csrf).attach('photo', png, { filename: 'board.png', contentType: 'image/png' });
     expect(other.status).toBe(403);
-    expect((await juno.get(`/api/units/${units[0].id}`).expect(200)).body.photos).toHaveLength(1);
+    expect((await crew.juno.get(`/api/units/${units[0].id}`).expect(200)).body.photos).toHaveLength(1);
   });
 
   it('analyses an uploaded WAV capture and refuses bad uploads with clear messages', async () => {
     const { c, batchId, units } = await releasedOrderBatch(1);
-    await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-    await buildUnit(units[0].id, c);
-    const post = () => tester.post(`/api/units/${units[0].id}/tests`).set('X-CSRF-Token', tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass').field('reason', 'bench check');
+    await crew.planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    await buildAsJuno(t.knex, crew.juno, units[0].id, c);
+    const post = () => crew.tester.post(`/api/units/${units[0].id}/tests`).set('X-CSRF-Token', crew.tester.csrf).field('currentDrawMa', '8').field('outcome', 'pass').field('reason', 'bench check');
     const notWav = await post().attach('capture', Buffer.from('hello, not audio at all'), 'capture.wav');
     expect(notWav.status).toBe(400);
     expect(notWav.body.error.fields.capture).toMatch(/Not a WAV file/);

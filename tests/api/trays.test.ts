@@ -1,24 +1,13 @@
 // Trays of measured devices and matching a batch from them: entry, import, flags, the proposal
 // (exact pairs, cross pairs, leftovers, gain) and accepting it into units.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { forwardVoltage, findPreset } from '../../shared/engine';
 import { matchPairs } from '../../shared/matching/pairs';
-import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
+import type { TestAgent } from '../support/app';
 import { makeCatalog, makePaidOrder } from './production-fixture';
+import { useProductionApp } from './production-setup';
 
-const t = startTestApp();
-afterAll(() => t.stop());
-
-let planner: TestAgent;
-let juno: TestAgent;
-let tester: TestAgent;
-let customer: TestAgent;
-beforeAll(async () => {
-  planner = await signedInAgent(t.app, DEMO.planner);
-  juno = await signedInAgent(t.app, DEMO.assembler);
-  tester = await signedInAgent(t.app, DEMO.tester);
-  customer = await signedInAgent(t.app, DEMO.customer);
-});
+const { t, crew } = useProductionApp(['planner', 'juno', 'tester', 'customer']);
 
 const deviceIds = async (c: Awaited<ReturnType<typeof makeCatalog>>) => {
   const rows = await t.knex('option_devices').where({ option_id: c.options.asym }).orderBy('side', 'desc').select('device_id');
@@ -40,7 +29,7 @@ describe('trays', () => {
   it('takes readings slot by slot from an assembler and gives the tray’s distribution', async () => {
     const c = await makeCatalog(t.knex);
     const { si } = await deviceIds(c);
-    const { body } = await newTray(juno, si, [...SILICON, 0.6400, 0.8600]);
+    const { body } = await newTray(crew.juno, si, [...SILICON, 0.6400, 0.8600]);
     expect(body.tray.code).toBe(`T${body.tray.id}`);
     expect(body.slots).toHaveLength(14);
     expect(body.slots[6].label).toBe(`T${body.tray.id}-07`);
@@ -63,7 +52,7 @@ describe('trays', () => {
     const c = await makeCatalog(t.knex);
     const { si } = await deviceIds(c);
     // A lot reading ≈ 0.70 V: in silicon's range, but ≈ 110 mV above the model's nominal.
-    const { body } = await newTray(tester, si, SILICON.map((v) => v + 0.11));
+    const { body } = await newTray(crew.tester, si, SILICON.map((v) => v + 0.11));
     expect(body.stats.nominal.shifted).toBe(true);
     expect(body.slots.every((s: { flags: string[] }) => s.flags.length === 0)).toBe(true);
   });
@@ -71,33 +60,33 @@ describe('trays', () => {
   it('imports a meter CSV (all rows or none) and refuses oversize files', async () => {
     const c = await makeCatalog(t.knex);
     const { si } = await deviceIds(c);
-    const { id } = await newTray(juno, si, [0.59]);
+    const { id } = await newTray(crew.juno, si, [0.59]);
     const csv = 'slot,Vf (mV)\r\n2,591.2\r\n3,589.7\r\n4,593.4\r\n';
-    const ok = await juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', juno.csrf).attach('file', Buffer.from(csv), { filename: 'meter.csv', contentType: 'text/csv' }).expect(200);
+    const ok = await crew.juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', crew.juno.csrf).attach('file', Buffer.from(csv), { filename: 'meter.csv', contentType: 'text/csv' }).expect(200);
     expect(ok.body.imported).toBe(3);
     expect(ok.body.slots.map((s: { vf: number }) => s.vf)).toEqual([0.59, 0.5912, 0.5897, 0.5934]);
     // One line without a reading: nothing is imported.
-    const bad = await juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', juno.csrf).attach('file', Buffer.from('0.601\nabc\n0.602\n'), { filename: 'm.csv', contentType: 'text/csv' }).expect(400);
+    const bad = await crew.juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', crew.juno.csrf).attach('file', Buffer.from('0.601\nabc\n0.602\n'), { filename: 'm.csv', contentType: 'text/csv' }).expect(400);
     expect(bad.body.error.fields.file).toMatch(/line 2/);
-    expect((await juno.get(`/api/trays/${id}`).expect(200)).body.slots).toHaveLength(4);
-    const big = await juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', juno.csrf).attach('file', Buffer.alloc(300 * 1024, '0.600\n'), { filename: 'big.csv', contentType: 'text/csv' });
+    expect((await crew.juno.get(`/api/trays/${id}`).expect(200)).body.slots).toHaveLength(4);
+    const big = await crew.juno.post(`/api/trays/${id}/import`).set('X-CSRF-Token', crew.juno.csrf).attach('file', Buffer.alloc(300 * 1024, '0.600\n'), { filename: 'big.csv', contentType: 'text/csv' });
     expect(big.status).toBe(413);
   });
 
   it('answers 400, 404 and 403 in words', async () => {
     const c = await makeCatalog(t.knex);
     const { si } = await deviceIds(c);
-    const noDevice = await juno.post('/api/trays').set('X-CSRF-Token', juno.csrf).send({ deviceId: 99999999, supplierLot: 'X', receivedOn: '2026-11-30' }).expect(400);
+    const noDevice = await crew.juno.post('/api/trays').set('X-CSRF-Token', crew.juno.csrf).send({ deviceId: 99999999, supplierLot: 'X', receivedOn: '2026-11-30' }).expect(400);
     expect(noDevice.body.error.fields.deviceId).toBeTruthy();
-    const badDate = await juno.post('/api/trays').set('X-CSRF-Token', juno.csrf).send({ deviceId: si, supplierLot: 'X', receivedOn: '2026-02-31' }).expect(400);
+    const badDate = await crew.juno.post('/api/trays').set('X-CSRF-Token', crew.juno.csrf).send({ deviceId: si, supplierLot: 'X', receivedOn: '2026-02-31' }).expect(400);
     expect(badDate.body.error.fields.receivedOn).toBeTruthy();
-    await juno.get('/api/trays/99999999').expect(404);
-    const { id } = await newTray(juno, si, [0.59]);
-    const twice = await juno.put(`/api/trays/${id}/slots`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ slot: 2, vf: 0.6 }, { slot: 2, vf: 0.61 }] }).expect(400);
+    await crew.juno.get('/api/trays/99999999').expect(404);
+    const { id } = await newTray(crew.juno, si, [0.59]);
+    const twice = await crew.juno.put(`/api/trays/${id}/slots`).set('X-CSRF-Token', crew.juno.csrf).send({ readings: [{ slot: 2, vf: 0.6 }, { slot: 2, vf: 0.61 }] }).expect(400);
     expect(twice.body.error.fields['readings.1.slot']).toMatch(/twice/);
-    await juno.put(`/api/trays/${id}/slots`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ slot: 1, vf: -0.6 }] }).expect(400);
-    await customer.get('/api/trays').expect(403);
-    const list = await juno.get(`/api/trays?deviceId=${si}`).expect(200);
+    await crew.juno.put(`/api/trays/${id}/slots`).set('X-CSRF-Token', crew.juno.csrf).send({ readings: [{ slot: 1, vf: -0.6 }] }).expect(400);
+    await crew.customer.get('/api/trays').expect(403);
+    const list = await crew.juno.get(`/api/trays?deviceId=${si}`).expect(200);
     expect(list.body.items.map((x: { id: number }) => x.id)).toContain(id);
   });
 });
@@ -107,19 +96,19 @@ describe('matching a batch', () => {
     const c = await makeCatalog(t.knex);
     const symOrder = await makePaidOrder(t.knex, c.modelId, c.options.sym, 3);
     const asymOrder = await makePaidOrder(t.knex, c.modelId, c.options.asym, 2);
-    const { body } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [symOrder.lineId, asymOrder.lineId] }).expect(201);
+    const { body } = await crew.planner.post('/api/batches').set('X-CSRF-Token', crew.planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [symOrder.lineId, asymOrder.lineId] }).expect(201);
     return { c, batchId: body.id as number, ...(await deviceIds(c)) };
   }
 
   it('is refused before release, then proposes exact pairs, cross pairs and lists leftovers', async () => {
     const { c, batchId, si, led } = await releasedBatch();
-    await planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', planner.csrf).send({}).expect(409);
-    await planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-    const siTray = await newTray(juno, si, SILICON);
+    await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(409);
+    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    const siTray = await newTray(crew.juno, si, SILICON);
     // Red LEDs near the model's 1.65 V at 1 mA (invented lot).
-    const ledTray = await newTray(juno, led, [1.652, 1.671, 1.638, 1.660]);
-    await juno.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', juno.csrf).send({}).expect(403);
-    const { body } = await planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', planner.csrf)
+    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
+    await crew.juno.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.juno.csrf).send({}).expect(403);
+    const { body } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf)
       .send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
 
     const sym = body.options.find((o: { optionId: number }) => o.optionId === c.options.sym);
@@ -148,33 +137,33 @@ describe('matching a batch', () => {
 
   it('accepting fills each unit’s Vf from its slots, names the slots, and takes them off the tray', async () => {
     const { batchId, si, led } = await releasedBatch();
-    await planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-    const siTray = await newTray(juno, si, SILICON);
-    const ledTray = await newTray(juno, led, [1.652, 1.671, 1.638, 1.660]);
-    const { body: proposal } = await planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
+    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    const siTray = await newTray(crew.juno, si, SILICON);
+    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
+    const { body: proposal } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
     const accept = { units: proposal.units.map((u: { unitId: number; slots: { optionDeviceId: number; slotId: number }[] }) => ({ unitId: u.unitId, slots: u.slots.map((s) => ({ optionDeviceId: s.optionDeviceId, slotId: s.slotId })) })) };
 
     // A slot given twice, and a silicon slot in the LED's position, are field errors.
     const first = accept.units[0];
-    await planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', planner.csrf)
+    await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf)
       .send({ units: [first, { ...accept.units[1], slots: [first.slots[0], accept.units[1].slots[1]] }] }).expect(400);
     const cross = proposal.units.find((u: { optionCode: string }) => u.optionCode === 'SIL');
-    const wrong = await planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', planner.csrf)
+    const wrong = await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf)
       .send({ units: [{ unitId: cross.unitId, slots: [{ optionDeviceId: cross.slots[1].optionDeviceId, slotId: cross.slots[0].slotId }, { optionDeviceId: cross.slots[0].optionDeviceId, slotId: cross.slots[1].slotId }] }] }).expect(400);
     expect(Object.values(wrong.body.error.fields).join()).toMatch(/holds another device/);
 
-    const ok = await planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', planner.csrf).send(accept).expect(200);
+    const ok = await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf).send(accept).expect(200);
     expect(ok.body.matched).toBe(5);
     // Again: the units already have their devices.
-    await planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', planner.csrf).send(accept).expect(409);
+    await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf).send(accept).expect(409);
 
-    const batch = await planner.get(`/api/batches/${batchId}`).expect(200);
+    const batch = await crew.planner.get(`/api/batches/${batchId}`).expect(200);
     const planned = proposal.units[0];
     const row = batch.body.units.find((u: { id: number }) => u.id === planned.unitId);
     expect(row.slots).toEqual(planned.slots.map((s: { label: string }) => s.label));
     expect(row.slots[0]).toMatch(/^T\d+-\d{2}$/);
 
-    const unit = await planner.get(`/api/units/${planned.unitId}`).expect(200);
+    const unit = await crew.planner.get(`/api/units/${planned.unitId}`).expect(200);
     for (const s of planned.slots) {
       const d = unit.body.devices.find((x: { optionDeviceId: number }) => x.optionDeviceId === s.optionDeviceId);
       expect(d.measuredVf).toBe(s.vf);
@@ -184,13 +173,13 @@ describe('matching a batch', () => {
     expect(unit.body.history.some((h: { message: string }) => h.message.includes(planned.slots[0].label))).toBe(true);
 
     // A matched slot cannot change on the tray; the tray shows where it went.
-    const tray = await juno.get(`/api/trays/${siTray.id}`).expect(200);
+    const tray = await crew.juno.get(`/api/trays/${siTray.id}`).expect(200);
     const taken = tray.body.slots.find((s: { id: number }) => s.id === planned.slots[0].slotId);
     expect(taken.unit.id).toBe(planned.unitId);
-    const change = await juno.put(`/api/trays/${siTray.id}/slots`).set('X-CSRF-Token', juno.csrf).send({ readings: [{ slot: taken.slot, vf: 0.6 }] }).expect(409);
+    const change = await crew.juno.put(`/api/trays/${siTray.id}/slots`).set('X-CSRF-Token', crew.juno.csrf).send({ readings: [{ slot: taken.slot, vf: 0.6 }] }).expect(409);
     expect(change.body.error.message).toContain(taken.label);
     // Nothing left to match in this batch.
-    const again = await planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
+    const again = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     expect(again.body.units).toEqual([]);
   });
 });

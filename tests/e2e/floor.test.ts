@@ -1,13 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import path from 'node:path';
 import { mkdirSync } from 'node:fs';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { getBatch } from '../../server/services/production/planning';
 import { appendMovements } from '../../server/services/stock/ledger';
 import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
 import { createFormatter } from '../../shared/format';
-import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp, type TestAgent } from '../support/app';
-import { launchBrowser, listen } from '../support/browser';
+import { DEMO, signedInAgent, type TestAgent } from '../support/app';
+import { signedInPage, useBrowserApp } from '../support/browser';
 import { makePaidOrder } from '../api/production-fixture';
 
 // The floor-ready screens at a desktop (1280×800) and the bench tablet (1024×768): the batch page
@@ -18,37 +18,19 @@ const SIZES = [
 ] as const;
 const DOCS = path.resolve('docs/screens');
 
-let t: ReturnType<typeof startTestApp>;
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
+const env = useBrowserApp();
 let planner: TestAgent;
 let model: { id: number; active_revision_id: number; name: string };
 let options: { id: number; name: string }[];
 
 beforeAll(async () => {
   mkdirSync(DOCS, { recursive: true });
-  t = startTestApp();
-  server = await listen(t.app);
-  browser = await launchBrowser();
-  planner = await signedInAgent(t.app, DEMO.planner);
-  model = await t.knex('models').whereNotNull('active_revision_id').where({ published: true }).orderBy('sku').first();
-  options = await t.knex('clipping_options').where({ model_id: model.id }).orderBy(['position', 'id']);
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t?.stop();
+  planner = await signedInAgent(env.t.app, DEMO.planner);
+  model = await env.t.knex('models').whereNotNull('active_revision_id').where({ published: true }).orderBy('sku').first();
+  options = await env.t.knex('clipping_options').where({ model_id: model.id }).orderBy(['position', 'id']);
 });
 
-async function signIn(email: string, home: string, viewport: { width: number; height: number }) {
-  const page = await browser.newPage({ viewport });
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(`**${home}`);
-  return page;
-}
+const pageAs = (email: string, home: string, viewport: { width: number; height: number }) => signedInPage(env, email, { viewport, home });
 const post = (url: string, body: object = {}) => planner.post(url).set('X-CSRF-Token', planner.csrf).send(body);
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(DOCS, `${name}.png`), fullPage: false });
 /** The one message the page shows (they replace each other, never stack). */
@@ -58,14 +40,14 @@ describe('the batch page as a workflow', () => {
   for (const size of SIZES) {
     it(`shortages first, draft editing, folding sections and a release that names whom it mails (${size.name})`, async () => {
       // A batch being planned: one customer order, and a stock build big enough to run short of parts.
-      const first = await makePaidOrder(t.knex, model.id, options[0].id, 1);
-      const second = await makePaidOrder(t.knex, model.id, options[0].id, 1);
+      const first = await makePaidOrder(env.t.knex, model.id, options[0].id, 1);
+      const second = await makePaidOrder(env.t.knex, model.id, options[0].id, 1);
       const { body } = await post('/api/batches', { revisionId: model.active_revision_id, orderLineIds: [first.lineId], stockBuilds: [{ optionId: options[0].id, quantity: 400 }] }).expect(201);
-      const short = (await getBatch(t.knex, body.id)).requirements.filter((r) => r.shortage > 0);
+      const short = (await getBatch(env.t.knex, body.id)).requirements.filter((r) => r.shortage > 0);
       expect(short.length, '400 stock builds run the demo stock short').toBeGreaterThan(0);
 
-      const page = await signIn(DEMO.planner, '/board', size.viewport);
-      await page.goto(`${server.url}/planning/${body.id}`);
+      const page = await pageAs(DEMO.planner, '/board', size.viewport);
+      await page.goto(`${env.url}/planning/${body.id}`);
       const status = page.getByRole('region', { name: 'Batch status' });
       await status.getByText('Being planned').waitFor();
       await status.getByText(new RegExp(`Next:\\s*${short.length} parts? (is|are) short`)).waitFor();
@@ -81,7 +63,7 @@ describe('the batch page as a workflow', () => {
       await page.getByRole('link', { name: 'Purchase list (CSV)' }).waitFor();
       await shot(page, `batch-draft-${size.name}`);
       await onlyShort.uncheck();
-      expect(await rows.count()).toBe((await getBatch(t.knex, body.id)).requirements.length);
+      expect(await rows.count()).toBe((await getBatch(env.t.knex, body.id)).requirements.length);
       await onlyShort.check();
 
       // Long sections fold: the parts section's title folds and unfolds it.
@@ -98,7 +80,7 @@ describe('the batch page as a workflow', () => {
       await message(page).getByText('Added 1 line (1 unit) to the batch').waitFor();
       await page.getByRole('button', { name: `Remove stock build of ${options[0].name}` }).click();
       await message(page).getByText(/Stock build of 400 × .* taken out/).waitFor();
-      expect((await t.knex('batch_lines').where({ batch_id: body.id }).pluck('order_line_id')).sort()).toEqual([first.lineId, second.lineId].sort());
+      expect((await env.t.knex('batch_lines').where({ batch_id: body.id }).pluck('order_line_id')).sort()).toEqual([first.lineId, second.lineId].sort());
 
       // Release asks first and lists the customers it will mail.
       if (await page.getByLabel('Reason to release with shortages').count()) await page.getByLabel('Reason to release with shortages').fill('deliveries due Monday');
@@ -109,7 +91,7 @@ describe('the batch page as a workflow', () => {
       expect(await mailed.getByRole('listitem').count()).toBe(2);
       await shot(page, `batch-release-confirm-${size.name}`);
       await page.getByRole('button', { name: 'Not yet' }).click();
-      expect((await t.knex('batches').where({ id: body.id }).first()).state).toBe('draft');
+      expect((await env.t.knex('batches').where({ id: body.id }).first()).state).toBe('draft');
       await page.getByRole('button', { name: 'Release batch…' }).click();
       await page.getByRole('button', { name: 'Release and mail 2 customers' }).click();
       await message(page).getByText('Released: 2 units created, 2 customers told their ship date').waitFor();
@@ -126,14 +108,14 @@ describe('the batch page as a workflow', () => {
 
 /** A released, kitted one-unit batch of the demo model, assigned to Juno for a day already past. */
 async function lateUnitForJuno() {
-  const order = await makePaidOrder(t.knex, model.id, options[0].id, 1);
+  const order = await makePaidOrder(env.t.knex, model.id, options[0].id, 1);
   const { body } = await post('/api/batches', { revisionId: model.active_revision_id, orderLineIds: [order.lineId] }).expect(201);
-  const short = (await getBatch(t.knex, body.id)).requirements.filter((r) => r.shortage > 0);
-  if (short.length) await t.knex.transaction((trx) => appendMovements(trx, short.map((s) => ({ partId: s.partId, kind: 'receive' as const, quantity: s.shortage, reason: 'supplier delivery', reference: 'DN-FLOOR' }))));
+  const short = (await getBatch(env.t.knex, body.id)).requirements.filter((r) => r.shortage > 0);
+  if (short.length) await env.t.knex.transaction((trx) => appendMovements(trx, short.map((s) => ({ partId: s.partId, kind: 'receive' as const, quantity: s.shortage, reason: 'supplier delivery', reference: 'DN-FLOOR' }))));
   await post(`/api/batches/${body.id}/release`).expect(200);
   await post(`/api/batches/${body.id}/kit`).expect(200);
-  const unit = await t.knex('units').where({ batch_id: body.id }).first();
-  const juno = await t.knex('users').where({ email: DEMO.assembler }).first();
+  const unit = await env.t.knex('units').where({ batch_id: body.id }).first();
+  const juno = await env.t.knex('users').where({ email: DEMO.assembler }).first();
   await post(`/api/batches/${body.id}/assignments`, { builds: [{ unitId: unit.id, assemblerId: juno.id, date: '2026-01-05' }] }).expect(200);
   return unit as { id: number; serial: string };
 }
@@ -142,8 +124,8 @@ describe('the bench tablet', () => {
   for (const size of SIZES) {
     it(`folded navigation, late flags, a scanned serial, one caution per kind, confirm fast finishes, reopen with a reason, one message at a time (${size.name})`, async () => {
       const unit = await lateUnitForJuno();
-      const steps = await t.knex('build_steps').where({ revision_id: model.active_revision_id }).orderBy('position');
-      const page = await signIn(DEMO.assembler, '/builds', size.viewport);
+      const steps = await env.t.knex('build_steps').where({ revision_id: model.active_revision_id }).orderBy('position');
+      const page = await pageAs(DEMO.assembler, '/builds', size.viewport);
 
       // Navigation: beside the page on the desktop, folded behind "Menu" on the tablet.
       const nav = page.getByRole('navigation', { name: 'Main' });
@@ -190,7 +172,7 @@ describe('the bench tablet', () => {
       await ask.getByText(new RegExp(`under 25 % of its standard ${s1.standard_minutes} min`)).waitFor();
       await shot(page, `bench-fast-step-${size.name}`);
       await ask.getByRole('button', { name: 'Not yet: keep working' }).click();
-      expect((await t.knex('unit_steps').where({ unit_id: unit.id, step_id: s1.id }).first()).finished_at).toBeNull();
+      expect((await env.t.knex('unit_steps').where({ unit_id: unit.id, step_id: s1.id }).first()).finished_at).toBeNull();
       await page.getByRole('button', { name: 'Finish step 1', exact: true }).click();
       await ask.getByRole('button', { name: 'Yes, step 1 is finished' }).click();
       await message(page).getByText(new RegExp(`Finished “${s1.title}”`)).waitFor();
@@ -218,7 +200,7 @@ describe('the bench tablet', () => {
       await page.context().close();
 
       // The tester's bench takes a serial typed into its box.
-      const tester = await signIn(DEMO.tester, '/bench', size.viewport);
+      const tester = await pageAs(DEMO.tester, '/bench', size.viewport);
       await tester.getByLabel('Open a unit by serial').fill(unit.serial.toLowerCase());
       await tester.getByLabel('Open a unit by serial').press('Enter');
       await tester.waitForURL(`**/bench/${unit.id}`);

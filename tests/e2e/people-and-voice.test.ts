@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import path from 'node:path';
 import nodemailer from 'nodemailer';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { renderMail } from '../../server/services/mail/render';
 import { createFormatter } from '../../shared/format';
 import { insertPedal, placeOrder } from '../api/orders-fixtures';
-import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp, uniqueEmail, type TestAgent } from '../support/app';
-import { launchBrowser, listen, openNav, SCREENSHOTS } from '../support/browser';
+import { DEMO, signedInAgent, uniqueEmail, type TestAgent } from '../support/app';
+import { openNav, SCREENSHOTS, signedInPage, useBrowserApp } from '../support/browser';
 
 // People & roles and the app's one voice, in Chromium at a desktop and a bench-tablet size:
 // staff and customers listed apart, a role change confirmed old → new and undone, Deactivate
@@ -17,53 +17,41 @@ import { launchBrowser, listen, openNav, SCREENSHOTS } from '../support/browser'
 const SIZES = { desktop: { width: 1280, height: 800 }, tablet: { width: 1024, height: 768 } } as const;
 type Size = keyof typeof SIZES;
 
+// The mail fake starts first (the app reads its inbox) and, its afterAll registered first, closes last.
 let mail: MailFake;
-let t: ReturnType<typeof startTestApp>;
-let server: Awaited<ReturnType<typeof listen>>;
-let browser: Browser;
+beforeAll(async () => {
+  mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
+});
+afterAll(async () => {
+  await mail?.close();
+});
+const env = useBrowserApp({ env: () => ({ MAIL_INBOX_URL: mail.httpUrl }) });
+
 let owner: TestAgent;
 let orderNumber: string;
 let orderId: number;
 
 beforeAll(async () => {
-  mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
-  t = startTestApp({ MAIL_INBOX_URL: mail.httpUrl });
-  server = await listen(t.app);
-  browser = await launchBrowser();
-  owner = await signedInAgent(t.app, DEMO.owner);
-  const customer = await signedInAgent(t.app, DEMO.customer);
-  const placed = await placeOrder(customer, await insertPedal(t.knex));
+  owner = await signedInAgent(env.t.app, DEMO.owner);
+  const customer = await signedInAgent(env.t.app, DEMO.customer);
+  const placed = await placeOrder(customer, await insertPedal(env.t.knex));
   orderNumber = placed.order.number;
   orderId = placed.order.id;
   // A staff note and a lower-case message as older code wrote them: both read in sentence case.
-  await t.knex('order_events').insert({ order_id: orderId, kind: 'state-change', to_state: 'awaiting_payment', message: 'every unit passed its bench test' });
+  await env.t.knex('order_events').insert({ order_id: orderId, kind: 'state-change', to_state: 'awaiting_payment', message: 'every unit passed its bench test' });
   // One real receipt through SMTP to the mail fake, as the outbox sends it.
   const rendered = renderMail('order-received', {
-    customerName: 'Dee Castellano', orderNumber, orderUrl: `${server.url}/orders/${orderId}`, shopUrl: server.url,
+    customerName: 'Dee Castellano', orderNumber, orderUrl: `${env.url}/orders/${orderId}`, shopUrl: env.url,
     lines: [{ quantity: 1, description: 'Test pedal — LED pair', unitPriceCents: 17_900, lineTotalCents: 17_900 }],
     subtotalCents: 17_900, shippingCents: 900, taxCents: 3_000, totalCents: 18_800, pricesIncludeTax: true,
   }, { currency: 'EUR', timeZone: 'Europe/Berlin', shopName: 'Hollowmere Effects', shopAddress: 'Example Lane 1' });
   await nodemailer.createTransport({ host: '127.0.0.1', port: mail.smtpPort, secure: false, ignoreTLS: true })
     .sendMail({ from: 'shop@hollowmere.example', to: DEMO.customer, subject: rendered.subject, text: rendered.text, html: rendered.html });
 });
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await mail?.close();
-  await t?.stop();
-});
 
-async function signIn(size: Size, email: string): Promise<Page> {
-  const page = await browser.newPage({ viewport: SIZES[size] });
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
-  return page;
-}
+const pageAs = (size: Size, email: string): Promise<Page> => signedInPage(env, email, { viewport: SIZES[size] });
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `${name}.png`), fullPage: true });
-const roleOf = async (email: string) => (await t.knex('users').where({ email }).first('role')).role as string;
+const roleOf = async (email: string) => (await env.t.knex('users').where({ email }).first('role')).role as string;
 
 async function addPerson(role: string, name: string) {
   const email = uniqueEmail(role);
@@ -89,8 +77,8 @@ for (const size of Object.keys(SIZES) as Size[]) {
     it('lists staff and customers apart, confirms a role change old → new, undoes it, and deactivates from a menu', async () => {
       const name = `Wren Ottoline ${size}`;
       const email = await addPerson('assembler', name);
-      const page = await signIn(size, DEMO.owner);
-      await page.goto(`${server.url}/users`);
+      const page = await pageAs(size, DEMO.owner);
+      await page.goto(`${env.url}/users`);
       const staffTab = page.getByRole('tab', { name: /^Staff/ });
       await staffTab.waitFor();
       expect(await staffTab.getAttribute('aria-selected')).toBe('true');
@@ -131,7 +119,7 @@ for (const size of Object.keys(SIZES) as Size[]) {
       const ask = page.getByRole('dialog', { name: `Deactivate ${name}?` });
       await ask.getByRole('button', { name: 'Deactivate' }).click();
       await page.getByText(`${name} is deactivated and signed out everywhere`).waitFor();
-      expect((await t.knex('users').where({ email }).first('active')).active).toBe(false);
+      expect((await env.t.knex('users').where({ email }).first('active')).active).toBe(false);
 
       // Customers have their own list, searchable, with no role column.
       await page.getByRole('tab', { name: /^Customers/ }).click();
@@ -147,14 +135,14 @@ for (const size of Object.keys(SIZES) as Size[]) {
 
   describe(`one voice at ${size} size`, () => {
     it('shows dates from the one formatter, sentence-case history and the staff heading; order numbers stay on one line', async () => {
-      const order = await t.knex('orders').where({ id: orderId }).first('created_at');
+      const order = await env.t.knex('orders').where({ id: orderId }).first('created_at');
       const placed = createFormatter({ timeZone: 'Europe/Berlin', currency: 'EUR' }).dateTime(order.created_at);
 
-      const customer = await signIn(size, DEMO.customer);
-      await customer.goto(`${server.url}/orders/${orderId}`);
+      const customer = await pageAs(size, DEMO.customer);
+      await customer.goto(`${env.url}/orders/${orderId}`);
       await customer.getByRole('heading', { name: 'Your pedals on the bench' }).waitFor();
       await customer.getByText(`Placed ${placed}`).waitFor();
-      await customer.goto(`${server.url}/orders`);
+      await customer.goto(`${env.url}/orders`);
       const heading = customer.getByRole('heading', { name: `Order ${orderNumber}` });
       await heading.waitFor();
       // The order number is one box on one line, whatever the width.
@@ -163,8 +151,8 @@ for (const size of Object.keys(SIZES) as Size[]) {
       expect(await customer.locator('main').textContent()).not.toMatch(/\b\d{4}-\d{2}-\d{2}\b|\b\d{1,2}\/\d{1,2}\/\d{4}\b/);
       await customer.close();
 
-      const staff = await signIn(size, DEMO.owner);
-      await staff.goto(`${server.url}/orders/${orderId}`);
+      const staff = await pageAs(size, DEMO.owner);
+      await staff.goto(`${env.url}/orders/${orderId}`);
       await staff.getByRole('heading', { name: 'Units for this order' }).waitFor();
       expect(await staff.getByRole('heading', { name: 'Your pedals on the bench' }).count()).toBe(0);
       const history = staff.getByRole('table', { name: `History of order ${orderNumber}` });
@@ -177,7 +165,7 @@ for (const size of Object.keys(SIZES) as Size[]) {
     });
 
     it('calls it Sent mail, and the preview of a mail fits the screen', async () => {
-      const page = await signIn(size, DEMO.planner);
+      const page = await pageAs(size, DEMO.planner);
       await openNav(page);
       await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Sent mail' }).click();
       await page.getByRole('heading', { name: 'Sent mail', level: 1 }).waitFor();
@@ -193,8 +181,8 @@ for (const size of Object.keys(SIZES) as Size[]) {
     });
 
     it('draws each device in its own colour, with its box ticked, and names provenance in the shop’s words', async () => {
-      const page = await signIn(size, DEMO.planner);
-      await page.goto(`${server.url}/catalog/devices`);
+      const page = await pageAs(size, DEMO.planner);
+      await page.goto(`${env.url}/catalog/devices`);
       await page.getByRole('table', { name: 'Clipping device library' }).waitFor();
       // The curves drawn at first are exactly the ticked ones.
       const ticked = await page.getByRole('checkbox', { name: /^Show .* on the chart$/ }).evaluateAll((boxes) => boxes.filter((b) => (b as HTMLInputElement).checked).length);
@@ -225,23 +213,23 @@ for (const size of Object.keys(SIZES) as Size[]) {
     });
 
     it('names demo enclosures by their dimensions, and shows one cart button', async () => {
-      const page = await signIn(size, DEMO.planner);
-      await page.goto(`${server.url}/catalog/parts`);
+      const page = await pageAs(size, DEMO.planner);
+      await page.goto(`${env.url}/catalog/parts`);
       await page.getByLabel(/Search/).first().fill('ENC-');
       const parts = page.getByRole('table').first();
       await parts.getByText('ENC-122X66').waitFor();
       expect(await page.locator('main').textContent()).not.toMatch(/1590|125B/);
       await page.close();
 
-      const visitor = await browser.newPage({ viewport: SIZES[size] });
-      const { models } = (await (await fetch(`${server.url}/api/models`)).json()) as { models: { id: number }[] };
-      await visitor.goto(`${server.url}/shop/${models[0].id}`);
+      const visitor = await env.browser.newPage({ viewport: SIZES[size] });
+      const { models } = (await (await fetch(`${env.url}/api/models`)).json()) as { models: { id: number }[] };
+      await visitor.goto(`${env.url}/shop/${models[0].id}`);
       await visitor.getByRole('group', { name: 'Choose a clipping option' }).waitFor();
       expect(await visitor.getByRole('link', { name: /cart/i }).count()).toBe(1);
       await visitor.close();
 
-      const customer = await signIn(size, DEMO.customer);
-      await customer.goto(`${server.url}/shop`);
+      const customer = await pageAs(size, DEMO.customer);
+      await customer.goto(`${env.url}/shop`);
       await customer.getByRole('heading', { name: 'Pedals' }).waitFor();
       await openNav(customer);
       expect(await customer.getByRole('link', { name: /cart/i }).count()).toBe(1);

@@ -3,48 +3,33 @@ import path from 'node:path';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import wavefile from 'wavefile';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { startMailFake, type MailFake } from '../../server/fakes/mail/index';
 import { createMailer, sendDueMail } from '../../server/services/mail/sender';
 import { getBatch } from '../../server/services/production/planning';
 import { appendMovements } from '../../server/services/stock/ledger';
 import { SOLDERING_CAUTION } from '../../shared/catalog/cautions';
 import { PLAN_EXPLAINED } from '../../shared/production/schedule';
-import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { DEMO } from '../support/app';
+import { SCREENSHOTS, signedInPage, useBrowserApp } from '../support/browser';
 
 // The production path on the demo data, in a browser: the planner releases a batch for the demo
 // customer's paid order and applies a proposed plan; Juno builds it with measured Vf; the tester
 // chooses a WAV capture, reads it against the prediction and passes it; the planner ships; the customer sees it shipped and has the mail.
-let mail: MailFake;
-let t: ReturnType<typeof startTestApp>;
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
 
+// The mail fake starts first (the app sends to it) and, its afterAll registered first, closes last.
+let mail: MailFake;
 beforeAll(async () => {
   mail = await startMailFake({ smtpPort: 0, httpPort: 0 });
-  t = startTestApp({ SMTP_PORT: String(mail.smtpPort), MAIL_INBOX_URL: mail.httpUrl });
-  server = await listen(t.app);
-  browser = await launchBrowser();
 });
 afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t?.stop();
   await mail?.close();
 });
+const env = useBrowserApp({ env: () => ({ SMTP_PORT: String(mail.smtpPort), MAIL_INBOX_URL: mail.httpUrl }) });
 
-async function signIn(email: string, home: string) {
-  const page = await browser.newPage({ viewport: { width: 1180, height: 900 } });
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(`**${home}`);
-  return page;
-}
+const pageAs = (email: string, home: string) => signedInPage(env, email, { viewport: { width: 1180, height: 900 }, home });
 
-const shortParts = async (batchId: number) => (await getBatch(t.knex, batchId)).requirements.filter((r) => r.shortage > 0);
+const shortParts = async (batchId: number) => (await getBatch(env.t.knex, batchId)).requirements.filter((r) => r.shortage > 0);
 const toast = (page: Page, text: RegExp) => page.getByText(text).first().waitFor({ timeout: 20_000 });
 const shot = (page: Page, name: string) => page.screenshot({ path: path.join(SCREENSHOTS, `production-${name}.png`), fullPage: true });
 
@@ -65,16 +50,16 @@ function captureOfPrediction(predicted: { order: number; dbc: number }[]) {
 
 describe('production in the browser', () => {
   it('plans, builds, tests and ships the demo customer’s order', async () => {
-    const line = await t.knex('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
+    const line = await env.t.knex('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
       .join('models as m', 'm.id', 'l.model_id').where({ 'u.email': DEMO.customer, 'o.state': 'paid' }).whereNull('l.batch_id')
       .first('l.id', 'o.id as order_id', 'o.number', 'm.name as model_name', 'm.active_revision_id');
     expect(line, 'the demo seeds give the customer a paid order').toBeTruthy();
 
     // Planner: plan and release a batch with that order line.
-    const planner = await signIn(DEMO.planner, '/board');
+    const planner = await pageAs(DEMO.planner, '/board');
     await shot(planner, 'board-before');
     await planner.getByRole('link', { name: 'Batches' }).click();
-    const revision = await t.knex('model_revisions').where({ id: line.active_revision_id }).first();
+    const revision = await env.t.knex('model_revisions').where({ id: line.active_revision_id }).first();
     await planner.getByLabel('Model revision').selectOption(String(revision.id));
     await planner.getByRole('checkbox', { name: new RegExp(line.number) }).check();
     await shot(planner, 'new-batch');
@@ -91,12 +76,12 @@ describe('production in the browser', () => {
     await planner.getByRole('button', { name: 'Release and mail 1 customer' }).click();
     await toast(planner, /Released: 1 unit created, 1 customer/);
     // A supplier delivery covers whatever the demo stock is short of, before kitting.
-    const detail = await t.knex('units').where({ order_id: line.order_id }).first('batch_id');
+    const detail = await env.t.knex('units').where({ order_id: line.order_id }).first('batch_id');
     const short = await shortParts(detail.batch_id);
-    if (short.length) await t.knex.transaction((trx) => appendMovements(trx, short.map((s) => ({ partId: s.partId, kind: 'receive' as const, quantity: s.shortage, reason: 'supplier delivery', reference: 'DN-E2E' }))));
+    if (short.length) await env.t.knex.transaction((trx) => appendMovements(trx, short.map((s) => ({ partId: s.partId, kind: 'receive' as const, quantity: s.shortage, reason: 'supplier delivery', reference: 'DN-E2E' }))));
     await planner.getByRole('button', { name: 'Kit units' }).click();
     await toast(planner, /Kitted 1 unit\b/);
-    const unit = await t.knex('units').where({ order_id: line.order_id }).first();
+    const unit = await env.t.knex('units').where({ order_id: line.order_id }).first();
     await planner.getByRole('button', { name: 'Propose a balanced plan' }).click();
     await toast(planner, /Proposed a plan for 1 unit/);
     // The plan is explained in the shop's words, with no textbook name for the method.
@@ -107,22 +92,22 @@ describe('production in the browser', () => {
     await shot(planner, 'proposed-plan');
     await planner.getByRole('button', { name: 'Apply plan' }).click();
     await toast(planner, /Plan applied: 1 build assigned/);
-    expect((await t.knex('units').where({ id: unit.id }).first()).assembler_id).toBe((await t.knex('users').where({ email: DEMO.assembler }).first()).id);
-    const scheduledMail = await t.knex('outbox').where({ template: 'order-scheduled', to_address: DEMO.customer }).orderBy('id', 'desc').first();
+    expect((await env.t.knex('units').where({ id: unit.id }).first()).assembler_id).toBe((await env.t.knex('users').where({ email: DEMO.assembler }).first()).id);
+    const scheduledMail = await env.t.knex('outbox').where({ template: 'order-scheduled', to_address: DEMO.customer }).orderBy('id', 'desc').first();
     expect(scheduledMail.data.estimatedShipDate).toMatch(/^\d{4}-\d{2}-\d{2}$/);
 
     // Assembler at tablet width: work the checklist, record Vf, lots, mark built.
-    const juno = await signIn(DEMO.assembler, '/builds');
+    const juno = await pageAs(DEMO.assembler, '/builds');
     await juno.setViewportSize({ width: 1024, height: 1300 });
     await juno.getByRole('link', { name: unit.serial }).waitFor();
     await shot(juno, 'my-builds');
     await juno.getByRole('link', { name: unit.serial }).click();
     await juno.getByRole('heading', { name: 'Checklist' }).waitFor();
     // The soldering caution is shown in full once for the build; each soldering step names it.
-    const solderingSteps = await t.knex('build_steps').where({ revision_id: revision.id, soldering: true }).count<{ count: number }[]>('* as count');
+    const solderingSteps = await env.t.knex('build_steps').where({ revision_id: revision.id, soldering: true }).count<{ count: number }[]>('* as count');
     expect(await juno.getByText(SOLDERING_CAUTION).count()).toBe(1);
     expect(await juno.getByRole('listitem').filter({ hasText: /Caution:\s*Soldering/ }).count()).toBe(Number(solderingSteps[0].count));
-    const steps = await t.knex('build_steps').where({ revision_id: revision.id }).orderBy('position');
+    const steps = await env.t.knex('build_steps').where({ revision_id: revision.id }).orderBy('position');
     for (const s of steps) {
       await juno.getByRole('button', { name: `Start step ${s.position}`, exact: true }).click();
       await juno.getByRole('button', { name: `Finish step ${s.position}`, exact: true }).click();
@@ -148,12 +133,12 @@ describe('production in the browser', () => {
     await shot(juno, 'build-tablet');
     await juno.getByRole('button', { name: 'Mark build finished' }).click();
     await toast(juno, /is built and goes to the test bench/);
-    const built = await t.knex('units').where({ id: unit.id }).first();
+    const built = await env.t.knex('units').where({ id: unit.id }).first();
     expect(built.state).toBe('built');
     expect(built.predicted.fromMeasuredVf).toBe(true);
 
     // Tester: choosing a capture analyses it at once; the comparison and the verdict come before saving.
-    const tester = await signIn(DEMO.tester, '/bench');
+    const tester = await pageAs(DEMO.tester, '/bench');
     await tester.getByRole('heading', { name: 'Test bench' }).waitFor();
     expect(await tester.getByText(/test gear runs on mains power/).count()).toBe(1);
     await tester.getByRole('link', { name: unit.serial }).click();
@@ -177,16 +162,16 @@ describe('production in the browser', () => {
     const saved = tester.getByRole('table', { name: 'Predicted and measured at the reference setting' });
     await saved.waitFor();
     expect(await saved.getByRole('columnheader', { name: 'Measured' }).count()).toBe(1);
-    const record = await t.knex('test_records').where({ unit_id: unit.id }).first();
+    const record = await env.t.knex('test_records').where({ unit_id: unit.id }).first();
     expect(record.measured_harmonics).toHaveLength(10);
     await tester.getByText(/fundamental 997\.\d Hz/).first().waitFor();
     await shot(tester, 'bench-result');
-    expect((await t.knex('orders').where({ id: line.order_id }).first()).state).toBe('ready');
+    expect((await env.t.knex('orders').where({ id: line.order_id }).first()).state).toBe('ready');
 
     // Planner ships the order.
-    await planner.goto(`${server.url}/shipping`);
+    await planner.goto(`${env.url}/shipping`);
     // The carriers come from the settings (the demo's first one); shipping asks before it ships.
-    const carrier = await t.knex('carriers').where({ active: true }).orderBy('position').first();
+    const carrier = await env.t.knex('carriers').where({ active: true }).orderBy('position').first();
     await planner.getByRole('link', { name: `Packing slip for ${line.number} (PDF)` }).waitFor();
     await planner.getByLabel(`Carrier for ${line.number}`).selectOption({ label: carrier.name });
     await planner.getByLabel('Tracking number').first().fill('PW-2026-88431');
@@ -198,13 +183,13 @@ describe('production in the browser', () => {
     await toast(planner, new RegExp(`Order ${line.number} shipped with ${carrier.name}`));
     await planner.getByRole('link', { name: 'Packing slip (PDF)' }).first().waitFor();
     await shot(planner, 'shipping');
-    await planner.goto(`${server.url}/board`);
+    await planner.goto(`${env.url}/board`);
     await planner.getByRole('heading', { name: 'Batches in progress' }).waitFor();
     await shot(planner, 'board-after');
 
     // The customer sees it shipped, and the mail arrives over SMTP through the outbox.
-    const customer = await signIn(DEMO.customer, '/shop');
-    await customer.goto(`${server.url}/orders`);
+    const customer = await pageAs(DEMO.customer, '/shop');
+    await customer.goto(`${env.url}/orders`);
     await customer.getByText(line.number).first().waitFor();
     // On the order's card (heading and progress list together), the current step is now "Shipped".
     const card = customer.locator('div, article, li, section')
@@ -213,11 +198,11 @@ describe('production in the browser', () => {
     expect(await card.locator('[aria-current="step"]').textContent()).toBe('Shipped');
     await shot(customer, 'customer-orders');
     // The order page links to the carrier's tracking page.
-    await customer.goto(`${server.url}/orders/${line.order_id}`);
+    await customer.goto(`${env.url}/orders/${line.order_id}`);
     const track = customer.getByRole('link', { name: `Track the parcel with ${carrier.name}` });
     expect(await track.getAttribute('href')).toBe(carrier.tracking_url_template.replace('{tracking}', 'PW-2026-88431'));
     // Earlier test files leave mail queued in the shared outbox: send everything due (bounded), not one round.
-    await sendDueMail(t.knex, createMailer(t.config), t.config, 500);
+    await sendDueMail(env.t.knex, createMailer(env.t.config), env.t.config, 500);
     const inbox = (await (await fetch(`${mail.httpUrl}/messages?to=${encodeURIComponent(DEMO.customer)}`)).json()) as { subject: string }[];
     expect(inbox.map((m) => m.subject)).toContain(`Order ${line.number} is on its way`);
   }, 240_000);

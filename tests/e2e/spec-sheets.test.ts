@@ -1,49 +1,33 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startJobs } from '../../server/jobs/boss';
 import { specSheetJob } from '../../server/jobs/spec-sheets';
-import { DEMO, DEMO_PASSWORD, startTestApp } from '../support/app';
-import { launchBrowser, listen, SCREENSHOTS } from '../support/browser';
+import { DEMO } from '../support/app';
+import { SCREENSHOTS, signedInPage, useBrowserApp } from '../support/browser';
 import { insertBatch, insertOrder, userId } from '../api/spec-sheets-setup';
 
 // A tester passes a unit and downloads its sheet; a planner makes a batch's sheets with a progress
 // bar that survives a reload; the customer downloads the sheet from the order page; anyone checks the serial.
-const t = startTestApp();
-let server: Awaited<ReturnType<typeof listen>>;
-let browser: Browser;
+const env = useBrowserApp();
 let jobs: Awaited<ReturnType<typeof startJobs>>;
 let batch: Awaited<ReturnType<typeof insertBatch>>;
 let orderId: number;
 
 beforeAll(async () => {
-  const customer = await userId(t.knex, DEMO.customer);
-  const option = await t.knex('clipping_options as c').join('models as m', 'm.id', 'c.model_id').where({ 'm.sku': 'HM-SMD', 'c.code': 'ASYM' }).first('c.id');
-  const order = await insertOrder(t.knex, customer, option.id, 3);
+  const customer = await userId(env.t.knex, DEMO.customer);
+  const option = await env.t.knex('clipping_options as c').join('models as m', 'm.id', 'c.model_id').where({ 'm.sku': 'HM-SMD', 'c.code': 'ASYM' }).first('c.id');
+  const order = await insertOrder(env.t.knex, customer, option.id, 3);
   orderId = order.orderId;
-  batch = await insertBatch(t.knex, [{ vf: [1.792, 0.603] }, { vf: [1.861, 0.571] }, { vf: [1.80, 0.59] }], order);
-  server = await listen(t.app);
-  browser = await launchBrowser();
-  jobs = await startJobs(t.config, [specSheetJob(t.knex, t.config, 0.5)]);
+  batch = await insertBatch(env.t.knex, [{ vf: [1.792, 0.603] }, { vf: [1.861, 0.571] }, { vf: [1.80, 0.59] }], order);
+  jobs = await startJobs(env.t.config, [specSheetJob(env.t.knex, env.t.config, 0.5)]);
 }, 60_000);
 afterAll(async () => {
   await jobs?.stop();
-  await browser?.close();
-  await server?.close();
-  await t.stop();
 });
 
-async function signIn(email: string, viewport = { width: 1180, height: 900 }) {
-  const context = await browser.newContext({ viewport, acceptDownloads: true });
-  const page = await context.newPage();
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
-  return page;
-}
+const pageAs = (email: string, viewport = { width: 1180, height: 900 }) => signedInPage(env, email, { viewport, acceptDownloads: true });
 
 async function downloadPdf(page: Page, name: RegExp | string) {
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name }).click()]);
@@ -54,9 +38,9 @@ async function downloadPdf(page: Page, name: RegExp | string) {
 describe('spec sheets in the browser', () => {
   it('a tester passes a unit at the bench and downloads its sheet', async () => {
     const unit = batch.units[0];
-    const predicted = (await t.knex('units').where({ id: unit.id }).first('predicted')).predicted.thdPercent as number;
-    const page = await signIn(DEMO.tester, { width: 1024, height: 1366 }); // a bench tablet, portrait
-    await page.goto(`${server.url}/bench/${unit.id}`);
+    const predicted = (await env.t.knex('units').where({ id: unit.id }).first('predicted')).predicted.thdPercent as number;
+    const page = await pageAs(DEMO.tester, { width: 1024, height: 1366 }); // a bench tablet, portrait
+    await page.goto(`${env.url}/bench/${unit.id}`);
     await page.getByLabel('Current draw (mA)').fill('7.4');
     await page.getByLabel('Measured THD at the reference setting (%)').fill((predicted * 1.02).toFixed(2));
     await page.getByLabel('Pass', { exact: true }).check();
@@ -67,14 +51,14 @@ describe('spec sheets in the browser', () => {
     expect((await link.boundingBox())!.height).toBeGreaterThanOrEqual(44);
     const pdf = await downloadPdf(page, `Download spec sheet for ${unit.serial}`);
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
-    expect(await t.knex('spec_sheets').where({ unit_id: unit.id }).first()).toBeTruthy();
+    expect(await env.t.knex('spec_sheets').where({ unit_id: unit.id }).first()).toBeTruthy();
     await page.screenshot({ path: path.join(SCREENSHOTS, 'spec-sheets-bench.png'), fullPage: true });
     await page.context().close();
   }, 60_000);
 
   it('a planner makes all of a batch’s sheets with a progress bar that survives a reload', async () => {
-    const page = await signIn(DEMO.planner);
-    await page.goto(`${server.url}/planning/${batch.batchId}`);
+    const page = await pageAs(DEMO.planner);
+    await page.goto(`${env.url}/planning/${batch.batchId}`);
     await page.getByRole('button', { name: 'Make all spec sheets' }).click();
     await page.getByText(`Making 3 spec sheets for batch`).waitFor();
     const bar = page.getByRole('progressbar', { name: 'Spec sheets made' });
@@ -95,8 +79,8 @@ describe('spec sheets in the browser', () => {
   }, 60_000);
 
   it('the customer downloads the passed pedal’s sheet from the order page', async () => {
-    const page = await signIn(DEMO.customer, { width: 390, height: 844 }); // a phone
-    await page.goto(`${server.url}/orders/${orderId}`);
+    const page = await pageAs(DEMO.customer, { width: 390, height: 844 }); // a phone
+    await page.goto(`${env.url}/orders/${orderId}`);
     const list = page.getByRole('list', { name: 'Pedals and their spec sheets' });
     await list.waitFor();
     expect(await list.getByRole('listitem').count()).toBe(3);
@@ -108,17 +92,17 @@ describe('spec sheets in the browser', () => {
   }, 60_000);
 
   it('anyone can check a serial on the verification page', async () => {
-    const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+    const page = await env.browser.newPage({ viewport: { width: 390, height: 844 } });
     // The link the unit's spec sheet prints: serial and the unit's check code.
-    const { verify_code: code } = await t.knex('units').where({ id: batch.units[0].id }).first('verify_code');
-    await page.goto(`${server.url}/verify/${batch.units[0].serial}?c=${code}`);
+    const { verify_code: code } = await env.t.knex('units').where({ id: batch.units[0].id }).first('verify_code');
+    await page.goto(`${env.url}/verify/${batch.units[0].serial}?c=${code}`);
     await page.getByRole('heading', { name: 'This is a genuine Hollowmere Effects unit' }).waitFor();
     expect(await page.getByText('Passed its bench test').count()).toBe(1);
     expect(await page.content()).not.toContain('Castellano');
     // The page's own font loaded from the server (Source Sans 3, shipped in an npm package).
     expect(await page.evaluate(async () => { await document.fonts.ready; return document.fonts.check('600 16px "Source Sans 3"'); })).toBe(true);
     await page.screenshot({ path: path.join(SCREENSHOTS, 'spec-sheets-verify.png'), fullPage: true });
-    const missing = await page.goto(`${server.url}/verify/HM-B9999-999X`);
+    const missing = await page.goto(`${env.url}/verify/HM-B9999-999X`);
     expect(missing!.status()).toBe(404);
     await page.getByRole('heading', { name: 'Serial not found' }).waitFor();
     await page.close();

@@ -1,58 +1,37 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import path from 'node:path';
-import type { Browser, Page } from 'playwright-core';
-import { DEMO, DEMO_PASSWORD, signedInAgent, startTestApp } from '../support/app';
-import { launchBrowser, listen, openNav, SCREENSHOTS } from '../support/browser';
+import type { Page } from 'playwright-core';
+import { DEMO, signedInAgent } from '../support/app';
+import { openNav, SCREENSHOTS, signedInPage, useBrowserApp } from '../support/browser';
 import { makeCatalog, makePaidOrder } from '../api/production-fixture';
 
 // Trays on a bench tablet (1024 × 768): Juno starts a tray and enters its readings slot by slot and
 // by pasting a column; the planner matches a released batch from it; Juno builds a unit whose Vf
 // readings come filled in from the tray.
-let t: ReturnType<typeof startTestApp>;
-let browser: Browser;
-let server: Awaited<ReturnType<typeof listen>>;
+const env = useBrowserApp();
 
-beforeAll(async () => {
-  t = startTestApp();
-  server = await listen(t.app);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-  await t?.stop();
-});
-
-async function signIn(email: string, home: string) {
-  const page = await browser.newPage({ viewport: { width: 1024, height: 768 }, hasTouch: true });
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(`**${home}`);
-  return page;
-}
+const pageAs = (email: string, home: string) => signedInPage(env, email, { viewport: { width: 1024, height: 768 }, hasTouch: true, home });
 const toast = (page: Page, text: RegExp) => page.getByText(text).first().waitFor({ timeout: 30_000 });
 
 describe('trays in the browser', () => {
   it('enters a tray on a tablet, matches a batch from it and builds a unit with the tray’s Vf', async () => {
     // A released, kitted batch of two symmetric units for a paid order, both for Juno (set up through the API).
-    const c = await makeCatalog(t.knex);
-    const order = await makePaidOrder(t.knex, c.modelId, c.options.sym, 2);
-    const planner = await signedInAgent(t.app, DEMO.planner);
+    const c = await makeCatalog(env.t.knex);
+    const order = await makePaidOrder(env.t.knex, c.modelId, c.options.sym, 2);
+    const planner = await signedInAgent(env.t.app, DEMO.planner);
     const { body: created } = await planner.post('/api/batches').set('X-CSRF-Token', planner.csrf).send({ revisionId: c.revisionId, orderLineIds: [order.lineId] }).expect(201);
     const batchId = created.id as number;
     await planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
     await planner.post(`/api/batches/${batchId}/kit`).set('X-CSRF-Token', planner.csrf).send({}).expect(200);
-    const junoId = (await t.knex('users').where({ email: DEMO.assembler }).first()).id;
+    const junoId = (await env.t.knex('users').where({ email: DEMO.assembler }).first()).id;
     await planner.put(`/api/assemblers/${junoId}`).set('X-CSRF-Token', planner.csrf).send({ skills: ['through-hole', 'device-matching', 'enclosure'], dailyCapacityMinutes: 480 }).expect(200);
-    const units = await t.knex('units').where({ batch_id: batchId }).orderBy('sequence');
+    const units = await env.t.knex('units').where({ batch_id: batchId }).orderBy('sequence');
     await planner.post(`/api/batches/${batchId}/assignments`).set('X-CSRF-Token', planner.csrf)
       .send({ builds: units.map((u) => ({ unitId: u.id, assemblerId: junoId, date: '2027-01-05' })) }).expect(200);
-    const device = await t.knex('devices').where({ name: `Si ${c.tag}` }).first();
+    const device = await env.t.knex('devices').where({ name: `Si ${c.tag}` }).first();
 
     // Juno on the tablet: a new tray, four readings typed with Enter, four pasted as a column.
-    const juno = await signIn(DEMO.assembler, '/builds');
+    const juno = await pageAs(DEMO.assembler, '/builds');
     await openNav(juno);
     await juno.getByRole('link', { name: 'Device trays' }).click();
     await juno.getByRole('heading', { name: 'New tray' }).waitFor();
@@ -79,9 +58,9 @@ describe('trays in the browser', () => {
     await juno.screenshot({ path: path.resolve('docs/trays-tablet.png') });
 
     // The planner matches the batch from the tray.
-    const desk = await signIn(DEMO.planner, '/board');
+    const desk = await pageAs(DEMO.planner, '/board');
     await desk.setViewportSize({ width: 1024, height: 768 });
-    await desk.goto(`${server.url}/planning/${batchId}`);
+    await desk.goto(`${env.url}/planning/${batchId}`);
     await desk.getByRole('heading', { name: 'Clipping devices from trays' }).waitFor();
     await desk.getByRole('button', { name: 'Propose matching' }).click();
     await desk.getByRole('table', { name: 'Proposed devices per unit' }).waitFor();
@@ -90,13 +69,13 @@ describe('trays in the browser', () => {
     await desk.getByRole('button', { name: 'Accept matching' }).click();
     await toast(desk, /Devices matched for 2 units/);
     await desk.getByRole('heading', { name: 'Kit list: clipping devices from trays' }).waitFor();
-    const slots = await t.knex('tray_slots').where({ unit_id: units[0].id }).orderBy('option_device_id');
+    const slots = await env.t.knex('tray_slots').where({ unit_id: units[0].id }).orderBy('option_device_id');
     expect(slots).toHaveLength(2);
     const labels = slots.map((s) => `T${trayId}-${String(s.slot).padStart(2, '0')}`);
     await desk.getByText(`take ${labels.join(' and ')}`).waitFor();
 
     // Juno builds the first unit: the readings are filled in from the tray and the checklist names the slots.
-    await juno.goto(`${server.url}/builds/${units[0].id}`);
+    await juno.goto(`${env.url}/builds/${units[0].id}`);
     await juno.getByRole('heading', { name: 'Device matching' }).waitFor();
     for (const label of labels) await juno.getByText(`Take ${label} from its tray`).waitFor();
     const inputs = juno.getByLabel(/^Vf of Si/);
@@ -119,9 +98,9 @@ describe('trays in the browser', () => {
     await toast(juno, /lot/i);
     await juno.getByRole('button', { name: 'Mark build finished' }).click();
     await toast(juno, /is built and goes to the test bench/);
-    const unit = await t.knex('units').where({ id: units[0].id }).first();
+    const unit = await env.t.knex('units').where({ id: units[0].id }).first();
     expect(unit.state).toBe('built');
-    const readings = await t.knex('unit_devices').where({ unit_id: units[0].id }).orderBy('option_device_id');
+    const readings = await env.t.knex('unit_devices').where({ unit_id: units[0].id }).orderBy('option_device_id');
     expect(readings.map((r) => r.measured_vf)).toEqual(slots.map((s) => s.vf));
   }, 240_000);
 });

@@ -1,4 +1,4 @@
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type BrowserContextOptions, type Page } from 'playwright-core';
 import { afterAll, beforeAll, expect } from 'vitest';
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
@@ -37,13 +37,14 @@ export interface BrowserApp {
 
 /**
  * The usual start of a browser test: the app on a real port (wrapped by `wrap`, e.g. to serve a client
- * built elsewhere), one Chromium, and all three closed after the file's tests.
+ * built elsewhere), one Chromium, and all three closed after the file's tests. `env` may be a function,
+ * read when the app starts: for settings known only then, such as a fake started in an earlier beforeAll.
  */
-export function useBrowserApp(options: { env?: Record<string, string>; wrap?: (app: Express) => Express } = {}): BrowserApp {
+export function useBrowserApp(options: { env?: Record<string, string> | (() => Record<string, string>); wrap?: (app: Express) => Express } = {}): BrowserApp {
   const env = {} as BrowserApp;
   let server: Awaited<ReturnType<typeof listen>> | undefined;
   beforeAll(async () => {
-    env.t = startTestApp(options.env);
+    env.t = startTestApp(typeof options.env === 'function' ? options.env() : options.env);
     server = await listen(options.wrap ? options.wrap(env.t.app) : env.t.app);
     env.url = server.url;
     env.browser = await launchBrowser();
@@ -56,13 +57,24 @@ export function useBrowserApp(options: { env?: Record<string, string>; wrap?: (a
   return env;
 }
 
-/** Signs in on the sign-in page as a demo account and waits until the app has left that page. */
-export async function signIn(page: Page, baseUrl: string, email: string, password = DEMO_PASSWORD) {
+/**
+ * Signs in on the sign-in page as a demo account and waits until the app has left that page; with
+ * `home`, until it has arrived there (the page the account's role starts on, e.g. '/board').
+ */
+export async function signIn(page: Page, baseUrl: string, email: string, options: { home?: string; password?: string } = {}) {
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(password);
+  await page.getByLabel('Password').fill(options.password ?? DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
+  if (options.home) await page.waitForURL(`**${options.home}`);
+  else await page.waitForURL((u) => !u.pathname.endsWith('/sign-in'));
+}
+
+/** A new page in the file's browser (Playwright's page options: viewport, hasTouch, acceptDownloads…), signed in as `email` (see signIn). */
+export async function signedInPage(app: BrowserApp, email: string, { home, ...pageOptions }: BrowserContextOptions & { home?: string }) {
+  const page = await app.browser.newPage(pageOptions);
+  await signIn(page, app.url, email, { home });
+  return page;
 }
 
 /** Below desktop width the shell folds its navigation behind "Menu": opens it when it is folded (a no-op on a desktop). */

@@ -4,26 +4,15 @@
 // PAYMENTS_API_KEY, when set, is the only API key the fake accepts (npm start gives it the app's).
 // PAYMENTS_FAKE_PORT wins over PORT, so a PORT meant for the app and inherited
 // by a child process does not make the fake take the app's port.
+import { runFakeProcess } from '../own-process.js';
 import { DEFAULT_WEBHOOK_SECRET, startPaymentsFake } from './index.js';
 
-const fake = await startPaymentsFake({
-  port: Number(process.env.PAYMENTS_FAKE_PORT ?? process.env.PORT ?? 3101),
-  webhookUrl: process.env.WEBHOOK_URL || null,
-  webhookSecret: process.env.WEBHOOK_SECRET || DEFAULT_WEBHOOK_SECRET,
-  apiKey: process.env.PAYMENTS_API_KEY || undefined,
-});
-console.log(`payments fake listening on ${fake.url} (webhooks → ${process.env.WEBHOOK_URL || 'none'})`);
-
-let stopping = false;
-const stop = () => {
-  if (stopping) return;
-  stopping = true;
-  void fake.close().then(() => process.exit(0));
-};
-process.on('SIGINT', stop);
-process.on('SIGTERM', stop);
-// Under `npm start` the supervisor holds an IPC channel: if it goes away, so does this fake.
-if (process.send) {
-  process.on('disconnect', stop);
-  process.channel?.unref();
-}
+await runFakeProcess(
+  () => startPaymentsFake({
+    port: Number(process.env.PAYMENTS_FAKE_PORT ?? process.env.PORT ?? 3101),
+    webhookUrl: process.env.WEBHOOK_URL || null,
+    webhookSecret: process.env.WEBHOOK_SECRET || DEFAULT_WEBHOOK_SECRET,
+    apiKey: process.env.PAYMENTS_API_KEY || undefined,
+  }),
+  (fake) => `payments fake listening on ${fake.url} (webhooks → ${process.env.WEBHOOK_URL || 'none'})`,
+);

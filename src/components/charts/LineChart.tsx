@@ -1,5 +1,6 @@
 import { Line } from 'react-chartjs-2';
 import { shopFormat } from '../../lib/format';
+import { ChartFigure } from './ChartFigure';
 import { SERIES_COLOURS } from './setup';
 
 export interface LineSeries {
@@ -45,25 +46,22 @@ export function LineChart({ title, series, xLabel, yLabel, logY, xMin, xMax, yMi
     };
   });
   return (
-    <figure className="rounded-lg bg-white p-4 shadow-sm">
-      <figcaption className="mb-2 font-semibold text-spruce-900">{title}</figcaption>
-      <div className="h-64">
-        <Line
-          aria-label={title}
-          role="img"
-          data={{ datasets }}
-          options={{
-            maintainAspectRatio: false,
-            parsing: false,
-            locale: shopFormat().locale,
-            scales: {
-              x: { type: 'linear', min: xMin, max: xMax, title: { display: true, text: xLabel }, ticks: formatX ? { callback: (v) => formatX(Number(v)) } : undefined },
-              y: { type: logY ? 'logarithmic' : 'linear', min: yMin, max: yMax, title: { display: true, text: yLabel }, ticks: formatY ? { callback: (v) => formatY(Number(v)) } : undefined },
-            },
-            plugins: { legend: { labels: { filter: (item) => item.text !== 'setting' } } },
-          }}
-        />
-      </div>
-    </figure>
+    <ChartFigure title={title}>
+      <Line
+        aria-label={title}
+        role="img"
+        data={{ datasets }}
+        options={{
+          maintainAspectRatio: false,
+          parsing: false,
+          locale: shopFormat().locale,
+          scales: {
+            x: { type: 'linear', min: xMin, max: xMax, title: { display: true, text: xLabel }, ticks: formatX ? { callback: (v) => formatX(Number(v)) } : undefined },
+            y: { type: logY ? 'logarithmic' : 'linear', min: yMin, max: yMax, title: { display: true, text: yLabel }, ticks: formatY ? { callback: (v) => formatY(Number(v)) } : undefined },
+          },
+          plugins: { legend: { labels: { filter: (item) => item.text !== 'setting' } } },
+        }}
+      />
+    </ChartFigure>
   );
 }
