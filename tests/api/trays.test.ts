@@ -182,4 +182,24 @@ describe('matching a batch', () => {
     const again = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     expect(again.body.units).toEqual([]);
   });
+  it('puts a cancelled unit’s matched devices back on their trays, and a cancelled batch’s too', async () => {
+    const { batchId, si, led } = await releasedBatch();
+    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    const siTray = await newTray(crew.juno, si, SILICON);
+    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
+    const { body: proposal } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
+    const accept = { units: proposal.units.map((u: { unitId: number; slots: { optionDeviceId: number; slotId: number }[] }) => ({ unitId: u.unitId, slots: u.slots.map((x) => ({ optionDeviceId: x.optionDeviceId, slotId: x.slotId })) })) };
+    await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf).send(accept).expect(200);
+    const taken = async () => (await t.knex('tray_slots').whereIn('tray_id', [siTray.id, ledTray.id]).whereNotNull('unit_id').pluck('id')).sort();
+
+    const [first, ...rest] = proposal.units as { unitId: number; slots: { slotId: number }[] }[];
+    await crew.planner.post(`/api/units/${first.unitId}/cancel`).set('X-CSRF-Token', crew.planner.csrf).send({ reason: 'customer changed the option' }).expect(200);
+    expect(await taken()).toEqual(rest.flatMap((u) => u.slots.map((x) => x.slotId)).sort());
+    // The freed slots can be read again, and matched to another unit.
+    await crew.juno.put(`/api/trays/${siTray.id}/slots`).set('X-CSRF-Token', crew.juno.csrf)
+      .send({ readings: [{ slot: (await t.knex('tray_slots').where({ id: first.slots[0].slotId }).first('slot')).slot, vf: 0.5913 }] }).expect(200);
+
+    await crew.planner.post(`/api/batches/${batchId}/cancel`).set('X-CSRF-Token', crew.planner.csrf).send({ reason: 'model withdrawn' }).expect(200);
+    expect(await taken()).toEqual([]);
+  });
 });

@@ -13,6 +13,7 @@ import { getSettings } from '../settings';
 import { listAssemblers } from './assignment';
 import { assertBatchTransition, lockBatch } from './planning';
 import { explodeBom } from './requirements';
+import { returnMatchedSlots } from './trays';
 import { appendMovements, batchHoldings, lockUnitRows } from '../stock/ledger';
 
 type Line = { id: number; option_id: number; quantity: number; order_line_id: number | null; order_id: number | null };
@@ -177,6 +178,7 @@ export async function cancelBatch(knex: Knex, userId: number, batchId: number, r
     await appendMovements(trx, held.map(([partId, h]) => ({ partId, kind: 'release' as const, quantity: h.reserved, userId, batchId, reason: `batch cancelled: ${reason}` })));
     const waiting = units.filter((u) => u.state === 'waiting');
     await trx('units').whereIn('id', waiting.map((u) => u.id)).update({ state: 'cancelled', updated_at: trx.fn.now() });
+    await returnMatchedSlots(trx, waiting.map((u) => u.id));
     if (waiting.length) await trx('unit_events').insert(waiting.map((u: { id: number }) => ({ unit_id: u.id, kind: 'state-change', from_state: 'waiting', to_state: 'cancelled', message: reason, user_id: userId })));
     const orderIds: number[] = await trx('order_lines').where({ batch_id: batchId }).distinct().pluck('order_id');
     await trx('order_lines').where({ batch_id: batchId }).update({ batch_id: null });

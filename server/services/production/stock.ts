@@ -4,6 +4,7 @@ import { appendMovements, batchHoldings, lockParts, type Movement } from '../sto
 import { unitEvent, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatch } from './planning';
 import { partsPerUnit } from './requirements';
+import { returnMatchedSlots } from './trays';
 
 // Kitting, reserving and cancelling through the one stock ledger (server/services/stock/ledger.ts),
 // in its lock order: the batch, then the unit, then the parts in id order. With the batch locked no
@@ -116,6 +117,8 @@ export async function cancelUnit(knex: Knex, userId: number, unitId: number, rea
         if (surplus > 0) releases.push({ partId, kind: 'release', quantity: surplus, userId, batchId: unit.batch_id, unitId: unit.id, reason: `unit ${unit.serial} cancelled` });
       }
       await appendMovements(trx, releases);
+      // Devices matched from a tray were never picked: they go back to their slots.
+      await returnMatchedSlots(trx, [unit.id]);
     }
     return { id: unit.id, state: unit.state };
   });

@@ -110,3 +110,13 @@ export async function importReadings(knex: Knex, user: SessionUser, trayId: numb
   const result = await saveReadings(knex, user, trayId, { readings });
   return { ...result, imported: readings.length };
 }
+
+/**
+ * Puts back on their trays the devices matched to these units, for units cancelled before kitting
+ * (their devices were never taken out). Called after the units are locked (LOCK_ORDER, then the
+ * tray slots, as matching does); returns how many slots are free again.
+ */
+export async function returnMatchedSlots(trx: Knex.Transaction, unitIds: number[]): Promise<number> {
+  if (unitIds.length === 0) return 0;
+  return trx('tray_slots').whereIn('unit_id', unitIds).update({ unit_id: null, option_device_id: null });
+}
