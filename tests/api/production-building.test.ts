@@ -97,6 +97,13 @@ describe('building, testing and shipping a unit', () => {
     const outOfTolerance = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 2).toFixed(2))).field('outcome', 'pass');
     expect(outOfTolerance.status).toBe(400);
+    // Above the shop's highest current draw (settings), a pass needs a reason too; failing needs nothing more.
+    const maxDraw = (await t.knex('settings').first('max_current_draw_ma')).max_current_draw_ma as number;
+    const overDraw = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
+      .field('currentDrawMa', String(maxDraw + 5)).field('measuredThdPercent', String((predicted * 1.05).toFixed(2))).field('outcome', 'pass');
+    expect(overDraw.status).toBe(400);
+    expect(overDraw.body.error.fields.currentDrawMa).toContain(`${maxDraw} mA`);
+    expect(overDraw.body.error.fields.reason).toMatch(/give a reason/);
     const pass = await crew.tester.post(`/api/units/${u1.id}/tests`).set('X-CSRF-Token', crew.tester.csrf)
       .field('currentDrawMa', '8.1').field('measuredThdPercent', String((predicted * 1.05).toFixed(2))).field('outcome', 'pass').expect(201);
     expect(pass.body.withinTolerance).toBe(true);

@@ -109,6 +109,12 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
     if (input.outcome === 'pass' && !withinTolerance && input.reason.length < 3) {
       throw invalid(`Out of tolerance: ${comparison.problems.join('; ')}`, { reason: `${comparison.problems.join('; ')}: give a reason to pass it` });
     }
+    // The shop's highest current draw (settings): a unit drawing more passes only with a reason.
+    const maxDrawMa = (await getSettings(trx)).max_current_draw_ma;
+    const overDraw = input.currentDrawMa > maxDrawMa ? `draws ${input.currentDrawMa} mA, above the shop's highest ${maxDrawMa} mA` : null;
+    if (input.outcome === 'pass' && overDraw && input.reason.length < 3) {
+      throw invalid(`The unit ${overDraw}`, { currentDrawMa: `Above the highest draw of ${maxDrawMa} mA`, reason: `It ${overDraw}: give a reason to pass it` });
+    }
     let fileId: number | null = null;
     if (capture) {
       const [f] = await trx('files').insert({ purpose: 'wav-capture', filename: capture.originalname.slice(0, 200), content_type: 'audio/wav', size_bytes: capture.size, data: capture.buffer, uploaded_by: user.id }).returning('id');
@@ -121,7 +127,7 @@ export async function recordTest(knex: Knex, user: SessionUser, unitId: number, 
       measured_harmonics: analysis ? JSON.stringify(analysis.harmonics) : null, measured_thd_r_percent: analysis ? analysis.thdRPercent : null,
       outcome: input.outcome, reason: input.reason,
     }).returning('id');
-    const summary = `bench test: ${input.currentDrawMa.toFixed(1)} mA, THD ${measuredThd.toFixed(2)} % ${analysis ? 'from the capture' : 'typed'} (predicted ${prediction.thdFPercent.toFixed(2)} %)${withinTolerance ? '' : `, out of tolerance: ${comparison.problems.join('; ')}`}`;
+    const summary = `bench test: ${input.currentDrawMa.toFixed(1)} mA, THD ${measuredThd.toFixed(2)} % ${analysis ? 'from the capture' : 'typed'} (predicted ${prediction.thdFPercent.toFixed(2)} %)${withinTolerance ? '' : `, out of tolerance: ${comparison.problems.join('; ')}`}${overDraw ? `, ${overDraw}` : ''}`;
     await unitEvent(trx, unitId, 'test', summary, user.id);
     if (input.outcome === 'fail') {
       await transitionUnit(trx, unit, 'rework', user.id, `sent back for rework: ${input.reason}`);

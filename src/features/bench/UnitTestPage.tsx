@@ -169,7 +169,7 @@ export default function UnitTestPage() {
               <label className="flex min-h-11 items-center gap-2 rounded-md border border-spruce-700/30 px-3"><input type="radio" value="pass" className="size-5" {...form.register('outcome')} /> Pass</label>
               <label className="flex min-h-11 items-center gap-2 rounded-md border border-spruce-700/30 px-3"><input type="radio" value="fail" className="size-5" {...form.register('outcome')} /> Send back for rework</label>
             </div>
-            <TextField className="sm:col-span-2" label="Reason (needed to send back, or to pass out of tolerance)" error={errors.reason?.message} {...form.register('reason')} />
+            <TextField className="sm:col-span-2" label="Reason (needed to send back, or to pass out of tolerance or above the highest current draw)" error={errors.reason?.message} {...form.register('reason')} />
             <div className="sm:col-span-2"><Button type="submit" busy={record.isPending} disabled={analyse.isPending}>Save test</Button></div>
           </fieldset>
         </form>
