@@ -14,7 +14,9 @@ const SHOW_MS = 5000;
 /**
  * Says the result of an action in words, in a polite live region. One message at a time: a new
  * one replaces the last (quick taps at the bench never pile messages up), and it sits at the
- * bottom of the screen, clear of the page's title and its buttons.
+ * bottom of the screen, clear of the page's title. Taps go through it to whatever is beneath (a
+ * button in the corner stays usable while a message shows), and it is see-through enough to read
+ * what it covers.
  */
 export function ToastProvider({ children }: { children: ReactNode }) {
   const [toast, setToast] = useState<Toast | null>(null);
@@ -33,7 +35,7 @@ export function ToastProvider({ children }: { children: ReactNode }) {
           <div
             key={toast.id}
             role="status"
-            className={`pointer-events-auto max-w-xl rounded-md px-4 py-3 font-semibold shadow-lg ${toast.tone === 'good' ? 'bg-spruce-900 text-white' : 'bg-alarm-700 text-white'}`}
+            className={`max-w-xl rounded-md px-4 py-3 font-semibold opacity-95 shadow-lg ${toast.tone === 'good' ? 'bg-spruce-900 text-white' : 'bg-alarm-700 text-white'}`}
           >
             {toast.message}
           </div>
