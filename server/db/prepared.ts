@@ -62,3 +62,17 @@ export function usePreparedStatements(knex: Knex): void {
     }
   };
 }
+
+/**
+ * `column IN ('a', 'b')` with the values written into the SQL text instead of bound, for fixed lists
+ * that come from the code (states, roles), never from a request. A bound list hides which values
+ * they are, so PostgreSQL cannot keep a good generic plan and plans the query on every execution;
+ * written in, the cached plan knows them. Only plain lower-case words are accepted.
+ */
+export function inConstants(knex: Knex | Knex.Transaction, column: string, values: readonly string[]): Knex.Raw {
+  if (values.length === 0) throw new Error('inConstants needs at least one value');
+  for (const value of values) {
+    if (!/^[a-z][a-z0-9_]*$/.test(value)) throw new Error(`inConstants takes plain words from the code, not ${JSON.stringify(value)}`);
+  }
+  return knex.raw(`?? IN (${values.map((v) => `'${v}'`).join(', ')})`, [column]);
+}

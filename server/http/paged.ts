@@ -22,8 +22,10 @@ export async function paged<Row, Item, S extends string>(
   const column = spec.sortColumns[params.sort];
   const rows = (await spec.rows
     .orderBy([{ column, order: params.dir, nulls: params.dir === 'asc' ? 'last' : 'first' }, { column: spec.tieBreak, order: params.dir }])
-    .limit(params.pageSize)
-    .offset((params.page - 1) * params.pageSize)) as Row[];
+    // Written into the SQL, not bound: with a bound LIMIT PostgreSQL cannot cost a generic plan well,
+    // so it would plan these joins again on every request (see server/db/prepared.ts).
+    .limit(params.pageSize, { skipBinding: true })
+    .offset((params.page - 1) * params.pageSize, { skipBinding: true })) as Row[];
   return { items: rows.map(spec.map), total, totalCapped, page: params.page, pageSize: params.pageSize };
 }
 

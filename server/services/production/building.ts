@@ -13,6 +13,7 @@ import { lockUnit, lockUnitWithBatch, transitionUnit, unitEvent } from './histor
 import { toDate } from './planning';
 import { slotLabelsFor } from './matching';
 import { nominalVf, predictUnit } from './unit-circuit';
+import { inConstants } from '../../db/prepared';
 
 type Db = Knex | Knex.Transaction;
 
@@ -36,15 +37,18 @@ const BUILD_SORT: Record<BuildListQuery['sort'], string> = { queue: 'queue_rank'
 export async function myBuilds(db: Db, userId: number, params: BuildListQuery) {
   const settings = await getSettings(db);
   const today = shopDate(new Date(), settings.time_zone);
-  const base = () => {
-    const q = db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
-      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id')
-      .where('u.assembler_id', userId).whereIn('u.state', ['waiting', 'building', 'rework']);
+  // Every unit has its batch, revision, model and option (foreign keys, not null): the count joins
+  // them only to search their names.
+  const base = (joined = true) => {
+    const q = db('units as u').where('u.assembler_id', userId).where(inConstants(db, 'u.state', ['waiting', 'building', 'rework']));
+    if (!joined) return q;
+    q.join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('u.serial', like).orWhereILike('m.name', like).orWhereILike('c.name', like)); }
     return q;
   };
   return paged(params, {
-    count: base(),
+    count: base(Boolean(params.q)),
     rows: base().leftJoin('orders as o', 'o.id', 'u.order_id')
       .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name', 'o.due_at',
         db.raw('(SELECT COUNT(*)::int FROM build_steps s WHERE s.revision_id = b.revision_id) AS steps'),
