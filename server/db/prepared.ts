@@ -6,8 +6,9 @@
 // after five executions PostgreSQL may keep a generic plan for it and stop planning at all.
 //
 // Rules, kept simple on purpose:
-// - Only statements with bindings (these already go through the extended protocol, so never hold
-//   two commands) and only plain SELECT / WITH / INSERT / UPDATE / DELETE are named.
+// - Only plain SELECT / WITH / INSERT / UPDATE / DELETE are named, and only when they are surely one
+//   command (a named statement goes through the extended protocol, which refuses two): those with
+//   bindings (already sent that way) and those without a semicolon anywhere in their text.
 // - The name is a digest of the SQL text, so the same text always has the same name, in every
 //   process and on every pooled connection.
 // - At most MAX_NAMED texts are named per process (IN lists of varying length make new texts);
@@ -33,7 +34,7 @@ const names = new Map<string, string>();
 
 /** The statement name for this SQL, or undefined when it stays unnamed. */
 export function statementName(sql: string, bindingCount: number): string | undefined {
-  if (bindingCount === 0 || !PREPARABLE.test(sql)) return undefined;
+  if (!PREPARABLE.test(sql) || (bindingCount === 0 && sql.includes(';'))) return undefined;
   let name = names.get(sql);
   if (name === undefined && names.size < MAX_NAMED) {
     name = `kp_${createHash('sha1').update(sql).digest('hex').slice(0, 24)}`;

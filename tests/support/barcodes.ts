@@ -5,7 +5,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { BarcodeFormat, BinaryBitmap, DecodeHintType, HybridBinarizer, MultiFormatReader, RGBLuminanceSource } from '@zxing/library';
+import { BarcodeFormat, BinaryBitmap, DecodeHintType, GlobalHistogramBinarizer, HybridBinarizer, MultiFormatReader, RGBLuminanceSource } from '@zxing/library';
 import { PNG } from 'pngjs';
 
 export interface Raster { width: number; height: number; dpi: number; rgba: Buffer }
@@ -63,5 +63,12 @@ export function decode(raster: Raster, format: 'CODE_128' | 'QR_CODE', areaMm?: 
   ]);
   const reader = new MultiFormatReader();
   reader.setHints(hints);
-  return reader.decode(new BinaryBitmap(new HybridBinarizer(new RGBLuminanceSource(luminance, w, h)))).getText();
+  const source = new RGBLuminanceSource(luminance, w, h);
+  // The two binarizers zxing offers: the local one first, then the global one, which some crops of
+  // a clean print need (the local one occasionally misses a code there, depending on its content).
+  try {
+    return reader.decode(new BinaryBitmap(new HybridBinarizer(source))).getText();
+  } catch {
+    return reader.decode(new BinaryBitmap(new GlobalHistogramBinarizer(source))).getText();
+  }
 }

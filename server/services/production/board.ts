@@ -2,13 +2,14 @@ import type { Knex } from 'knex';
 import { batchLabel } from '../../../shared/production/serials';
 import { toDate } from './planning';
 import { explodeBoms } from './requirements';
+import { inConstants } from '../../db/prepared';
 
 type Db = Knex | Knex.Transaction;
 
 /** The production board: live batches with units by state, work per assembler, late units, shortages to chase. */
 export async function productionBoard(db: Db, today = new Date().toISOString().slice(0, 10)) {
   const batches = await db('batches as b').join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
-    .whereIn('b.state', ['draft', 'released', 'on_bench']).select('b.id', 'b.number', 'b.state', 'b.revision_id', 'm.name as model_name', 'r.number as revision_number').orderBy('b.number');
+    .where(inConstants(db, 'b.state', ['draft', 'released', 'on_bench'])).select('b.id', 'b.number', 'b.state', 'b.revision_id', 'm.name as model_name', 'r.number as revision_number').orderBy('b.number');
   // One pass over the live batches' units gives both the counts by state and the open (not kitted)
   // units per option; their shortages come from one set-based BOM explosion (no query per batch).
   const unitRows = (batches.length
@@ -33,8 +34,8 @@ export async function productionBoard(db: Db, today = new Date().toISOString().s
   live.forEach((b, i) => {
     for (const r of exploded[i].filter((x) => x.shortage > 0)) shortages.push({ batch: batchLabel(b.number), partNumber: r.partNumber, description: r.description, shortage: r.shortage, supplier: r.supplier });
   });
-  const wip = await db('users as u').leftJoin('units as x', function join() { this.on('x.assembler_id', 'u.id').andOnIn('x.state', ['waiting', 'building', 'rework']); })
-    .where({ 'u.role': 'assembler', 'u.active': true }).groupBy('u.id', 'u.name').orderBy('u.name')
+  const wip = await db('users as u').leftJoin('units as x', function join() { this.on('x.assembler_id', 'u.id').andOn(inConstants(db, 'x.state', ['waiting', 'building', 'rework'])); })
+    .where(inConstants(db, 'u.role', ['assembler'])).whereRaw('u.active').groupBy('u.id', 'u.name').orderBy('u.name')
     .select('u.id', 'u.name')
     .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'waiting')::int AS waiting"))
     .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'building')::int AS building"))
@@ -43,9 +44,9 @@ export async function productionBoard(db: Db, today = new Date().toISOString().s
   // LIMIT keeps the lookup per unit, where a plain join scans every order the shop ever had).
   const late = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id')
     .joinRaw('LEFT JOIN LATERAL (SELECT number, due_at FROM orders WHERE orders.id = u.order_id LIMIT 1) o ON true')
-    .whereIn('u.state', ['waiting', 'building', 'rework', 'built'])
+    .where(inConstants(db, 'u.state', ['waiting', 'building', 'rework', 'built']))
     .where((q) => q.where('u.planned_date', '<', today).orWhere('o.due_at', '<', today))
-    .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'a.name as assembler_name', 'o.number as order_number', 'o.due_at').orderBy('u.planned_date').limit(50);
+    .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'a.name as assembler_name', 'o.number as order_number', 'o.due_at').orderBy('u.planned_date').limit(50, { skipBinding: true });
   return {
     batches: batches.map((b) => ({
       id: b.id, label: batchLabel(b.number), state: b.state, modelName: b.model_name, revisionNumber: b.revision_number,

@@ -90,14 +90,14 @@ export async function explodeBoms(db: Db, requests: BomRequest[]): Promise<Requi
     return totals;
   });
   const partIds = [...new Set(totalsPerRequest.flatMap((t) => [...t.keys()]))];
-  const batchIds = [...new Set(requests.map((r) => r.batchId).filter((id): id is number => id !== null))];
+  // Only batches with units still to build need their holdings (a finished batch's would be read for nothing).
+  const batchIds = [...new Set(requests.filter((r) => r.units.size > 0).map((r) => r.batchId).filter((id): id is number => id !== null))];
   const [parts, heldRows] = await Promise.all([
     partIds.length
       ? db('parts as p').leftJoin('suppliers as s', 's.id', 'p.supplier_id').join('part_stock as ps', 'ps.part_id', 'p.id').whereIn('p.id', partIds)
           .select('p.id', 'p.part_number', 'p.category', 'p.value', 'p.package', 'p.unit_cost_cents', 'p.lead_time_days', 's.name as supplier', 'ps.available')
       : [],
-    // Every part a batch holds (a few dozen rows a batch): filtering by part too only made the plan dearer.
-    batchIds.length && partIds.length ? batchHoldingsMany(db, batchIds) : [],
+    batchIds.length && partIds.length ? batchHoldingsMany(db, batchIds, partIds) : [],
   ]);
   const held = new Map(heldRows.map((h) => [`${h.batch_id}:${h.part_id}`, h]));
   return requests.map((req, i) => {

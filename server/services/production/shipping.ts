@@ -13,6 +13,7 @@ import { compute } from '../../compute/pool';
 import { lockUnit, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { closeBatchIfDone, orderFullyPassed } from './testing';
+import { inConstants } from '../../db/prepared';
 
 type Db = Knex | Knex.Transaction;
 
@@ -35,7 +36,8 @@ const STOCK_LIST_LIMIT = 100;
 export async function shippingQueue(db: Db, params: ShippingListQuery) {
   // Every order has its customer (a foreign key): the count joins customers only to search their names.
   const base = (withCustomer = true) => {
-    const q = db('orders as o').whereIn('o.state', params.state ? [params.state] : [...SHIPPING_STATES]);
+    // The states are the enum's own words (checked by the schema), written into the SQL for the plan cache.
+    const q = db('orders as o').where(inConstants(db, 'o.state', params.state ? [params.state] : [...SHIPPING_STATES]));
     if (withCustomer) q.join('users as u', 'u.id', 'o.customer_id');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('o.ship_name', like)); }
     return q;
@@ -58,18 +60,18 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
   const ordered = new Map(sums.map((r: { order_id: number; ordered: number }) => [r.order_id, r.ordered]));
   // Passed builds first (they wait for someone), then the newest stock: the newest of each state
   // come from the finished-stock index (migration 20261204160000), and only those are joined.
-  const newest = (state: 'passed' | 'in_stock') => db('units').where({ state }).whereNull('order_id')
-    .select('id', 'serial', 'state', 'option_id', 'batch_id').orderBy('id', 'desc').limit(STOCK_LIST_LIMIT);
+  const newest = (state: 'passed' | 'in_stock') => db('units').where(inConstants(db, 'state', [state])).whereNull('order_id')
+    .select('id', 'serial', 'state', 'option_id', 'batch_id').orderBy('id', 'desc').limit(STOCK_LIST_LIMIT, { skipBinding: true });
   const stock = await db.from(db.unionAll([newest('passed'), newest('in_stock')], true).as('u'))
     .join('clipping_options as c', 'c.id', 'u.option_id').join('batches as b', 'b.id', 'u.batch_id')
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
     .select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
-    .orderByRaw("u.state = 'passed' DESC, u.id DESC").limit(STOCK_LIST_LIMIT);
+    .orderByRaw("u.state = 'passed' DESC, u.id DESC").limit(STOCK_LIST_LIMIT, { skipBinding: true });
   const stockByOption = new Map<number, number>();
-  for (const u of await db('units').where({ state: 'in_stock' }).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
+  for (const u of await db('units').where(inConstants(db, 'state', ['in_stock'])).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
   const waiting = stockByOption.size
-    ? await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').where('o.state', 'paid').whereNull('l.batch_id').whereIn('l.option_id', [...stockByOption.keys()])
-        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT)
+    ? await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').where(inConstants(db, 'o.state', ['paid'])).whereNull('l.batch_id').whereIn('l.option_id', [...stockByOption.keys()])
+        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT, { skipBinding: true })
     : [];
   return {
     orders: { ...orders, items: orders.items.map((o) => ({ ...o, ordered: ordered.get(o.id) ?? 0 })) },

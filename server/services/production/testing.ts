@@ -14,6 +14,7 @@ import { lockUnitWithBatch, transitionUnit, unitEvent } from './history';
 import { toDate } from './planning';
 import { predictUnit } from './unit-circuit';
 import { sheetFilename, storeSheetForPassedUnit } from '../spec-sheets/sheets';
+import { inConstants } from '../../db/prepared';
 
 type Db = Knex | Knex.Transaction;
 
@@ -22,15 +23,18 @@ const BENCH_SORT: Record<BenchListQuery['sort'], string> = { serial: 'u.serial',
 interface BenchListRow { id: number; serial: string; planned_date: Date | null; updated_at: Date; model_name: string; option_name: string; assembler_name: string | null }
 
 export async function benchQueue(db: Db, params: BenchListQuery) {
-  const base = () => {
-    const q = db('units as u').join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
-      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id').leftJoin('users as a', 'a.id', 'u.assembler_id')
-      .where('u.state', 'built');
+  // Every unit has its batch, revision, model and option (foreign keys, not null): the count joins
+  // them only to search.
+  const base = (joined = true) => {
+    const q = db('units as u').where(inConstants(db, 'u.state', ['built']));
+    if (!joined) return q;
+    q.join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+      .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id').leftJoin('users as a', 'a.id', 'u.assembler_id');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('u.serial', like).orWhereILike('m.name', like)); }
     return q;
   };
   return paged(params, {
-    count: base(),
+    count: base(Boolean(params.q)),
     rows: base().select('u.id', 'u.serial', 'u.planned_date', 'u.updated_at', 'm.name as model_name', 'c.name as option_name', 'a.name as assembler_name'),
     sortColumns: BENCH_SORT, tieBreak: 'u.id',
     map: (r: BenchListRow) => ({ id: r.id, serial: r.serial, modelName: r.model_name, optionName: r.option_name, assemblerName: r.assembler_name, builtAt: r.updated_at, plannedDate: r.planned_date ? toDate(r.planned_date) : null }),
