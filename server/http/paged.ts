@@ -31,7 +31,7 @@ export async function paged<Row, Item, S extends string>(
 
 /** How many rows the query matches, counting at most COUNT_CAP + 1 of them. */
 export async function cappedCount(query: Knex.QueryBuilder): Promise<{ total: number; totalCapped: boolean }> {
-  const matches = query.clearSelect().clearOrder().select(query.client.raw('1')).limit(COUNT_CAP + 1);
+  const matches = query.clearSelect().clearOrder().select(query.client.raw('1')).limit(COUNT_CAP + 1, { skipBinding: true });
   const [{ n }] = (await query.client.queryBuilder().count({ n: '*' }).from(matches.as('matches'))) as { n: number }[];
   return Number(n) > COUNT_CAP ? { total: COUNT_CAP, totalCapped: true } : { total: Number(n), totalCapped: false };
 }

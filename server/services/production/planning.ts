@@ -8,6 +8,7 @@ import { conflict, invalid, notFound } from '../../errors';
 import { lockBatchRow } from '../stock/ledger';
 import { slotLabelsFor } from './matching';
 import { earliestStart, explodeBom } from './requirements';
+import { inConstants } from '../../db/prepared';
 
 type Db = Knex | Knex.Transaction;
 
@@ -20,16 +21,18 @@ export async function planningCandidates(db: Db, params: CandidateLinesQuery) {
     .select('r.id', 'r.number', 'r.label', 'r.frozen_at', 'm.id as model_id', 'm.name as model_name', 'm.active_revision_id')
     .orderBy(['m.name', { column: 'r.number', order: 'desc' }]);
   const options = await db('clipping_options').select('id', 'model_id', 'code', 'name').orderBy(['model_id', 'position', 'id']);
-  const base = () => {
-    const q = db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').join('users as u', 'u.id', 'o.customer_id')
-      .where('o.state', 'paid').whereNull('l.batch_id')
-      .whereNotExists((w) => w.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereNot('b.state', 'cancelled'));
+  // Every order has its customer (a foreign key, not null): the count joins customers only to search.
+  const base = (withCustomer = true) => {
+    const q = db('order_lines as l').join('orders as o', 'o.id', 'l.order_id')
+      .where(inConstants(db, 'o.state', ['paid'])).whereNull('l.batch_id')
+      .whereNotExists((w) => w.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereRaw("b.state <> 'cancelled'"));
+    if (withCustomer) q.join('users as u', 'u.id', 'o.customer_id');
     if (params.modelId) q.where('l.model_id', params.modelId);
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('l.description', like)); }
     return q;
   };
   const orderLines = await paged(params, {
-    count: base(),
+    count: base(Boolean(params.q)),
     rows: base().select('l.id', 'l.model_id', 'l.option_id', 'l.quantity', 'l.description', 'o.number as order_number', 'o.due_at', 'u.name as customer_name'),
     sortColumns: CANDIDATE_SORT, tieBreak: 'l.id',
     map: (l: CandidateLineRow) => ({
