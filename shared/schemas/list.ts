@@ -12,9 +12,10 @@ export type SortDirection = (typeof SORT_DIRECTIONS)[number];
 /**
  * Counting stops here: a list's count reads at most this many rows, so its cost stays bounded
  * however long the shop's history grows. Past it, `total` is this number and `totalCapped` is true
- * ("10000+ orders"); searching and filtering narrow a list back under it.
+ * ("1000+ orders"); searching and filtering narrow a list back under it. A thousand is 40 pages of
+ * 25, more than anyone pages through, and counting it costs about as much as reading one page.
  */
-export const COUNT_CAP = 10_000;
+export const COUNT_CAP = 1_000;
 
 /** One page of a list: the rows, how many match in all (or COUNT_CAP+, see totalCapped), and which page this is. */
 export interface Page<T> {

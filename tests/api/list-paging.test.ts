@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { PAGE_SIZE_MAX } from '../../shared/schemas/list';
+import { COUNT_CAP, PAGE_SIZE_MAX } from '../../shared/schemas/list';
 import { DEMO, signedInAgent, startTestApp, type TestAgent } from '../support/app';
 import { insertPedal, placeOrder } from './orders-fixtures';
 
@@ -27,12 +27,14 @@ describe('paged lists', () => {
     expect(first.body).toMatchObject({ page: 1, pageSize: 2 });
     expect(first.body.items).toHaveLength(2);
     expect(second.body.total).toBe(first.body.total);
-    expect(first.body.total).toBe(Number((await t.knex('orders').count('* as n').first())!.n));
+    // Counts stop at COUNT_CAP (a long test run can hold more orders than that).
+    expect(first.body.total).toBe(Math.min(COUNT_CAP, Number((await t.knex('orders').count('* as n').first())!.n)));
     expect(ids(first.body).filter((id) => ids(second.body).includes(id))).toEqual([]);
     // Ascending by number = ascending by id; the second page continues the first.
     expect(Math.max(...ids(first.body))).toBeLessThan(Math.min(...ids(second.body)));
+    // Past the last page there is nothing (when the count is exact; past the cap, more pages follow).
     const beyond = await planner.get(`/api/orders?pageSize=2&page=${Math.ceil(first.body.total / 2) + 1}`).expect(200);
-    expect(beyond.body.items).toEqual([]);
+    expect(beyond.body.items.length === 0).toBe(!first.body.totalCapped);
   });
 
   it('sorts on the server by a whitelisted key in either direction', async () => {
@@ -69,7 +71,7 @@ describe('paged lists', () => {
     const closed = await planner.get('/api/batches?state=closed&pageSize=100').expect(200);
     expect(closed.body.items.every((b: { state: string }) => b.state === 'closed')).toBe(true);
     const all = await planner.get('/api/batches?pageSize=1').expect(200);
-    expect(all.body.total).toBe(Number((await t.knex('batches').count('* as n').first())!.n));
+    expect(all.body.total).toBe(Math.min(COUNT_CAP, Number((await t.knex('batches').count('* as n').first())!.n)));
     const staff = await owner.get('/api/users?staff=true&sort=email&pageSize=100').expect(200);
     expect(staff.body.items.length).toBeGreaterThan(0);
     expect(staff.body.items.some((u: { role: string }) => u.role === 'customer')).toBe(false);
@@ -79,7 +81,7 @@ describe('paged lists', () => {
     expect(found.body.items.map((u: { email: string }) => u.email)).toEqual(['sam@mail.example']);
     const bench = await planner.get('/api/bench?pageSize=5').expect(200);
     expect(bench.body).toMatchObject({ page: 1, pageSize: 5 });
-    expect(bench.body.total).toBe(Number((await t.knex('units').where({ state: 'built' }).count('* as n').first())!.n));
+    expect(bench.body.total).toBe(Math.min(COUNT_CAP, Number((await t.knex('units').where({ state: 'built' }).count('* as n').first())!.n)));
   });
 });
 

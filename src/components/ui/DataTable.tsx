@@ -88,7 +88,7 @@ export function DataTable<T>({ data, columns, caption, rowClassName, server }: P
   );
 }
 
-/** "120 orders · page 2 of 5" with previous and next; past the count cap, "10000+ orders · page 2 of 400+". */
+/** "120 orders · page 2 of 5" with previous and next; past the count cap, "1000+ orders · page 2 of 40+". */
 export function Pager({ listing, label }: { listing: ServerListing; label: string }) {
   const { page, pageSize, total, totalCapped } = listing.page;
   const pages = Math.max(1, Math.ceil(total / pageSize));
