@@ -100,6 +100,17 @@ describe('matching a batch', () => {
     return { c, batchId: body.id as number, ...(await deviceIds(c)) };
   }
 
+  /** A released batch, a silicon and an LED tray, and the planner's proposal from them with its accept body. */
+  async function proposedMatch() {
+    const { batchId, si, led } = await releasedBatch();
+    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
+    const siTray = await newTray(crew.juno, si, SILICON);
+    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
+    const { body: proposal } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
+    const accept = { units: proposal.units.map((u: { unitId: number; slots: { optionDeviceId: number; slotId: number }[] }) => ({ unitId: u.unitId, slots: u.slots.map((x) => ({ optionDeviceId: x.optionDeviceId, slotId: x.slotId })) })) };
+    return { batchId, siTray, ledTray, proposal, accept };
+  }
+
   it('is refused before release, then proposes exact pairs, cross pairs and lists leftovers', async () => {
     const { c, batchId, si, led } = await releasedBatch();
     await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(409);
@@ -136,12 +147,7 @@ describe('matching a batch', () => {
   });
 
   it('accepting fills each unit’s Vf from its slots, names the slots, and takes them off the tray', async () => {
-    const { batchId, si, led } = await releasedBatch();
-    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
-    const siTray = await newTray(crew.juno, si, SILICON);
-    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
-    const { body: proposal } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
-    const accept = { units: proposal.units.map((u: { unitId: number; slots: { optionDeviceId: number; slotId: number }[] }) => ({ unitId: u.unitId, slots: u.slots.map((s) => ({ optionDeviceId: s.optionDeviceId, slotId: s.slotId })) })) };
+    const { batchId, siTray, proposal, accept } = await proposedMatch();
 
     // A slot given twice, and a silicon slot in the LED's position, are field errors.
     const first = accept.units[0];
@@ -183,12 +189,7 @@ describe('matching a batch', () => {
     expect(again.body.units).toEqual([]);
   });
   it('puts a cancelled unit’s matched devices back on their trays, and a cancelled batch’s too', async () => {
-    const { batchId, si, led } = await releasedBatch();
-    await crew.planner.post(`/api/batches/${batchId}/release`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
-    const siTray = await newTray(crew.juno, si, SILICON);
-    const ledTray = await newTray(crew.juno, led, [1.652, 1.671, 1.638, 1.660]);
-    const { body: proposal } = await crew.planner.post(`/api/batches/${batchId}/matching/proposal`).set('X-CSRF-Token', crew.planner.csrf).send({ trayIds: [siTray.id, ledTray.id] }).expect(200);
-    const accept = { units: proposal.units.map((u: { unitId: number; slots: { optionDeviceId: number; slotId: number }[] }) => ({ unitId: u.unitId, slots: u.slots.map((x) => ({ optionDeviceId: x.optionDeviceId, slotId: x.slotId })) })) };
+    const { batchId, siTray, ledTray, proposal, accept } = await proposedMatch();
     await crew.planner.post(`/api/batches/${batchId}/matching`).set('X-CSRF-Token', crew.planner.csrf).send(accept).expect(200);
     const taken = async () => (await t.knex('tray_slots').whereIn('tray_id', [siTray.id, ledTray.id]).whereNotNull('unit_id').pluck('id')).sort();
 
