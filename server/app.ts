@@ -13,6 +13,7 @@ import { DomainError, errorMiddleware, requestId } from './errors';
 import { compressResponses } from './http/compression';
 import { refuseNul } from './http/input-guard';
 import { buildRouter, type RouteDef, type RouteRegistry } from './http/route-table';
+import { ResponseCache } from './http/response-cache';
 import { clientFiles } from './http/static-files';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
@@ -96,7 +97,7 @@ export function createApp({ knex, config }: AppDeps) {
     ...boardRoutes(knex),
     ...specSheetRoutes(knex, config),
   ];
-  app.use(buildRouter(routes, registry));
+  app.use(buildRouter(routes, registry, config.RESPONSE_CACHE === 'true' ? new ResponseCache() : undefined));
   app.use('/api', (_req, _res, next) => next(new DomainError(404, 'not_found', 'No such API route')));
 
   const dist = path.join(root, 'dist');

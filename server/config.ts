@@ -60,6 +60,8 @@ const schema = z.object({
   PROFILE_RATE_WINDOW_SECONDS: z.coerce.number().int().min(1).default(60),
   PROFILE_MAX_COST: z.coerce.number().min(1).default(30),
   // A release creates its units in a background job, this many per transaction (server/services/production/release-job.ts).
+  // Web processes resend a GET's JSON until any write commits (server/http/response-cache.ts).
+  RESPONSE_CACHE: flag.default('true'),
   RELEASE_CHUNK_UNITS: z.coerce.number().int().min(1).max(5000).default(200),
 });
 

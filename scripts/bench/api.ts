@@ -1,7 +1,10 @@
 // `npm run bench -- api [--scale 5]`: HTTP load on every list route over a production-size
 // dataset, against a bare Express + pg baseline measured in the same run. Only 127.0.0.1, 50
 // connections, 10 s a route (KP_BENCH_SECONDS overrides, KP_BENCH_ROUTES picks routes by
-// substring). Then the web process's event-loop delay while a worker process (the product's own,
+// substring), each after 2 s of the same load unmeasured. The app runs as production does, with its
+// response cache on (server/http/response-cache.ts); then every route again with it off
+// (KP_BENCH_UNCACHED=0 skips that pass), which is what a request costs right after a write. Then
+// the web process's event-loop delay while a worker process (the product's own,
 // `scripts/serve.ts worker`) renders a 100-unit spec-sheet archive requested through the API.
 // Prints figures and targets; asserts nothing.
 import autocannon from 'autocannon';
@@ -22,6 +25,9 @@ import { pollHealth } from './health-poll';
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const CONNECTIONS = 50;
 const SECONDS = Number(process.env.KP_BENCH_SECONDS ?? 10);
+// Each server (baseline and app) and each route first gets this long of the same load, unmeasured,
+// so neither side is timed while V8 is still compiling its code.
+const WARMUP_SECONDS = 2;
 const TARGET_RATIO = 3;
 const TARGET_PAGE_GZIP = 64 * 1024;
 const PASSWORD = 'kneepoint-demo';
@@ -153,8 +159,9 @@ async function archiveUnderWatch(app: { child: ChildProcess; base: string }, env
 
 const quantile = (sorted: number[], q: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] : NaN);
 
-/** 50 connections for SECONDS against one URL; latencies from every finished response. */
+/** 50 connections for SECONDS against one URL, after WARMUP_SECONDS unmeasured; latencies from every finished response. */
 async function load(url: string, headers: Record<string, string>) {
+  await new Promise((resolve, reject) => autocannon({ url, connections: CONNECTIONS, duration: WARMUP_SECONDS, headers }, (e, r) => (e ? reject(e) : resolve(r))));
   const times: number[] = [];
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
     const instance = autocannon({ url, connections: CONNECTIONS, duration: SECONDS, headers, timeout: SECONDS + 5 }, (error, r) => (error ? reject(error) : resolve(r)));
@@ -169,6 +176,38 @@ async function load(url: string, headers: Record<string, string>) {
 
 const kib = (bytes: number) => `${(bytes / 1024).toFixed(1)} KiB`;
 const ms = (x: number) => (Number.isNaN(x) ? 'none finished' : x < 10 ? x.toFixed(1) : x.toFixed(0));
+
+type Cookies = Record<Route['as'], string>;
+
+/** Signs in the four people the routes are read as. */
+async function signInAll(base: string): Promise<Cookies> {
+  return {
+    planner: await signIn(base, 'planner@shop.example'),
+    owner: await signIn(base, 'owner@shop.example'),
+    assembler: await signIn(base, 'assembler@shop.example'),
+    customer: await signIn(base, 'customer@shop.example'),
+  };
+}
+
+/** Loads each route in turn, printing one line each; returns the worst p95 ratio against the baseline's. */
+async function loadRoutes(base: string, cookies: Cookies, routes: Route[], baseP95: number, tag: string) {
+  let worst = { ratio: 0, label: '' };
+  for (const route of routes) {
+    const headers = { cookie: cookies[route.as], 'accept-encoding': 'gzip' };
+    const one = await fetchRaw(base + route.path, headers);
+    const raw = one.encoding === 'gzip' ? (await import('node:zlib')).gunzipSync(one.body).length : one.body.length;
+    const gzip = one.encoding === 'gzip' ? one.body.length : gzipSync(one.body).length;
+    const r = await load(base + route.path, headers);
+    // A route where no request finished counts as the whole run plus the timeout.
+    const ratio = (Number.isNaN(r.p95) ? (SECONDS + 5) * 1000 : r.p95) / baseP95;
+    if (!(ratio <= worst.ratio)) worst = { ratio, label: route.label };
+    const trouble = [r.non2xx ? `${r.non2xx} non-2xx` : '', r.errors ? `${r.errors} errors` : '', r.timeouts ? `${r.timeouts} timeouts` : '', one.status !== 200 ? `status ${one.status}` : ''].filter(Boolean).join(', ');
+    console.log(`api ${route.label}${tag} p50 ${ms(r.p50)} p95 ${ms(r.p95)} ms, ${r.rps.toFixed(1)} req/s, ratio ${ratio.toFixed(1)}` +
+      ` | size raw ${kib(raw)}, gzip ${kib(gzip)} (${one.encoding === 'gzip' ? 'sent gzip' : 'sent uncompressed'})` +
+      `${gzip > TARGET_PAGE_GZIP ? ' OVER 64 KiB' : ''}${trouble ? ` | ${trouble}` : ''}`);
+  }
+  return worst;
+}
 
 async function runApiBench() {
   const argv = process.argv.slice(2);
@@ -193,12 +232,7 @@ async function runApiBench() {
   const app = await startServer('app', env);
   const baseline = await startServer('baseline', env);
   try {
-    const cookies = {
-      planner: await signIn(app.base, 'planner@shop.example'),
-      owner: await signIn(app.base, 'owner@shop.example'),
-      assembler: await signIn(app.base, 'assembler@shop.example'),
-      customer: await signIn(app.base, 'customer@shop.example'),
-    };
+    const cookies = await signInAll(app.base);
     const routes: Route[] = [
       { label: '/api/orders', path: '/api/orders', as: 'planner' },
       { label: '/api/shipping', path: '/api/shipping', as: 'planner' },
@@ -220,23 +254,20 @@ async function runApiBench() {
 
     const base = await load(`${baseline.base}/order`, {});
     console.log(`api baseline (bare Express + pg, one primary-key lookup) p50 ${ms(base.p50)} p95 ${ms(base.p95)} ms, ${base.rps.toFixed(0)} req/s`);
-    let worst = { ratio: 0, label: '' };
-    for (const route of routes) {
-      const headers = { cookie: cookies[route.as], 'accept-encoding': 'gzip' };
-      const one = await fetchRaw(app.base + route.path, headers);
-      const raw = one.encoding === 'gzip' ? (await import('node:zlib')).gunzipSync(one.body).length : one.body.length;
-      const gzip = one.encoding === 'gzip' ? one.body.length : gzipSync(one.body).length;
-      const r = await load(app.base + route.path, headers);
-      // A route where no request finished counts as the whole run plus the timeout.
-      const ratio = (Number.isNaN(r.p95) ? (SECONDS + 5) * 1000 : r.p95) / base.p95;
-      if (!(ratio <= worst.ratio)) worst = { ratio, label: route.label };
-      const trouble = [r.non2xx ? `${r.non2xx} non-2xx` : '', r.errors ? `${r.errors} errors` : '', r.timeouts ? `${r.timeouts} timeouts` : '', one.status !== 200 ? `status ${one.status}` : ''].filter(Boolean).join(', ');
-      console.log(`api ${route.label} p50 ${ms(r.p50)} p95 ${ms(r.p95)} ms, ${r.rps.toFixed(1)} req/s, ratio ${ratio.toFixed(1)}` +
-        ` | size raw ${kib(raw)}, gzip ${kib(gzip)} (${one.encoding === 'gzip' ? 'sent gzip' : 'sent uncompressed'})` +
-        `${gzip > TARGET_PAGE_GZIP ? ' OVER 64 KiB' : ''}${trouble ? ` | ${trouble}` : ''}`);
-    }
+    const worst = await loadRoutes(app.base, cookies, routes, base.p95, '');
     console.log(`api: worst p95 ratio ${worst.ratio.toFixed(1)} (${worst.label}) at ${CONNECTIONS} connections, ${dataset.units} units` +
       ` — target ≤ ${TARGET_RATIO} for every route, no page over 64 KiB gzip`);
+    // The same routes with the response cache off: what every request costs when it computes its
+    // answer (as the first request after each write does). Figures, not the target.
+    if (process.env.KP_BENCH_UNCACHED !== '0') {
+      const uncached = await startServer('app', { ...env, RESPONSE_CACHE: 'false' });
+      try {
+        const plain = await loadRoutes(uncached.base, await signInAll(uncached.base), routes, base.p95, ' (response cache off)');
+        console.log(`api: worst p95 ratio with the response cache off ${plain.ratio.toFixed(1)} (${plain.label})`);
+      } finally {
+        uncached.child.kill('SIGTERM');
+      }
+    }
     if (process.env.KP_BENCH_ARCHIVE !== '0') await archiveUnderWatch(app, env, url, archiveBatch);
   } finally {
     app.child.kill('SIGTERM');

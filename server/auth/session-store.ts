@@ -10,6 +10,9 @@
 // from `userLoadedWithSession` (server/auth/session.ts). It is read on every request as before, so
 // deactivation and role changes still act at once. Both statements are named, so each pooled
 // connection parses them once (as server/db/prepared.ts does for knex's queries).
+//
+// The read also returns the data version (server/db/data-version.ts), taken before the request
+// reads any data, which keys the response cache (server/http/response-cache.ts).
 import connectPgSimple from 'connect-pg-simple';
 import session, { type SessionData } from 'express-session';
 import type pg from 'pg';
@@ -24,9 +27,11 @@ export const TOUCH_INTERVAL_MS = 60_000;
 const storedExpiry = new WeakMap<object, number>();
 const STORED = Symbol('stored expiry');
 const USER = Symbol('account read with the session');
-type Loaded = SessionData & { [STORED]?: number; [USER]?: SessionUser | null };
+type Loaded = SessionData & { [STORED]?: number; [USER]?: SessionUser | null; [VERSION]?: number };
 // The account read with each loaded session (null: the session names no active account).
 const loadedUsers = new WeakMap<object, SessionUser | null>();
+const VERSION = Symbol('data version read with the session');
+const loadedVersions = new WeakMap<object, number>();
 
 /**
  * The account row read together with this request's session: a SessionUser, null when the session
@@ -34,6 +39,9 @@ const loadedUsers = new WeakMap<object, SessionUser | null>();
  * the store in this request (then the caller reads the account itself).
  */
 export const userLoadedWithSession = (sess: object | undefined): SessionUser | null | undefined => (sess ? loadedUsers.get(sess) : undefined);
+
+/** The data version read together with this request's session; undefined when the session did not come from the store. */
+export const dataVersionLoadedWithSession = (sess: object | undefined): number | undefined => (sess ? loadedVersions.get(sess) : undefined);
 
 // The account id in a stored session, as text; only plain integers are looked up.
 const SESSION_USER_ID = `CASE WHEN s.sess->'passport'->>'user' ~ '^[0-9]{1,9}$' THEN (s.sess->'passport'->>'user')::int END`;
@@ -48,15 +56,17 @@ export class ThrottledPgStore extends PgStore {
   override get(sid: string, callback: (err: unknown, session?: SessionData | null) => void): void {
     // "expire" is a timestamp without zone, written through to_timestamp(): read it back through the
     // same zone in SQL, as epoch milliseconds, so the comparison never depends on Node's zone.
-    const sql = `SELECT s.sess, extract(epoch FROM s.expire::timestamptz)::float8 * 1000 AS expire_ms, to_jsonb(u) - 'password_hash' AS account
+    const sql = `SELECT s.sess, extract(epoch FROM s.expire::timestamptz)::float8 * 1000 AS expire_ms, to_jsonb(u) - 'password_hash' AS account,
+        (SELECT n FROM data_version)::float8 AS data_version
       FROM "session" s LEFT JOIN users u ON u.active AND u.id = ${SESSION_USER_ID}
       WHERE s.sid = $1 AND s.expire >= now()`;
-    this.pool.query<{ sess: Loaded; expire_ms: number; account: UserRow | null }>({ name: 'kp_session_read', text: sql, values: [sid] }).then(
+    this.pool.query<{ sess: Loaded; expire_ms: number; account: UserRow | null; data_version: number }>({ name: 'kp_session_read', text: sql, values: [sid] }).then(
       ({ rows: [row] }) => {
         if (!row) return callback(null, null);
         const sess = typeof row.sess === 'string' ? (JSON.parse(row.sess) as Loaded) : row.sess;
         sess[STORED] = row.expire_ms;
         sess[USER] = row.account ? toSessionUser(row.account) : null;
+        sess[VERSION] = row.data_version;
         callback(null, sess);
       },
       (error: unknown) => callback(error),
@@ -66,9 +76,11 @@ export class ThrottledPgStore extends PgStore {
   override createSession(req: Parameters<session.Store['createSession']>[0], sess: Loaded) {
     const stored = sess[STORED];
     const user = sess[USER];
+    const version = sess[VERSION];
     const created = super.createSession(req, sess);
     if (stored !== undefined) storedExpiry.set(created, stored);
     if (user !== undefined) loadedUsers.set(created, user);
+    if (version !== undefined) loadedVersions.set(created, version);
     return created;
   }
 

@@ -2,6 +2,7 @@ import { Router, type Request, type RequestHandler, type Response } from 'expres
 import { STAFF, type Role, type SessionUser } from '../../shared/roles';
 import { forbidden, unauthorized } from '../errors';
 import { refuseNulInParsed } from './input-guard';
+import { serveCached, type ResponseCache } from './response-cache';
 
 /** Who may call a route: anyone, any signed-in user, or the listed roles. */
 export type Allow = 'public' | 'signed-in' | readonly Role[];
@@ -13,6 +14,11 @@ export interface RouteDef {
   allow: Allow;
   /** Middleware that runs after the guard (rate limits, upload parsers). */
   before?: RequestHandler[];
+  /**
+   * A GET whose JSON depends only on the database, the person and the URL: the web process may send
+   * it again from memory until any write commits (server/http/response-cache.ts).
+   */
+  cache?: true;
   handler: (req: Request, res: Response) => unknown;
 }
 
@@ -42,15 +48,17 @@ function guard(allow: Allow, req: Request) {
 }
 
 /** Builds an Express router from a flat table of routes, each behind its guard. */
-export function buildRouter(routes: RouteDef[], registry: RouteRegistry): Router {
+export function buildRouter(routes: RouteDef[], registry: RouteRegistry, cache?: ResponseCache): Router {
   const router = Router();
+  const cached = cache ? [serveCached(cache)] : [];
   for (const route of routes) {
+    if (route.cache && route.method !== 'get') throw new Error(`${route.method} ${route.path}: only a GET can be cached`);
     registry.routes.push(route);
     const check: RequestHandler = (req, _res, next) => {
       guard(route.allow, req);
       next();
     };
-    router[route.method](route.path, check, ...(route.before ?? []), refuseNulInParsed, async (req, res) => {
+    router[route.method](route.path, check, ...(route.before ?? []), refuseNulInParsed, ...(route.cache ? cached : []), async (req, res) => {
       await route.handler(req, res);
     });
   }

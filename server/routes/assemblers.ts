@@ -8,7 +8,7 @@ import { pathId } from '../http/params';
 
 export function assemblerRoutes(knex: Knex): RouteDef[] {
   return [
-    { method: 'get', path: '/api/assemblers', allow: PLANNING, handler: async (_req, res) => res.json({ assemblers: await listAssemblers(knex) }) },
+    { method: 'get', path: '/api/assemblers', allow: PLANNING, cache: true, handler: async (_req, res) => res.json({ assemblers: await listAssemblers(knex) }) },
     {
       method: 'put', path: '/api/assemblers/:id', allow: PLANNING,
       handler: async (req, res) => {

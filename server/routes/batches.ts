@@ -14,13 +14,13 @@ const batchId = (req: Parameters<typeof pathId>[0]) => pathId(req, 'id', 'batch'
 
 export function batchRoutes(knex: Knex, config: Pick<Config, 'publicUrl' | 'RELEASE_CHUNK_UNITS'>): RouteDef[] {
   return [
-    { method: 'get', path: '/api/batches', allow: PLANNING, handler: async (req, res) => res.json(await listBatches(knex, parseWith(batchListSchema, req.query))) },
-    { method: 'get', path: '/api/batches/candidates', allow: PLANNING, handler: async (req, res) => res.json(await planningCandidates(knex, parseWith(candidateLinesSchema, req.query))) },
+    { method: 'get', path: '/api/batches', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await listBatches(knex, parseWith(batchListSchema, req.query))) },
+    { method: 'get', path: '/api/batches/candidates', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await planningCandidates(knex, parseWith(candidateLinesSchema, req.query))) },
     {
       method: 'post', path: '/api/batches', allow: PLANNING,
       handler: async (req, res) => res.status(201).json(await createBatch(knex, currentUser(req).id, parseWith(createBatchSchema, req.body))),
     },
-    { method: 'get', path: '/api/batches/:id', allow: PLANNING, handler: async (req, res) => res.json(await getBatch(knex, batchId(req))) },
+    { method: 'get', path: '/api/batches/:id', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await getBatch(knex, batchId(req))) },
     {
       method: 'get', path: '/api/batches/:id/purchase-list.csv', allow: PLANNING,
       handler: async (req, res) => {

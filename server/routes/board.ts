@@ -4,5 +4,5 @@ import { productionBoard } from '../services/production/board';
 import { PLANNING } from '../../shared/roles';
 
 export function boardRoutes(knex: Knex): RouteDef[] {
-  return [{ method: 'get', path: '/api/board', allow: PLANNING, handler: async (_req, res) => res.json(await productionBoard(knex)) }];
+  return [{ method: 'get', path: '/api/board', allow: PLANNING, cache: true, handler: async (_req, res) => res.json(await productionBoard(knex)) }];
 }

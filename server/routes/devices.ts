@@ -8,9 +8,9 @@ import { PLANNING, STAFF } from '../../shared/roles';
 
 export function deviceRoutes(knex: Knex): RouteDef[] {
   return [
-    { method: 'get', path: '/api/devices', allow: STAFF, handler: async (_req, res) => res.json({ devices: await listDevices(knex) }) },
+    { method: 'get', path: '/api/devices', allow: STAFF, cache: true, handler: async (_req, res) => res.json({ devices: await listDevices(knex) }) },
     { method: 'post', path: '/api/devices', allow: PLANNING, handler: async (req, res) => res.status(201).json({ device: await createDevice(knex, parseWith(customDeviceSchema, req.body)) }) },
-    { method: 'get', path: '/api/devices/:id', allow: STAFF, handler: async (req, res) => res.json({ device: await getDevice(knex, pathId(req, 'id', 'device')) }) },
+    { method: 'get', path: '/api/devices/:id', allow: STAFF, cache: true, handler: async (req, res) => res.json({ device: await getDevice(knex, pathId(req, 'id', 'device')) }) },
     {
       method: 'patch', path: '/api/devices/:id/part', allow: PLANNING,
       handler: async (req, res) => res.json({ device: await linkDevicePart(knex, pathId(req, 'id', 'device'), parseWith(deviceLinkSchema, req.body).partId) }),

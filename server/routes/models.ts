@@ -21,9 +21,9 @@ const photoUpload = singleUpload('photo', PHOTO_MAX_BYTES, 'photo');
 export function modelRoutes(knex: Knex): RouteDef[] {
   const model = async (req: Request, id: number) => ({ model: await getModel(knex, id, isStaff(req)) });
   return [
-    { method: 'get', path: '/api/models', allow: 'public', handler: async (req, res) => res.json({ models: await listModels(knex, isStaff(req)) }) },
+    { method: 'get', path: '/api/models', allow: 'public', cache: true, handler: async (req, res) => res.json({ models: await listModels(knex, isStaff(req)) }) },
     { method: 'post', path: '/api/models', allow: PLANNING, handler: async (req, res) => res.status(201).json(await model(req, await createModel(knex, parseWith(modelSchema, req.body)))) },
-    { method: 'get', path: '/api/models/:id', allow: 'public', handler: async (req, res) => res.json(await model(req, pathId(req, 'id', 'model'))) },
+    { method: 'get', path: '/api/models/:id', allow: 'public', cache: true, handler: async (req, res) => res.json(await model(req, pathId(req, 'id', 'model'))) },
     {
       method: 'patch', path: '/api/models/:id', allow: PLANNING,
       handler: async (req, res) => { const id = pathId(req, 'id', 'model'); await updateModel(knex, id, parseWith(modelUpdateSchema, req.body)); res.json(await model(req, id)); },
@@ -53,7 +53,7 @@ export function modelRoutes(knex: Knex): RouteDef[] {
       method: 'patch', path: '/api/options/:id', allow: PLANNING,
       handler: async (req, res) => res.json(await model(req, await updateOption(knex, pathId(req, 'id', 'option'), parseWith(optionUpdateSchema, req.body)))),
     },
-    { method: 'get', path: '/api/revisions/:id', allow: STAFF, handler: async (req, res) => res.json({ revision: await getRevision(knex, pathId(req, 'id', 'revision')) }) },
+    { method: 'get', path: '/api/revisions/:id', allow: STAFF, cache: true, handler: async (req, res) => res.json({ revision: await getRevision(knex, pathId(req, 'id', 'revision')) }) },
     { method: 'patch', path: '/api/revisions/:id', allow: PLANNING, handler: async (req, res) => res.json({ revision: await updateRevision(knex, pathId(req, 'id', 'revision'), parseWith(driveStageSchema, req.body)) }) },
     { method: 'post', path: '/api/revisions/:id/activate', allow: PLANNING, handler: async (req, res) => res.json({ revision: await activateRevision(knex, pathId(req, 'id', 'revision')) }) },
     { method: 'post', path: '/api/revisions/:id/bom-lines', allow: PLANNING, handler: async (req, res) => res.status(201).json({ revision: await addBomLine(knex, pathId(req, 'id', 'revision'), parseWith(bomLineSchema, req.body)) }) },

@@ -22,7 +22,7 @@ const orderId = (req: Request) => pathId(req, 'id', 'order');
 export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
   const payments = { stripe: createPaymentsClient(config), config };
   return [
-    { method: 'get', path: '/api/orders/mine', allow: CUSTOMERS, handler: async (req, res) => res.json(await orders.myOrders(knex, currentUser(req), parseWith(myOrdersSchema, req.query))) },
+    { method: 'get', path: '/api/orders/mine', allow: CUSTOMERS, cache: true, handler: async (req, res) => res.json(await orders.myOrders(knex, currentUser(req), parseWith(myOrdersSchema, req.query))) },
     {
       method: 'post', path: '/api/orders', allow: CUSTOMERS,
       handler: async (req, res) => {
@@ -30,7 +30,7 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
         res.status(201).json(await orders.orderDetail(knex, currentUser(req), order.id));
       },
     },
-    { method: 'get', path: '/api/orders', allow: PLANNING, handler: async (req, res) => res.json(await orders.listOrders(knex, parseWith(orderFilterSchema, req.query))) },
+    { method: 'get', path: '/api/orders', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await orders.listOrders(knex, parseWith(orderFilterSchema, req.query))) },
     {
       // The same filters and sort as the list, every matching order (page and pageSize are ignored).
       method: 'get', path: '/api/orders/export.csv', allow: PLANNING,
@@ -40,7 +40,7 @@ export function orderRoutes(knex: Knex, config: Config): RouteDef[] {
       },
     },
     // Customers reach only their own orders (someone else's answers 404); order staff reach all.
-    { method: 'get', path: '/api/orders/:id', allow: 'signed-in', handler: async (req, res) => res.json(await orders.orderDetail(knex, currentUser(req), orderId(req))) },
+    { method: 'get', path: '/api/orders/:id', allow: 'signed-in', cache: true, handler: async (req, res) => res.json(await orders.orderDetail(knex, currentUser(req), orderId(req))) },
     { method: 'post', path: '/api/orders/:id/checkout', allow: CUSTOMERS, handler: async (req, res) => res.json(await startCheckout(knex, payments, currentUser(req), orderId(req))) },
     {
       method: 'post', path: '/api/orders/:id/cancel', allow: ORDER_CANCELLERS,

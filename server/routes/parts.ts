@@ -15,12 +15,12 @@ function csv(res: import('express').Response, name: string, body: string) {
 
 export function partRoutes(knex: Knex): RouteDef[] {
   return [
-    { method: 'get', path: '/api/parts', allow: STAFF, handler: async (req, res) => res.json(await listParts(knex, parseWith(partListQuerySchema, req.query))) },
+    { method: 'get', path: '/api/parts', allow: STAFF, cache: true, handler: async (req, res) => res.json(await listParts(knex, parseWith(partListQuerySchema, req.query))) },
     { method: 'get', path: '/api/parts/export.csv', allow: STAFF, handler: async (req, res) => csv(res, 'parts.csv', await partsCsv(knex, parseWith(partListQuerySchema, req.query))) },
     { method: 'get', path: '/api/stock/movements.csv', allow: STAFF, handler: async (req, res) => csv(res, 'stock-movements.csv', await movementsCsv(knex, queryId(req, 'partId'))) },
-    { method: 'get', path: '/api/suppliers', allow: STAFF, handler: async (_req, res) => res.json({ suppliers: await listSuppliers(knex) }) },
+    { method: 'get', path: '/api/suppliers', allow: STAFF, cache: true, handler: async (_req, res) => res.json({ suppliers: await listSuppliers(knex) }) },
     { method: 'post', path: '/api/parts', allow: PLANNING, handler: async (req, res) => res.status(201).json({ part: await createPart(knex, parseWith(partSchema, req.body)) }) },
-    { method: 'get', path: '/api/parts/:id', allow: STAFF, handler: async (req, res) => res.json({ part: await getPart(knex, pathId(req, 'id', 'part')) }) },
+    { method: 'get', path: '/api/parts/:id', allow: STAFF, cache: true, handler: async (req, res) => res.json({ part: await getPart(knex, pathId(req, 'id', 'part')) }) },
     { method: 'patch', path: '/api/parts/:id', allow: PLANNING, handler: async (req, res) => res.json({ part: await updatePart(knex, pathId(req, 'id', 'part'), parseWith(partUpdateSchema, req.body)) }) },
     {
       method: 'post', path: '/api/parts/:id/movements', allow: PLANNING,

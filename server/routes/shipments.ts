@@ -17,9 +17,9 @@ function sendPdf(res: Response, pdf: { filename: string; data: Buffer }) {
 
 export function shipmentRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
-    { method: 'get', path: '/api/shipping', allow: PLANNING, handler: async (req, res) => res.json(await shippingQueue(knex, parseWith(shippingListSchema, req.query))) },
-    { method: 'get', path: '/api/carriers', allow: PLANNING, handler: async (_req, res) => res.json({ carriers: await shippingCarriers(knex) }) },
-    { method: 'get', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.json(await shipmentList(knex, parseWith(shipmentListSchema, req.query))) },
+    { method: 'get', path: '/api/shipping', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await shippingQueue(knex, parseWith(shippingListSchema, req.query))) },
+    { method: 'get', path: '/api/carriers', allow: PLANNING, cache: true, handler: async (_req, res) => res.json({ carriers: await shippingCarriers(knex) }) },
+    { method: 'get', path: '/api/shipments', allow: PLANNING, cache: true, handler: async (req, res) => res.json(await shipmentList(knex, parseWith(shipmentListSchema, req.query))) },
     { method: 'post', path: '/api/shipments', allow: PLANNING, handler: async (req, res) => res.status(201).json(await shipOrder(knex, currentUser(req), parseWith(shipOrderSchema, req.body), config.publicUrl)) },
     {
       method: 'get', path: '/api/shipments/:id/packing-slip.pdf', allow: PLANNING,

@@ -15,9 +15,9 @@ const METER_CSV_MAX_BYTES = 256 * 1024;
 export function trayRoutes(knex: Knex): RouteDef[] {
   const trayId = (req: Parameters<typeof pathId>[0]) => pathId(req, 'id', 'tray');
   return [
-    { method: 'get', path: '/api/trays', allow: STAFF, handler: async (req, res) => res.json(await listTrays(knex, parseWith(trayListSchema, req.query))) },
+    { method: 'get', path: '/api/trays', allow: STAFF, cache: true, handler: async (req, res) => res.json(await listTrays(knex, parseWith(trayListSchema, req.query))) },
     { method: 'post', path: '/api/trays', allow: STAFF, handler: async (req, res) => res.status(201).json(await createTray(knex, currentUser(req), parseWith(createTraySchema, req.body))) },
-    { method: 'get', path: '/api/trays/:id', allow: STAFF, handler: async (req, res) => res.json(await getTray(knex, trayId(req))) },
+    { method: 'get', path: '/api/trays/:id', allow: STAFF, cache: true, handler: async (req, res) => res.json(await getTray(knex, trayId(req))) },
     {
       method: 'put', path: '/api/trays/:id/slots', allow: STAFF,
       handler: async (req, res) => {

@@ -14,9 +14,9 @@ const PHOTO_MAX_BYTES = 8 * 1024 * 1024;
 
 export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): RouteDef[] {
   return [
-    { method: 'get', path: '/api/builds', allow: ASSEMBLY, handler: async (req, res) => res.json(await myBuilds(knex, currentUser(req).id, parseWith(buildListSchema, req.query))) },
-    { method: 'get', path: '/api/bench', allow: BENCH, handler: async (req, res) => res.json(await benchQueue(knex, parseWith(benchListSchema, req.query))) },
-    { method: 'get', path: '/api/units/:id', allow: STAFF, handler: async (req, res) => res.json(await getUnit(knex, currentUser(req), pathId(req, 'id', 'unit'))) },
+    { method: 'get', path: '/api/builds', allow: ASSEMBLY, cache: true, handler: async (req, res) => res.json(await myBuilds(knex, currentUser(req).id, parseWith(buildListSchema, req.query))) },
+    { method: 'get', path: '/api/bench', allow: BENCH, cache: true, handler: async (req, res) => res.json(await benchQueue(knex, parseWith(benchListSchema, req.query))) },
+    { method: 'get', path: '/api/units/:id', allow: STAFF, cache: true, handler: async (req, res) => res.json(await getUnit(knex, currentUser(req), pathId(req, 'id', 'unit'))) },
     {
       method: 'post', path: '/api/units/:id/steps/:stepId/start', allow: ASSEMBLY,
       handler: async (req, res) => res.json(await startStep(knex, currentUser(req), pathId(req, 'id', 'unit'), pathId(req, 'stepId', 'step'))),
@@ -37,7 +37,7 @@ export function unitRoutes(knex: Knex, config: Pick<Config, 'publicUrl'>): Route
       },
     },
     // A typed or scanned serial opens its unit (an assembler only their own).
-    { method: 'get', path: '/api/serials/:serial', allow: STAFF, handler: async (req, res) => res.json(await unitBySerial(knex, currentUser(req), pathSerial(req))) },
+    { method: 'get', path: '/api/serials/:serial', allow: STAFF, cache: true, handler: async (req, res) => res.json(await unitBySerial(knex, currentUser(req), pathSerial(req))) },
     {
       method: 'put', path: '/api/units/:id/devices', allow: ASSEMBLY,
       handler: async (req, res) => {

@@ -8,7 +8,7 @@ import * as users from '../services/users';
 
 export function userRoutes(knex: Knex): RouteDef[] {
   return [
-    { method: 'get', path: '/api/users', allow: OWNER_ONLY, handler: async (req, res) => res.json(await users.listUsers(knex, parseWith(userListSchema, req.query))) },
+    { method: 'get', path: '/api/users', allow: OWNER_ONLY, cache: true, handler: async (req, res) => res.json(await users.listUsers(knex, parseWith(userListSchema, req.query))) },
     {
       method: 'post', path: '/api/users', allow: OWNER_ONLY,
       handler: async (req, res) => res.status(201).json({ user: await users.createUser(knex, parseWith(createUserSchema, req.body)) }),
