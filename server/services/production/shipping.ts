@@ -70,7 +70,12 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
   const stockByOption = new Map<number, number>();
   for (const u of await db('units').where(inConstants(db, 'state', ['in_stock'])).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
   const waiting = stockByOption.size
-    ? await db('order_lines as l').join('orders as o', 'o.id', 'l.order_id').where(inConstants(db, 'o.state', ['paid'])).whereNull('l.batch_id').whereIn('l.option_id', [...stockByOption.keys()])
+    // From the few paid orders to their lines, never from every line outside a batch (lines filled
+    // from stock stay so for good, and grow with the history): OFFSET 0 keeps PostgreSQL from
+    // folding the per-order lookup into one scan of them all.
+    ? await db('orders as o').where(inConstants(db, 'o.state', ['paid']))
+        .joinRaw(`CROSS JOIN LATERAL (SELECT l.id, l.option_id, l.quantity, l.description FROM order_lines l
+          WHERE l.order_id = o.id AND l.batch_id IS NULL AND l.option_id = ANY(?::int[]) OFFSET 0) AS l`, [[...stockByOption.keys()]])
         .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT, { skipBinding: true })
     : [];
   return {
