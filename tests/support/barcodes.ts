@@ -57,6 +57,27 @@ export function decode(raster: Raster, format: 'CODE_128' | 'QR_CODE', areaMm?: 
       luminance[y * w + x] = (raster.rgba[i] * 299 + raster.rgba[i + 1] * 587 + raster.rgba[i + 2] * 114) / 1000;
     }
   }
+  try {
+    return decodeLuminance(luminance, w, h, format);
+  } catch (error) {
+    // ZXing's port misses some QR codes whose modules span many pixels (a few contents in ten, at
+    // 300 dpi) and reads the same print at a coarser sampling, as a phone camera would see it:
+    // try once more at half the resolution, averaging each 2 × 2 block.
+    if (format !== 'QR_CODE' || w < 4 || h < 4) throw error;
+    const hw = Math.floor(w / 2);
+    const hh = Math.floor(h / 2);
+    const half = new Uint8ClampedArray(hw * hh);
+    for (let y = 0; y < hh; y++) {
+      for (let x = 0; x < hw; x++) {
+        const i = 2 * y * w + 2 * x;
+        half[y * hw + x] = (luminance[i] + luminance[i + 1] + luminance[i + w] + luminance[i + w + 1]) / 4;
+      }
+    }
+    return decodeLuminance(half, hw, hh, format);
+  }
+}
+
+function decodeLuminance(luminance: Uint8ClampedArray, w: number, h: number, format: 'CODE_128' | 'QR_CODE'): string {
   const hints = new Map<DecodeHintType, unknown>([
     [DecodeHintType.POSSIBLE_FORMATS, [BarcodeFormat[format]]],
     [DecodeHintType.TRY_HARDER, true],
