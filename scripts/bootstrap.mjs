@@ -319,7 +319,7 @@ function bench(script) {
   if (!isDataset && wants('engine') && !existsSync('/usr/bin/ngspice')) aptInstall(['ngspice']);
   if (!isDataset && (wants('client') || wants('design')) && !existsSync('/usr/bin/chromium')) aptInstall(['chromium']);
   const needsDemo = !isDataset && ['client', 'loop', 'jobs', 'wire', 'design'].some(wants);
-  const needsLarge = isDataset || sections.includes('api');
+  const needsLarge = isDataset || sections.includes('api') || sections.includes('plans');
   let env = { ...process.env };
   let stop = () => {};
   ensureNodeModules();

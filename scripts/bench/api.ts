@@ -21,6 +21,7 @@ import { releaseBatch } from '../../server/services/production/release';
 import { benchDatabaseUrl, ensureDataset, scaleFromArgs } from './dataset';
 import type { BenchSection } from './engine';
 import { pollHealth } from './health-poll';
+import { benchRoutes, signInAll, signInWithToken, type Cookies, type Route } from './api-routes';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const CONNECTIONS = 50;
@@ -30,12 +31,9 @@ const SECONDS = Number(process.env.KP_BENCH_SECONDS ?? 10);
 const WARMUP_SECONDS = 2;
 const TARGET_RATIO = 3;
 const TARGET_PAGE_GZIP = 64 * 1024;
-const PASSWORD = 'kneepoint-demo';
 const ARCHIVE_UNITS = 100;
 const ARCHIVE_NOTE = 'api bench: 100-unit spec-sheet archive';
 const TARGET_LOOP_P99_MS = 50;
-
-interface Route { label: string; path: string; as: 'planner' | 'owner' | 'assembler' | 'customer' }
 
 /** Starts one of the two servers in its own process and waits for its port. */
 async function startServer(role: 'app' | 'baseline', env: NodeJS.ProcessEnv): Promise<{ child: ChildProcess; base: string }> {
@@ -59,21 +57,6 @@ function fetchRaw(url: string, headers: Record<string, string>): Promise<{ statu
     }).on('error', reject);
   });
 }
-
-/** Signs in through the API as a browser would and returns the session cookie (and the CSRF token for writes). */
-async function signInWithToken(base: string, email: string): Promise<{ cookie: string; csrf: string }> {
-  const csrf = await fetch(`${base}/api/auth/csrf`);
-  const cookie = (csrf.headers.getSetCookie()[0] ?? '').split(';')[0];
-  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
-  const res = await fetch(`${base}/api/auth/login`, {
-    method: 'POST', headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
-    body: JSON.stringify({ email, password: PASSWORD }),
-  });
-  if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status}`);
-  const body = (await res.json()) as { csrfToken?: string };
-  return { cookie: (res.headers.getSetCookie()[0] ?? cookie).split(';')[0], csrf: body.csrfToken ?? csrfToken };
-}
-const signIn = async (base: string, email: string) => (await signInWithToken(base, email)).cookie;
 
 /**
  * A released batch of 100 units (25 of each of four options of a demo model) whose sheets the
@@ -177,18 +160,6 @@ async function load(url: string, headers: Record<string, string>) {
 const kib = (bytes: number) => `${(bytes / 1024).toFixed(1)} KiB`;
 const ms = (x: number) => (Number.isNaN(x) ? 'none finished' : x < 10 ? x.toFixed(1) : x.toFixed(0));
 
-type Cookies = Record<Route['as'], string>;
-
-/** Signs in the four people the routes are read as. */
-async function signInAll(base: string): Promise<Cookies> {
-  return {
-    planner: await signIn(base, 'planner@shop.example'),
-    owner: await signIn(base, 'owner@shop.example'),
-    assembler: await signIn(base, 'assembler@shop.example'),
-    customer: await signIn(base, 'customer@shop.example'),
-  };
-}
-
 /** Loads each route in turn, printing one line each; returns the worst p95 ratio against the baseline's. */
 async function loadRoutes(base: string, cookies: Cookies, routes: Route[], baseP95: number, tag: string) {
   let worst = { ratio: 0, label: '' };
@@ -233,24 +204,7 @@ async function runApiBench() {
   const baseline = await startServer('baseline', env);
   try {
     const cookies = await signInAll(app.base);
-    const routes: Route[] = [
-      { label: '/api/orders', path: '/api/orders', as: 'planner' },
-      { label: '/api/shipping', path: '/api/shipping', as: 'planner' },
-      { label: '/api/shipments', path: '/api/shipments', as: 'planner' },
-      { label: '/api/batches', path: '/api/batches', as: 'planner' },
-      { label: `/api/batches/:id (${batch.n} units)`, path: `/api/batches/${batch.id}`, as: 'planner' },
-      { label: '/api/board', path: '/api/board', as: 'planner' },
-      { label: '/api/parts', path: '/api/parts', as: 'planner' },
-      { label: '/api/models', path: '/api/models', as: 'planner' },
-      { label: '/api/bench', path: '/api/bench', as: 'planner' },
-      { label: '/api/batches/candidates', path: '/api/batches/candidates', as: 'planner' },
-      { label: '/api/devices', path: '/api/devices', as: 'planner' },
-      { label: '/api/suppliers', path: '/api/suppliers', as: 'planner' },
-      { label: '/api/assemblers', path: '/api/assemblers', as: 'planner' },
-      { label: '/api/users', path: '/api/users', as: 'owner' },
-      { label: '/api/builds', path: '/api/builds', as: 'assembler' },
-      { label: '/api/orders/mine', path: '/api/orders/mine', as: 'customer' },
-    ].filter((r) => !process.env.KP_BENCH_ROUTES || process.env.KP_BENCH_ROUTES.split(',').some((s) => r.label.includes(s))) as Route[];
+    const routes = benchRoutes(batch);
 
     const base = await load(`${baseline.base}/order`, {});
     console.log(`api baseline (bare Express + pg, one primary-key lookup) p50 ${ms(base.p50)} p95 ${ms(base.p95)} ms, ${base.rps.toFixed(0)} req/s`);

@@ -169,7 +169,10 @@ describe('building, testing and shipping a unit', () => {
     expect(short.status).toBe(409);
     expect(short.body.error.message).toMatch(/holds 1 of the 2/);
     const queue = await crew.planner.get('/api/shipping').expect(200);
-    expect(queue.body.fromStock.map((l: { orderLineId: number }) => l.orderLineId)).toContain(order.lineId);
+    const fillable = queue.body.fromStock.map((l: { orderLineId: number }) => l.orderLineId);
+    expect(fillable).toContain(order.lineId);
+    // The shelf holds one, so the line for two is not offered.
+    expect(fillable).not.toContain(bigger.lineId);
     const done = await crew.planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', crew.planner.csrf).send({}).expect(200);
     expect(done.body).toMatchObject({ orderState: 'ready', serials: [unit.serial] });
     const again = await crew.planner.post(`/api/order-lines/${order.lineId}/from-stock`).set('X-CSRF-Token', crew.planner.csrf).send({});

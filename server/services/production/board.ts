@@ -3,6 +3,7 @@ import { batchLabel } from '../../../shared/production/serials';
 import { toDate } from './planning';
 import { explodeBoms } from './requirements';
 import { inConstants } from '../../db/prepared';
+import { lookupJoin } from '../../db/lookup-join';
 
 type Db = Knex | Knex.Transaction;
 
@@ -40,10 +41,9 @@ export async function productionBoard(db: Db, today = new Date().toISOString().s
     .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'waiting')::int AS waiting"))
     .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'building')::int AS building"))
     .select(db.raw("COUNT(x.id) FILTER (WHERE x.state = 'rework')::int AS rework"));
-  // Units in work are few whatever the history; each one's order is looked up by its key (the
-  // LIMIT keeps the lookup per unit, where a plain join scans every order the shop ever had).
+  // Units in work are few whatever the history; each one's order is looked up by its key.
   const late = await db('units as u').leftJoin('users as a', 'a.id', 'u.assembler_id')
-    .joinRaw('LEFT JOIN LATERAL (SELECT number, due_at FROM orders WHERE orders.id = u.order_id LIMIT 1) o ON true')
+    .joinRaw(lookupJoin(db, 'orders', 'o', ['number', 'due_at'], 'u.order_id'))
     .where(inConstants(db, 'u.state', ['waiting', 'building', 'rework', 'built']))
     .where((q) => q.where('u.planned_date', '<', today).orWhere('o.due_at', '<', today))
     .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'a.name as assembler_name', 'o.number as order_number', 'o.due_at').orderBy('u.planned_date').limit(50, { skipBinding: true });

@@ -14,6 +14,7 @@ import { toDate } from './planning';
 import { slotLabelsFor } from './matching';
 import { nominalVf, predictUnit } from './unit-circuit';
 import { inConstants } from '../../db/prepared';
+import { lookupJoin } from '../../db/lookup-join';
 
 type Db = Knex | Knex.Transaction;
 
@@ -42,14 +43,14 @@ export async function myBuilds(db: Db, userId: number, params: BuildListQuery) {
   const base = (joined = true) => {
     const q = db('units as u').where('u.assembler_id', userId).where(inConstants(db, 'u.state', ['waiting', 'building', 'rework']));
     if (!joined) return q;
-    q.join('batches as b', 'b.id', 'u.batch_id').join('model_revisions as r', 'r.id', 'b.revision_id')
+    q.joinRaw(lookupJoin(db, 'batches', 'b', ['revision_id'], 'u.batch_id')).join('model_revisions as r', 'r.id', 'b.revision_id')
       .join('models as m', 'm.id', 'r.model_id').join('clipping_options as c', 'c.id', 'u.option_id');
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('u.serial', like).orWhereILike('m.name', like).orWhereILike('c.name', like)); }
     return q;
   };
   return paged(params, {
     count: base(Boolean(params.q)),
-    rows: base().leftJoin('orders as o', 'o.id', 'u.order_id')
+    rows: base().joinRaw(lookupJoin(db, 'orders', 'o', ['due_at'], 'u.order_id'))
       .select('u.id', 'u.serial', 'u.state', 'u.planned_date', 'u.kitted_at', 'm.name as model_name', 'c.name as option_name', 'o.due_at',
         db.raw('(SELECT COUNT(*)::int FROM build_steps s WHERE s.revision_id = b.revision_id) AS steps'),
         db.raw('(SELECT COUNT(*)::int FROM unit_steps us WHERE us.unit_id = u.id AND us.finished_at IS NOT NULL) AS steps_done'),

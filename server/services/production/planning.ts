@@ -9,8 +9,21 @@ import { lockBatchRow } from '../stock/ledger';
 import { slotLabelsFor } from './matching';
 import { earliestStart, explodeBom } from './requirements';
 import { inConstants } from '../../db/prepared';
+import { lookupJoin } from '../../db/lookup-join';
 
 type Db = Knex | Knex.Transaction;
+
+/**
+ * Paid orders' lines not in a batch, as `o` (the order) and `l` (id, model_id, option_id, quantity,
+ * description). Reached from the few paid orders, never from every line outside a batch: lines
+ * filled from stock stay so for good and grow with the history. OFFSET 0 keeps PostgreSQL from
+ * folding the per-order lookup back into one scan of them all.
+ */
+export function paidLinesOutsideBatches(db: Db) {
+  return db('orders as o').where(inConstants(db, 'o.state', ['paid']))
+    .joinRaw(`CROSS JOIN LATERAL (SELECT l.id, l.model_id, l.option_id, l.quantity, l.description FROM order_lines l
+      WHERE l.order_id = o.id AND l.batch_id IS NULL OFFSET 0) AS l`);
+}
 
 /** Revisions a batch can be planned for, with the paid order lines still waiting for a batch. */
 const CANDIDATE_SORT: Record<CandidateLinesQuery['sort'], string> = { dueAt: 'o.due_at', number: 'o.id', customerName: 'u.name' };
@@ -21,12 +34,11 @@ export async function planningCandidates(db: Db, params: CandidateLinesQuery) {
     .select('r.id', 'r.number', 'r.label', 'r.frozen_at', 'm.id as model_id', 'm.name as model_name', 'm.active_revision_id')
     .orderBy(['m.name', { column: 'r.number', order: 'desc' }]);
   const options = await db('clipping_options').select('id', 'model_id', 'code', 'name').orderBy(['model_id', 'position', 'id']);
-  // Every order has its customer (a foreign key, not null): the count joins customers only to search.
+  // Every order has its customer (a foreign key, not null): the count looks customers up only to search.
   const base = (withCustomer = true) => {
-    const q = db('order_lines as l').join('orders as o', 'o.id', 'l.order_id')
-      .where(inConstants(db, 'o.state', ['paid'])).whereNull('l.batch_id')
+    const q = paidLinesOutsideBatches(db)
       .whereNotExists((w) => w.select(db.raw('1')).from('batch_lines as bl').join('batches as b', 'b.id', 'bl.batch_id').whereRaw('bl.order_line_id = l.id').whereRaw("b.state <> 'cancelled'"));
-    if (withCustomer) q.join('users as u', 'u.id', 'o.customer_id');
+    if (withCustomer) q.joinRaw(lookupJoin(db, 'users', 'u', ['name'], 'o.customer_id'));
     if (params.modelId) q.where('l.model_id', params.modelId);
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('l.description', like)); }
     return q;

@@ -14,6 +14,8 @@ import { lockUnit, lockUnitWithBatch, transitionUnit } from './history';
 import { lockBatchRow, lockUnitRows } from '../stock/ledger';
 import { closeBatchIfDone, orderFullyPassed } from './testing';
 import { inConstants } from '../../db/prepared';
+import { lookupJoin } from '../../db/lookup-join';
+import { paidLinesOutsideBatches } from './planning';
 
 type Db = Knex | Knex.Transaction;
 
@@ -34,11 +36,11 @@ const STOCK_LIST_LIMIT = 100;
  * in `shipmentList`, so this never grows with the shop's history.
  */
 export async function shippingQueue(db: Db, params: ShippingListQuery) {
-  // Every order has its customer (a foreign key): the count joins customers only to search their names.
+  // Every order has its customer (a foreign key): the count looks customers up only to search their names.
   const base = (withCustomer = true) => {
     // The states are the enum's own words (checked by the schema), written into the SQL for the plan cache.
     const q = db('orders as o').where(inConstants(db, 'o.state', params.state ? [params.state] : [...SHIPPING_STATES]));
-    if (withCustomer) q.join('users as u', 'u.id', 'o.customer_id');
+    if (withCustomer) q.joinRaw(lookupJoin(db, 'users', 'u', ['name'], 'o.customer_id'));
     if (params.q) { const like = containsPattern(params.q); q.where((w) => w.whereILike('o.number', like).orWhereILike('u.name', like).orWhereILike('o.ship_name', like)); }
     return q;
   };
@@ -67,20 +69,15 @@ export async function shippingQueue(db: Db, params: ShippingListQuery) {
     .join('model_revisions as r', 'r.id', 'b.revision_id').join('models as m', 'm.id', 'r.model_id')
     .select('u.id', 'u.serial', 'u.state', 'm.name as model_name', 'c.name as option_name')
     .orderByRaw("u.state = 'passed' DESC, u.id DESC").limit(STOCK_LIST_LIMIT, { skipBinding: true });
-  const stockByOption = new Map<number, number>();
-  for (const u of await db('units').where(inConstants(db, 'state', ['in_stock'])).whereNull('order_id').groupBy('option_id').select('option_id', db.raw('count(*)::int AS n'))) stockByOption.set(u.option_id, u.n);
-  const waiting = stockByOption.size
-    // From the few paid orders to their lines, never from every line outside a batch (lines filled
-    // from stock stay so for good, and grow with the history): OFFSET 0 keeps PostgreSQL from
-    // folding the per-order lookup into one scan of them all.
-    ? await db('orders as o').where(inConstants(db, 'o.state', ['paid']))
-        .joinRaw(`CROSS JOIN LATERAL (SELECT l.id, l.option_id, l.quantity, l.description FROM order_lines l
-          WHERE l.order_id = o.id AND l.batch_id IS NULL AND l.option_id = ANY(?::int[]) OFFSET 0) AS l`, [[...stockByOption.keys()]])
-        .select('l.id', 'l.option_id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT, { skipBinding: true })
-    : [];
+  // Paid lines that finished stock can fill now. Each line counts its option's unsold units only up
+  // to its own quantity (migration 20261205210000), so stock on the shelf costs nothing.
+  const fromStock = await paidLinesOutsideBatches(db).whereNotNull('l.option_id')
+    .whereRaw(`(SELECT count(*) FROM (SELECT 1 FROM units s WHERE s.option_id = l.option_id AND s.state = 'in_stock'
+      AND s.order_id IS NULL LIMIT l.quantity) AS enough) >= l.quantity`)
+    .select('l.id', 'l.quantity', 'l.description', 'o.number').orderBy('l.id').limit(STOCK_LIST_LIMIT, { skipBinding: true });
   return {
     orders: { ...orders, items: orders.items.map((o) => ({ ...o, ordered: ordered.get(o.id) ?? 0 })) },
-    fromStock: waiting.filter((l) => (stockByOption.get(l.option_id) ?? 0) >= l.quantity).map((l) => ({ orderLineId: l.id, orderNumber: l.number, quantity: l.quantity, description: l.description })),
+    fromStock: fromStock.map((l) => ({ orderLineId: l.id, orderNumber: l.number, quantity: l.quantity, description: l.description })),
     finishedStock: stock.map((u) => ({ id: u.id, serial: u.serial, state: u.state, modelName: u.model_name, optionName: u.option_name })),
   };
 }
