@@ -104,6 +104,8 @@ describe('ordering in a browser', () => {
     // Two options side by side, each with engine figures in their units.
     const cards = page.getByRole('radio');
     expect(await cards.count()).toBeGreaterThanOrEqual(2);
+    // The figures come from the page's Web Worker: wait until they are drawn, then read them all.
+    await page.locator('dd.num', { hasText: / dBc$/ }).first().waitFor();
     const thd = await page.locator('dd.num').allTextContents();
     expect(thd.some((x) => / %$/.test(x))).toBe(true);
     expect(thd.some((x) => / dBc$/.test(x))).toBe(true);
