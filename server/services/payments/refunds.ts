@@ -4,6 +4,10 @@
 //  - what Kneepoint asks for (refund_requests): written and committed first, then the provider is
 //    called with an idempotency key of the request, then the result is written in a second
 //    transaction. A retry (a second click, a redelivered event) repeats the same request safely.
+// Lock order: a transaction that writes an order's payment or refund rows locks the order row
+// first (cancel, webhook events, the result of a refund call), so two of them never wait on each
+// other's rows in opposite orders. A second click's request would otherwise hold the order while
+// waiting for the first click's refund row, and the first click's result wait for the order.
 import type { Knex } from 'knex';
 import { enqueueOrderMail } from '../mail/order-mail';
 import { issueCreditNote } from '../orders/invoices';
@@ -101,6 +105,7 @@ async function executeRefund(knex: Knex, deps: PaymentsDeps, request: RefundRequ
     throw error;
   }
   await knex.transaction(async (trx) => {
+    await trx('orders').where({ id: request.order_id }).forUpdate().first('id');
     await recordProviderRefund(trx, 'refund.created', refund as unknown as Record<string, unknown>);
     const done = await trx('refund_requests').where({ id: request.id, status: 'pending' })
       .update({ status: 'done', refund_id: refund.id, last_error: null, updated_at: trx.fn.now() }).returning('id');

@@ -45,11 +45,16 @@ async function applyEvent(trx: Knex.Transaction, deps: PaymentsDeps, event: Stri
   const object = event.data.object as unknown as Record<string, unknown>;
   const stored = await trx('payment_events').insert({ id: event.id, type: event.type, payload: JSON.stringify(event) }).onConflict('id').ignore().returning('id');
   if (stored.length === 0) return { outcome: 'duplicate', orderId: await findOrderId(trx, object) };
-  // Refund facts are kept even when their payment is not known yet.
-  if (event.type === 'charge.refunded' || event.type.startsWith('refund.')) await recordProviderRefund(trx, event.type, object);
+  // Refund facts are kept even when their payment is not known yet; for a known order, after its
+  // row is locked (the lock order in refunds.ts).
+  const refundFact = event.type === 'charge.refunded' || event.type.startsWith('refund.');
   const orderId = await findOrderId(trx, object);
-  if (orderId === null) return { outcome: 'ignored', orderId };
+  if (orderId === null) {
+    if (refundFact) await recordProviderRefund(trx, event.type, object);
+    return { outcome: 'ignored', orderId };
+  }
   const order = await trx('orders').where({ id: orderId }).forUpdate().first();
+  if (refundFact) await recordProviderRefund(trx, event.type, object);
   const done = (outcome: Outcome): Handled => ({ outcome, orderId });
   switch (event.type) {
     case 'checkout.session.completed':
