@@ -95,6 +95,24 @@ describe('a refund at the provider', () => {
   });
 });
 
+describe('a refund Kneepoint asked for, reported before the call that asked returns', () => {
+  it('moves the order with the cancellation\'s own words, as that call\'s result would', async () => {
+    const { order, events } = await paidThenRefundedAtProvider();
+    const byType = (type: string) => events.find((e) => e.type === type)!;
+    await deliver(byType('payment_intent.succeeded'));
+    const intent = (await orderRow(order.id)).payment_intent_id;
+    // The customer's cancellation asked for this refund; the provider's event wins the race to the order.
+    await env.t.knex('refund_requests').insert({
+      order_id: order.id, payment_intent_id: intent, idempotency_key: `refund-order-${order.id}`, reason: 'cancelled',
+      message: 'Changed my mind', status: 'done', refund_id: byType('refund.created').data.object.id,
+    });
+    for (const type of ['checkout.session.completed', 'refund.created', 'charge.refunded']) await deliver(byType(type));
+    await expectRefundedOnce(order.id);
+    const refunded = await env.t.knex('order_events').where({ order_id: order.id, kind: 'state-change', to_state: 'refunded' }).first('message');
+    expect(refunded.message).toBe('Changed my mind');
+  });
+});
+
 describe('a payment that lands after the order was cancelled', () => {
   it('keeps the order cancelled and refunds the money once, however often and in whatever order its events come', async () => {
     const { order, sessionId } = await startPaying();

@@ -63,6 +63,19 @@ export async function applyRefunds(trx: Knex.Transaction, { config }: PaymentsDe
 
 export type RefundReason = 'cancelled' | 'late-payment';
 
+/** The history line of an order refunded because it was cancelled: the canceller's words, or ours. */
+const cancelledMeta = (request: { user_id: number | null; message: string }) => ({ userId: request.user_id, message: request.message || 'Cancelled and refunded' });
+
+/**
+ * How the history names a refund the provider reports for this order: when Kneepoint asked for it
+ * (a cancellation), the same line as if the refund call's own result had moved the order, so the
+ * history does not depend on whether the provider's event or that result comes first.
+ */
+export async function reportedRefundMeta(trx: Db, orderId: number): Promise<{ userId?: number | null; message: string }> {
+  const asked = await trx('refund_requests').where({ order_id: orderId, reason: 'cancelled' }).orderBy('id', 'desc').first('user_id', 'message');
+  return asked ? cancelledMeta(asked) : { message: 'Refunded at the payments provider' };
+}
+
 interface RefundRequest {
   id: number;
   order_id: number;
@@ -118,7 +131,7 @@ async function executeRefund(knex: Knex, deps: PaymentsDeps, request: RefundRequ
         message: 'A payment arrived after the order was cancelled and was refunded at once',
       });
     }
-    const moved = await applyRefunds(trx, deps, request.order_id, { userId: request.user_id, message: request.message || 'Cancelled and refunded' });
+    const moved = await applyRefunds(trx, deps, request.order_id, cancelledMeta(request));
     if (!moved && request.reason === 'cancelled') {
       // The order moved on (e.g. into production) while the provider answered: the money is back, so say so for staff.
       const order = await trx('orders').where({ id: request.order_id }).first('state');

@@ -5,7 +5,7 @@ import { enqueueOrderMail } from '../mail/order-mail';
 import { issueInvoice } from '../orders/invoices';
 import { transitionOrder } from '../orders/transitions';
 import type { PaymentsDeps } from './client';
-import { applyRefunds, recordProviderRefund, refundedCents, requestRefund, settleRefunds } from './refunds';
+import { applyRefunds, recordProviderRefund, refundedCents, reportedRefundMeta, requestRefund, settleRefunds } from './refunds';
 import { providerErrorDetail, shopperPaymentMessage, type ProviderPaymentError } from './shopper-messages';
 
 // A signature's timestamp may be this far from our clock, either way: older is a replay, newer is forged or a broken clock.
@@ -97,7 +97,7 @@ async function applyEvent(trx: Knex.Transaction, deps: PaymentsDeps, event: Stri
     case 'refund.created':
     case 'refund.updated': {
       // Refunds we asked for move the order when recorded; one made at the provider moves it here.
-      const moved = await applyRefunds(trx, deps, orderId, { message: 'Refunded at the payments provider' });
+      const moved = await applyRefunds(trx, deps, orderId, await reportedRefundMeta(trx, orderId));
       return done(moved ? 'processed' : 'ignored');
     }
     case 'checkout.session.expired': {
