@@ -1,7 +1,25 @@
-// The routes the api and plans benches read, and the demo people they read them as (signed in
-// through the API, as a browser would). KP_BENCH_ROUTES=orders,shipping keeps the routes whose
-// label contains one of the words.
+// The routes the api and plans benches read, the demo people they read them as (signed in
+// through the API, as a browser would), and the production settings the app runs with there.
+// KP_BENCH_ROUTES=orders,shipping keeps the routes whose label contains one of the words.
+import { randomBytes } from 'node:crypto';
+import type { Knex } from 'knex';
+
 const PASSWORD = 'kneepoint-demo';
+
+/** The app's environment on the bench database, as production runs it; production refuses the repository's published secrets, so each run makes its own. */
+export function benchAppEnv(databaseUrl: string): NodeJS.ProcessEnv {
+  const secret = () => randomBytes(24).toString('hex');
+  return {
+    ...process.env, DATABASE_URL: databaseUrl, NODE_ENV: 'production', PORT: '0', COOKIE_SECURE: 'false',
+    SESSION_SECRET: secret(), PAYMENTS_API_KEY: secret(), PAYMENTS_WEBHOOK_SECRET: secret(),
+  };
+}
+
+/** The batch whose size is nearest 50 units, for the batch page. */
+export async function benchBatch(knex: Knex): Promise<{ id: number; n: number }> {
+  const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
+  return batch;
+}
 
 export interface Route { label: string; path: string; as: 'planner' | 'owner' | 'assembler' | 'customer' }
 export type Cookies = Record<Route['as'], string>;
@@ -44,7 +62,6 @@ export async function signInWithToken(base: string, email: string): Promise<{ co
   return { cookie: (res.headers.getSetCookie()[0] ?? cookie).split(';')[0], csrf: body.csrfToken ?? csrfToken };
 }
 const signIn = async (base: string, email: string) => (await signInWithToken(base, email)).cookie;
-
 
 /** Signs in the four people the routes are read as. */
 export async function signInAll(base: string): Promise<Cookies> {

@@ -9,7 +9,6 @@
 // Prints figures and targets; asserts nothing.
 import autocannon from 'autocannon';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { randomBytes } from 'node:crypto';
 import http from 'node:http';
 import path from 'node:path';
 import { createInterface } from 'node:readline';
@@ -21,7 +20,7 @@ import { releaseBatch } from '../../server/services/production/release';
 import { benchDatabaseUrl, ensureDataset, scaleFromArgs } from './dataset';
 import type { BenchSection } from './engine';
 import { pollHealth } from './health-poll';
-import { benchRoutes, signInAll, signInWithToken, type Cookies, type Route } from './api-routes';
+import { benchAppEnv, benchBatch, benchRoutes, signInAll, signInWithToken, type Cookies, type Route } from './api-routes';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const CONNECTIONS = 50;
@@ -188,15 +187,10 @@ async function runApiBench() {
   const dataset = await ensureDataset(url, scale);
   const archiveBatch = await ensureArchiveBatch(url);
   const knex = createKnex(url, 1);
-  // A batch of about 50 units for the detail page, and a customer with orders for "my orders".
-  const { rows: [batch] } = await knex.raw(`SELECT batch_id AS id, count(*)::int AS n FROM units GROUP BY batch_id ORDER BY abs(count(*) - 50), batch_id LIMIT 1`);
+  const batch = await benchBatch(knex);
   await knex.destroy();
-
-  // Production refuses the repository's published secrets, so each run makes its own.
-  const secret = () => randomBytes(24).toString('hex');
   const env = {
-    ...process.env, DATABASE_URL: url, NODE_ENV: 'production', PORT: '0',
-    SESSION_SECRET: secret(), PAYMENTS_API_KEY: secret(), PAYMENTS_WEBHOOK_SECRET: secret(), COOKIE_SECURE: 'false',
+    ...benchAppEnv(url),
     // Nothing listens there: the bench's worker must not deliver the dataset's mail anywhere.
     SMTP_PORT: '1',
   };
