@@ -1,5 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { DEMO, signedInAgent, startTestApp } from '../support/app';
+import { appendMovements } from '../../server/services/stock/ledger';
 import { available, makeCatalog } from './production-fixture';
 
 const t = startTestApp();
@@ -61,5 +62,25 @@ describe('kitting through the stock ledger', () => {
       held += m.reserved_delta;
       expect(onHand - held).toBeGreaterThanOrEqual(0);
     }
+  });
+
+  it('a reservation that waited for a part plans with the stock left after the wait, not with what it saw before', async () => {
+    const c = await makeCatalog(t.knex, { stock: 10 });
+    const a = await releasedStockBatch(c.revisionId, c.options.sym, 8);
+    const b = await releasedStockBatch(c.revisionId, c.options.asym, 8);
+    // Another transaction holds the board part and takes 8 of its 10 while the request waits.
+    const trx = await t.knex.transaction();
+    await trx('parts').where({ id: c.parts.pcb }).forNoKeyUpdate().select('id');
+    const pending = b.planner.post(`/api/batches/${b.batchId}/reserve`).set('X-CSRF-Token', b.planner.csrf).send({}).then((r) => r);
+    const waiting = async () => (await t.knex('pg_stat_activity').where({ wait_event_type: 'Lock' }).whereILike('query', '%"parts"%').count({ n: '*' }).first())?.n;
+    for (let i = 0; i < 200 && Number(await waiting()) === 0; i++) await new Promise((r) => setTimeout(r, 25));
+    expect(Number(await waiting())).toBe(1);
+    await appendMovements(trx, [{ partId: c.parts.pcb, kind: 'reserve', quantity: 8, batchId: a.batchId, reason: 'held elsewhere' }]);
+    await trx.commit();
+    const res = await pending;
+    expect(res.status).toBe(200);
+    // The 2 left are reserved; the other 6 boards are short, and nothing went below zero.
+    expect(res.body.stillShort).toBeGreaterThanOrEqual(6);
+    expect(await available(t.knex, c.parts.pcb)).toBe(0);
   });
 });

@@ -60,8 +60,13 @@ export async function lockParts(trx: Knex.Transaction, partIds: number[]): Promi
   assertLockOrder(trx, 'parts');
   const ids = [...new Set(partIds)].sort((a, b) => a - b);
   if (!ids.length) return new Map();
+  // Lock first, then read the balances in a statement of their own. In one locking statement with
+  // the join, a transaction that waited for the lock would get the part row as it is now but the
+  // balance row as it was before the waiting began (PostgreSQL re-checks only the locked table's
+  // rows), and so plan with stock another transaction has just taken.
+  await trx('parts').whereIn('id', ids).orderBy('id').forNoKeyUpdate().select('id');
   const rows = await trx('parts as p').leftJoin('part_balances as b', 'b.part_id', 'p.id').whereIn('p.id', ids)
-    .orderBy('p.id').forNoKeyUpdate('p').select('p.id', 'p.part_number', 'b.on_hand', 'b.reserved');
+    .orderBy('p.id').select('p.id', 'p.part_number', 'b.on_hand', 'b.reserved');
   return new Map(rows.map((r: { id: number; part_number: string; on_hand: number | null; reserved: number | null }) => {
     const onHand = r.on_hand ?? 0;
     const reserved = r.reserved ?? 0;
